@@ -1,0 +1,29 @@
+// Browser tests run in Debian's Chromium (never a downloaded browser) against the app that
+// scripts/test-run.ts starts on a throw-away database; BASE_URL tells them where it is.
+import { defineConfig } from "@playwright/test";
+
+export default defineConfig({
+  testDir: "tests/browser",
+  outputDir: "test-results/browser",
+  timeout: 30_000,
+  workers: 1,
+  reporter: [["list"]],
+  use: {
+    baseURL: process.env.BASE_URL ?? "http://127.0.0.1:3000",
+    screenshot: "only-on-failure",
+    trace: "off",
+    launchOptions: {
+      executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
+      args: [
+        "--headless",
+        "--no-sandbox",
+        "--disable-gpu",
+        "--disable-quic",
+        "--no-first-run",
+        "--disable-background-networking",
+        "--disable-component-update",
+        "--disable-sync",
+      ],
+    },
+  },
+});

@@ -1,0 +1,12 @@
+// `npm run seed`: migrate DATABASE_URL and seed the demo if it is empty.
+import { loadConfig } from "../server/config";
+import { createDb, migrate } from "../server/db/knex";
+import { seedDemoIfEmpty } from "../seeds/demo";
+
+const db = createDb(loadConfig().databaseUrl);
+try {
+  await migrate(db);
+  console.log((await seedDemoIfEmpty(db)) ? "Seeded the demo programs." : "The database already holds data; nothing seeded.");
+} finally {
+  await db.destroy();
+}

@@ -1,0 +1,89 @@
+// `npm start` after the installs: the private PostgreSQL cluster (unless DATABASE_URL is
+// set), migrations, the demo seed (once), the fake mail server, the client build, and the
+// app on PORT. Ctrl-C stops everything it started.
+import path from "node:path";
+import { spawnSync } from "node:child_process";
+import { fileURLToPath } from "node:url";
+import { loadConfig } from "../server/config";
+import { createDb, migrate } from "../server/db/knex";
+import { createMailer } from "../server/mail/mailer";
+import { buildApp } from "../server/app";
+import { seedDemoIfEmpty, DEMO_PASSWORD, DEMO_PROGRAMS } from "../seeds/demo";
+import { clusterDir, freePort, portInUse, startCluster, type Cluster } from "./lib/postgres";
+import { startFakeMail, type FakeMail } from "./lib/mail-server";
+
+const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
+const cleanups: (() => Promise<void> | void)[] = [];
+let stopping = false;
+
+async function shutdown(code: number) {
+  if (stopping) return;
+  stopping = true;
+  console.log("\nStopping Soundings…");
+  for (const c of cleanups.reverse()) {
+    try {
+      await c();
+    } catch (err) {
+      console.error(err);
+    }
+  }
+  process.exit(code);
+}
+process.on("SIGINT", () => void shutdown(0));
+process.on("SIGTERM", () => void shutdown(0));
+
+try {
+  const env = { ...process.env };
+  let cluster: Cluster | undefined;
+  if (!env.DATABASE_URL) {
+    const pgPort = Number(env.PG_PORT ?? 54329);
+    cluster = startCluster(clusterDir(path.join(root, ".data", "postgres")), pgPort);
+    cleanups.push(() => cluster!.stop());
+    env.DATABASE_URL = cluster.url();
+    console.log(`PostgreSQL: private cluster on 127.0.0.1:${pgPort} (data in ${cluster.dataDir})`);
+  }
+
+  let mail: FakeMail | undefined;
+  if (!env.SMTP_HOST) {
+    const smtpPort = Number(env.SMTP_PORT ?? 1025);
+    const webPort = Number(env.MAIL_WEB_PORT ?? 1080);
+    const ports = [(await portInUse(smtpPort)) ? await freePort() : smtpPort, (await portInUse(webPort)) ? await freePort() : webPort];
+    mail = await startFakeMail(ports[0], ports[1]);
+    cleanups.push(() => mail!.close());
+    env.SMTP_HOST = "127.0.0.1";
+    env.SMTP_PORT = String(mail.smtpPort);
+  }
+
+  const config = loadConfig(env);
+  const db = createDb(config.databaseUrl);
+  cleanups.push(() => db.destroy());
+  const applied = await migrate(db);
+  if (applied.length) console.log(`Migrations applied: ${applied.length}`);
+  if (await seedDemoIfEmpty(db)) console.log("Seeded the demo programs.");
+
+  console.log("Building the client…");
+  const build = spawnSync(process.execPath, [path.join(root, "node_modules/vite/bin/vite.js"), "build", "--logLevel", "warn"], { cwd: root, stdio: "inherit" });
+  if (build.status !== 0) throw new Error("The client build failed");
+
+  const mailer = createMailer(config.smtp);
+  cleanups.push(() => mailer.close());
+  const { app } = buildApp({ db, config, mailer });
+  const server = app.listen(config.port, "0.0.0.0");
+  await new Promise<void>((resolve, reject) => {
+    server.once("listening", resolve);
+    server.once("error", reject);
+  });
+  cleanups.push(() => new Promise<void>((r) => server.close(() => r())));
+
+  const demo = DEMO_PROGRAMS.flatMap((p) => p.users.map((u) => `  ${u.email.padEnd(38)} ${u.roles.join(", ").padEnd(22)} ${p.name}`));
+  console.log(`
+Soundings is running at http://127.0.0.1:${config.port}
+${mail ? `Mail sent by the app: ${mail.webUrl} (fake mail server, SMTP on 127.0.0.1:${mail.smtpPort})\n` : ""}
+Demo sign-ins (password "${DEMO_PASSWORD}"):
+${demo.join("\n")}
+
+Press Ctrl-C to stop.`);
+} catch (err) {
+  console.error(err instanceof Error ? err.message : err);
+  await shutdown(1);
+}

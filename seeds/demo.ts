@@ -1,0 +1,62 @@
+// The invented demo: program "Cedar Hollow Emergency Medicine" with people in every role,
+// and a second program, "Tamsin Ridge Critical Care", that exists to prove isolation.
+// Every name and address here is made up. All demo passwords: DEMO_PASSWORD.
+import type { Db } from "../server/db/knex";
+import { hashPassword } from "../server/auth/passwords";
+import { insertCatalogue } from "../server/repositories/applications";
+import { DEFAULT_CATALOGUE } from "../shared/catalogue";
+import type { Role } from "../shared/roles";
+
+export const DEMO_PASSWORD = "soundings-demo";
+
+interface DemoUser {
+  email: string;
+  name: string;
+  roles: Role[];
+}
+
+export const DEMO_PROGRAMS: { name: string; slug: string; users: DemoUser[] }[] = [
+  {
+    name: "Cedar Hollow Emergency Medicine",
+    slug: "cedar-hollow-em",
+    users: [
+      { email: "sonographer@cedarhollow.example", name: "Noa Hartwell", roles: ["sonographer"] },
+      { email: "reviewer@cedarhollow.example", name: "Imani Castellane", roles: ["reviewer"] },
+      { email: "lead@cedarhollow.example", name: "Harriet Quillon", roles: ["qa_lead", "reviewer"] },
+      { email: "admin@cedarhollow.example", name: "Owen Tallisker", roles: ["admin"] },
+      { email: "tobias.ferrand@cedarhollow.example", name: "Tobias Ferrand", roles: ["sonographer"] },
+      { email: "lena.sorvik@cedarhollow.example", name: "Lena Sorvik", roles: ["sonographer"] },
+      { email: "amara.dunleavy@cedarhollow.example", name: "Amara Dunleavy", roles: ["sonographer", "reviewer"] },
+      { email: "elias.brunnhold@cedarhollow.example", name: "Elias Brunnhold", roles: ["reviewer"] },
+    ],
+  },
+  {
+    name: "Tamsin Ridge Critical Care",
+    slug: "tamsin-ridge-cc",
+    users: [
+      { email: "admin@tamsinridge.example", name: "Beatrix Oduya", roles: ["admin", "qa_lead"] },
+      { email: "sonographer@tamsinridge.example", name: "Caspar Welliver", roles: ["sonographer"] },
+      { email: "reviewer@tamsinridge.example", name: "Rosalind Achterberg", roles: ["reviewer"] },
+    ],
+  },
+];
+
+/** Seeds the demo when the database holds no program yet; returns whether it did. */
+export async function seedDemoIfEmpty(db: Db, bcryptRounds = 10): Promise<boolean> {
+  const hash = await hashPassword(DEMO_PASSWORD, bcryptRounds);
+  return db.transaction(async (trx) => {
+    // Serialises concurrent first starts: only one seeds.
+    await trx.raw("LOCK TABLE programs IN EXCLUSIVE MODE");
+    const [{ count }] = await trx("programs").count<{ count: string }[]>("* as count");
+    if (Number(count) > 0) return false;
+    for (const p of DEMO_PROGRAMS) {
+      const [program] = await trx("programs").insert({ name: p.name, slug: p.slug }).returning("id");
+      await insertCatalogue(trx, program.id, DEFAULT_CATALOGUE);
+      for (const u of p.users) {
+        const [user] = await trx("users").insert({ email: u.email, name: u.name, password_hash: hash, password_changed_at: trx.fn.now() }).returning("id");
+        await trx("memberships").insert({ user_id: user.id, program_id: program.id, roles: u.roles });
+      }
+    }
+    return true;
+  });
+}

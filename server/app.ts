@@ -1,0 +1,91 @@
+// Builds the Express app (no listen): security headers, JSON parsing with a size limit,
+// the API routes, OpenAPI, JSON errors, and the built client with history fallback.
+import express from "express";
+import cookieParser from "cookie-parser";
+import helmet from "helmet";
+import fs from "node:fs";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
+import { OpenAPIRegistry, OpenApiGeneratorV31 } from "@asteasolutions/zod-to-openapi";
+import type { Db } from "./db/knex";
+import type { Config } from "./config";
+import type { Mailer } from "./mail/mailer";
+import { apiNotFound, errorHandler } from "./http/errors";
+import type { RouteKit } from "./http/route";
+import { createAuthenticate } from "./auth/passport";
+import { registerHealthRoutes } from "./routes/health/router";
+import { registerAuthRoutes } from "./routes/auth/router";
+import { registerUserRoutes } from "./routes/users/router";
+import { registerApplicationRoutes } from "./routes/applications/router";
+import { registerHomeRoutes } from "./routes/home/router";
+import { registerAuditRoutes } from "./routes/audit/router";
+
+export interface AppDeps {
+  db: Db;
+  config: Config;
+  mailer: Mailer;
+  log?: (msg: unknown) => void;
+}
+
+const here = path.dirname(fileURLToPath(import.meta.url));
+const CLIENT_DIR = path.resolve(here, "../dist");
+
+/** Builds the app and returns it with the table of its API routes. */
+export function buildApp(deps: AppDeps) {
+  const log = deps.log ?? ((m: unknown) => console.error(m));
+  const app = express();
+  app.disable("x-powered-by");
+  app.set("trust proxy", deps.config.trustProxy);
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: { "img-src": ["'self'", "data:", "blob:"], "media-src": ["'self'", "blob:"] },
+      },
+    }),
+  );
+  app.use("/api", express.json({ limit: deps.config.jsonBodyLimit }));
+  app.use("/api", cookieParser());
+
+  const kit: RouteKit = {
+    router: express.Router(),
+    registry: new OpenAPIRegistry(),
+    authenticate: createAuthenticate(deps.db, deps.config.jwtSecret),
+    routes: [],
+  };
+  kit.registry.registerComponent("securitySchemes", "bearer", { type: "http", scheme: "bearer", bearerFormat: "JWT" });
+  kit.registry.registerComponent("securitySchemes", "cookie", { type: "apiKey", in: "cookie", name: "soundings_session" });
+  const ctx = { ...deps, log };
+  registerHealthRoutes(kit, ctx);
+  registerAuthRoutes(kit, ctx);
+  registerHomeRoutes(kit, ctx);
+  registerApplicationRoutes(kit, ctx);
+  registerUserRoutes(kit, ctx);
+  registerAuditRoutes(kit, ctx);
+
+  let openapi: unknown;
+  kit.router.get("/openapi.json", (_req, res) => {
+    openapi ??= new OpenApiGeneratorV31(kit.registry.definitions).generateDocument({
+      openapi: "3.1.0",
+      info: {
+        title: "Soundings API",
+        version: "1",
+        description: "Image-review quality assurance for point-of-care ultrasound programs. Every route is scoped to the caller's program.",
+      },
+      servers: [{ url: "/" }],
+    });
+    res.json(openapi);
+  });
+  kit.routes.push({ method: "GET", path: "/openapi.json", access: "public" });
+
+  app.use("/api", kit.router);
+  app.use("/api", apiNotFound);
+
+  if (fs.existsSync(path.join(CLIENT_DIR, "index.html"))) {
+    app.use(express.static(CLIENT_DIR, { index: false, maxAge: "1h" }));
+    app.get("/{*splat}", (_req, res) => res.sendFile(path.join(CLIENT_DIR, "index.html")));
+  }
+  app.use(errorHandler(log));
+  return { app, routes: kit.routes };
+}
+
+export type RouteContext = AppDeps & { log: (msg: unknown) => void };

@@ -1,0 +1,67 @@
+// Members of a program: the user row joined to its membership in that program.
+import type { Knex } from "knex";
+import type { Db } from "../db/knex";
+import type { Member } from "../../shared/schemas/users";
+import type { SessionUser } from "../../shared/schemas/auth";
+import type { Role } from "../../shared/roles";
+
+type Q = Db | Knex.Transaction;
+
+const iso = (d: Date | null) => (d ? d.toISOString() : null);
+
+const memberColumns = ["u.id", "u.name", "u.email", "m.roles", "m.deactivated_at", "m.created_at", "u.last_sign_in_at"];
+
+interface MemberRow {
+  id: string;
+  name: string;
+  email: string;
+  roles: Role[];
+  deactivated_at: Date | null;
+  created_at: Date;
+  last_sign_in_at: Date | null;
+}
+
+export const presentMember = (r: MemberRow): Member => ({
+  id: r.id,
+  name: r.name,
+  email: r.email,
+  roles: r.roles,
+  active: r.deactivated_at === null,
+  joinedAt: r.created_at.toISOString(),
+  lastSignInAt: iso(r.last_sign_in_at),
+});
+
+const members = (db: Q, programId: string) =>
+  db("memberships as m").join("users as u", "u.id", "m.user_id").where("m.program_id", programId);
+
+export async function listMembers(db: Q, programId: string): Promise<Member[]> {
+  const rows = await members(db, programId).select(memberColumns).orderBy("u.name");
+  return rows.map(presentMember);
+}
+
+/** One member of the program, or undefined (another program's user is simply not found). */
+export async function findMember(db: Q, programId: string, userId: string, lock = false): Promise<MemberRow | undefined> {
+  const q = members(db, programId).where("u.id", userId).first(memberColumns);
+  if (lock) q.forUpdate();
+  return q;
+}
+
+/** Count of active admins in the program, optionally leaving one user out. */
+export async function activeAdminCount(db: Q, programId: string, exceptUserId?: string): Promise<number> {
+  const q = db("memberships").where("program_id", programId).whereNull("deactivated_at").whereRaw(`'admin' = ANY(roles)`);
+  if (exceptUserId) q.andWhereNot("user_id", exceptUserId);
+  const [{ count }] = await q.count<{ count: string }[]>("* as count");
+  return Number(count);
+}
+
+/** The user's active memberships, oldest first, as session users. */
+export async function activeMemberships(db: Q, userId: string): Promise<SessionUser[]> {
+  const rows = await db("memberships as m")
+    .join("users as u", "u.id", "m.user_id")
+    .join("programs as p", "p.id", "m.program_id")
+    .where("m.user_id", userId)
+    .whereNull("m.deactivated_at")
+    .orderBy("m.created_at")
+    .select("u.id", "u.name", "u.email", "m.roles", "p.id as program_id", "p.name as program_name");
+  return rows.map((r) => ({ id: r.id, name: r.name, email: r.email, programId: r.program_id, programName: r.program_name, roles: r.roles }));
+}

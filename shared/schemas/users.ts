@@ -1,0 +1,58 @@
+// People of a program: invitations, roles, deactivation (Setup → People).
+import { z } from "zod";
+import { emailSchema, roleSchema } from "./auth";
+
+export const rolesSchema = z
+  .array(roleSchema)
+  .min(1, "Choose at least one role")
+  .transform((roles) => [...new Set(roles)]);
+
+export const inviteSchema = z.object({
+  email: emailSchema,
+  name: z.string().trim().max(120).optional(),
+  roles: rolesSchema,
+});
+export type InviteInput = z.input<typeof inviteSchema>;
+
+export const updateRolesSchema = z.object({ roles: rolesSchema });
+
+export const memberSchema = z.object({
+  id: z.uuid(),
+  name: z.string(),
+  email: z.string(),
+  roles: z.array(roleSchema),
+  active: z.boolean(),
+  joinedAt: z.string(),
+  lastSignInAt: z.string().nullable(),
+});
+export type Member = z.infer<typeof memberSchema>;
+
+export const invitationSchema = z.object({
+  id: z.uuid(),
+  email: z.string(),
+  roles: z.array(roleSchema),
+  invitedBy: z.string().nullable(),
+  createdAt: z.string(),
+  expiresAt: z.string(),
+  acceptedAt: z.string().nullable(),
+  revokedAt: z.string().nullable(),
+});
+export type Invitation = z.infer<typeof invitationSchema>;
+
+export const auditQuerySchema = z.object({
+  limit: z.coerce.number().int().min(1).max(200).default(50),
+  offset: z.coerce.number().int().min(0).default(0),
+  action: z.string().max(80).optional(),
+});
+
+export const auditEntrySchema = z.object({
+  id: z.string(),
+  at: z.string(),
+  actor: z.string().nullable(),
+  action: z.string(),
+  entityType: z.string().nullable(),
+  entityId: z.string().nullable(),
+  ip: z.string().nullable(),
+  details: z.record(z.string(), z.unknown()).nullable(),
+});
+export type AuditEntry = z.infer<typeof auditEntrySchema>;
