@@ -1,0 +1,37 @@
+// Navigation by role (PRODUCT.md section 9). Only screens that exist are listed; areas such as
+// Submit, Queue and Oversight join here when they are built. Hiding a link is convenience;
+// the server still decides access.
+import type { Role } from "../../../shared/roles";
+
+export interface NavItem {
+  to: string;
+  label: string;
+  /** Roles that see the link; undefined means every signed-in user. */
+  roles?: readonly Role[];
+  end?: boolean;
+}
+
+export interface NavGroup {
+  label: string | null;
+  items: NavItem[];
+}
+
+export const NAV_GROUPS: NavGroup[] = [
+  { label: null, items: [{ to: "/", label: "Home", end: true }] },
+  {
+    label: "Setup",
+    items: [
+      { to: "/setup/people", label: "People", roles: ["admin", "qa_lead"] },
+      { to: "/setup/applications", label: "Applications", roles: ["admin", "qa_lead"] },
+      { to: "/setup/audit", label: "Audit log", roles: ["admin"] },
+    ],
+  },
+];
+
+/** The groups and links a user with these roles sees; empty groups are dropped. */
+export function navFor(roles: readonly Role[]): NavGroup[] {
+  return NAV_GROUPS.map((group) => ({
+    ...group,
+    items: group.items.filter((item) => !item.roles || item.roles.some((r) => roles.includes(r))),
+  })).filter((group) => group.items.length > 0);
+}

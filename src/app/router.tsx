@@ -1,0 +1,96 @@
+// Routes of the client. Every screen is its own lazily loaded chunk so the entry stays
+// small; guards run as loaders against the cached session before a screen renders.
+import type { ComponentType } from "react";
+import { createBrowserRouter, data, redirect, type LoaderFunctionArgs } from "react-router-dom";
+import type { Role } from "../../shared/roles";
+import { setUnauthorizedHandler } from "../lib/api-client";
+import { safeNext } from "../lib/safe-next";
+import { hasAnyRole, sessionKey, sessionQuery } from "../lib/session";
+import { queryClient } from "./query-client";
+import { AppLayout } from "./layout/app-layout";
+import { PublicLayout } from "./layout/public-layout";
+import { RootError, RouteError } from "./layout/route-error";
+import { FullPageLoading } from "./layout/full-page-loading";
+
+function page(load: () => Promise<{ default: ComponentType }>) {
+  return async () => ({ Component: (await load()).default });
+}
+
+async function requireSession({ request }: LoaderFunctionArgs) {
+  const user = await queryClient.ensureQueryData(sessionQuery);
+  if (!user) {
+    const url = new URL(request.url);
+    throw redirect(`/sign-in?next=${encodeURIComponent(url.pathname + url.search)}`);
+  }
+  return null;
+}
+
+function requireRoles(roles: readonly Role[]) {
+  return async () => {
+    const user = await queryClient.ensureQueryData(sessionQuery);
+    if (!hasAnyRole(user, roles)) throw data("You do not have access to this screen.", { status: 403 });
+    return null;
+  };
+}
+
+async function redirectIfSignedIn({ request }: LoaderFunctionArgs) {
+  const user = await queryClient.ensureQueryData(sessionQuery);
+  if (user) throw redirect(safeNext(new URL(request.url).searchParams.get("next")));
+  return null;
+}
+
+export const router = createBrowserRouter([
+  {
+    id: "root",
+    HydrateFallback: FullPageLoading,
+    errorElement: <RootError />,
+    children: [
+      {
+        Component: PublicLayout,
+        children: [
+          { path: "sign-in", loader: redirectIfSignedIn, lazy: page(() => import("../features/auth/routes/sign-in")) },
+          { path: "forgot-password", lazy: page(() => import("../features/auth/routes/forgot-password")) },
+          { path: "reset-password", lazy: page(() => import("../features/auth/routes/reset-password")) },
+          { path: "invitation", lazy: page(() => import("../features/auth/routes/accept-invitation")) },
+        ],
+      },
+      {
+        Component: AppLayout,
+        loader: requireSession,
+        // Re-checking the session on every navigation would cost a request per click.
+        shouldRevalidate: () => false,
+        children: [
+          {
+            errorElement: <RouteError />,
+            children: [
+              { index: true, lazy: page(() => import("../features/home/routes/home")) },
+              {
+                path: "setup/people",
+                loader: requireRoles(["admin", "qa_lead"]),
+                lazy: page(() => import("../features/people/routes/people")),
+              },
+              {
+                path: "setup/audit",
+                loader: requireRoles(["admin"]),
+                lazy: page(() => import("../features/audit/routes/audit-log")),
+              },
+              { path: "setup/applications", lazy: page(() => import("../features/applications/routes/applications")) },
+              { path: "account/password", lazy: page(() => import("../features/auth/routes/change-password")) },
+              { path: "*", lazy: page(() => import("./not-found-page")) },
+            ],
+          },
+        ],
+      },
+    ],
+  },
+]);
+
+// A 401 on any call means the session is gone: forget cached data and ask to sign in again,
+// coming back to the same page afterwards.
+setUnauthorizedHandler(() => {
+  const { pathname, search } = router.state.location;
+  if (pathname === "/sign-in") return;
+  queryClient.removeQueries();
+  queryClient.setQueryData(sessionKey, null);
+  void router.navigate(`/sign-in?next=${encodeURIComponent(pathname + search)}`, { replace: true });
+});

@@ -1,0 +1,54 @@
+// Members and invitations of the program, and the admin's changes to them. Every change
+// invalidates the whole ["users"] prefix: lists are small and must not show stale roles.
+import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import type { Role } from "../../../../shared/roles";
+import type { Invitation, Member } from "../../../../shared/schemas/users";
+import { api } from "../../../lib/api-client";
+
+export const membersQuery = queryOptions({
+  queryKey: ["users", "members"],
+  queryFn: ({ signal }) => api<{ members: Member[] }>("/users", { signal }),
+});
+
+export const invitationsQuery = queryOptions({
+  queryKey: ["users", "invitations"],
+  queryFn: ({ signal }) => api<{ invitations: Invitation[] }>("/users/invitations", { signal }),
+});
+
+export function useMembers() {
+  return useQuery(membersQuery);
+}
+
+export function useInvitations(enabled: boolean) {
+  return useQuery({ ...invitationsQuery, enabled });
+}
+
+function useUsersMutation<TVars, TResult>(fn: (vars: TVars) => Promise<TResult>) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: fn,
+    onSettled: () => queryClient.invalidateQueries({ queryKey: ["users"] }),
+  });
+}
+
+export function useInvite() {
+  return useUsersMutation((body: { email: string; name?: string; roles: Role[] }) =>
+    api<{ invitation: Invitation }>("/users/invitations", { method: "POST", body }),
+  );
+}
+
+export function useRevokeInvitation() {
+  return useUsersMutation((id: string) => api<void>(`/users/invitations/${id}`, { method: "DELETE" }));
+}
+
+export function useUpdateRoles() {
+  return useUsersMutation(({ id, roles }: { id: string; roles: Role[] }) =>
+    api<{ member: Member }>(`/users/${id}/roles`, { method: "PUT", body: { roles } }),
+  );
+}
+
+export function useSetActive() {
+  return useUsersMutation(({ id, active }: { id: string; active: boolean }) =>
+    api<{ member: Member }>(`/users/${id}/${active ? "reactivate" : "deactivate"}`, { method: "POST" }),
+  );
+}
