@@ -1,0 +1,118 @@
+// Test kit for API tests: an app on the real test database (DATABASE_URL from
+// scripts/test-run.ts), factories that make their own programs and people (so test files
+// can run in parallel without touching each other), and the fake mail server's inbox.
+import crypto from "node:crypto";
+import type { Express } from "express";
+import request from "supertest";
+import { loadConfig, type Config } from "../../server/config";
+import { createDb, type Db } from "../../server/db/knex";
+import { createMailer } from "../../server/mail/mailer";
+import { buildApp } from "../../server/app";
+import { hashPassword } from "../../server/auth/passwords";
+import { createSession } from "../../server/repositories/sessions";
+import { signSessionToken } from "../../server/auth/tokens";
+import { insertCatalogue } from "../../server/repositories/applications";
+import { DEFAULT_CATALOGUE } from "../../shared/catalogue";
+import type { Role } from "../../shared/roles";
+
+export const TEST_PASSWORD = "correct-horse-battery-7";
+
+export interface TestKit {
+  app: Express;
+  routes: ReturnType<typeof buildApp>["routes"];
+  db: Db;
+  config: Config;
+  close: () => Promise<void>;
+}
+
+/** An app wired to the test database; `env` overrides settings for this kit only. */
+export function makeKit(env: Record<string, string> = {}): TestKit {
+  if (!process.env.DATABASE_URL) throw new Error("DATABASE_URL is not set: run the tests through `npm test`");
+  const config = loadConfig({ ...process.env, NODE_ENV: "test", ...env });
+  const db = createDb(config.databaseUrl, 4);
+  const mailer = createMailer(config.smtp);
+  const { app, routes } = buildApp({ db, config, mailer, log: () => {} });
+  return {
+    app,
+    routes,
+    db,
+    config,
+    close: async () => {
+      mailer.close();
+      await db.destroy();
+    },
+  };
+}
+
+const uid = () => crypto.randomBytes(5).toString("hex");
+
+export async function makeProgram(db: Db, name = `Test Program ${uid()}`) {
+  const [p] = await db("programs").insert({ name, slug: `test-${uid()}` }).returning(["id", "name"]);
+  await insertCatalogue(db, p.id, DEFAULT_CATALOGUE.slice(0, 3));
+  return p as { id: string; name: string };
+}
+
+export interface TestMember {
+  id: string;
+  email: string;
+  name: string;
+  password: string;
+  programId: string;
+  roles: Role[];
+}
+
+/** A member with a known password; pass `userId` to add an existing person to another program. */
+export async function makeMember(db: Db, programId: string, roles: Role[], opts: { userId?: string; email?: string } = {}): Promise<TestMember> {
+  let user: { id: string; email: string; name: string };
+  if (opts.userId) {
+    user = await db("users").where("id", opts.userId).first("id", "email", "name");
+  } else {
+    const email = opts.email ?? `person-${uid()}@test.example`;
+    [user] = await db("users").insert({ email, name: `Person ${uid()}`, password_hash: await hashPassword(TEST_PASSWORD, 4) }).returning(["id", "email", "name"]);
+  }
+  await db("memberships").insert({ user_id: user.id, program_id: programId, roles });
+  return { ...user, password: TEST_PASSWORD, programId, roles };
+}
+
+/** A valid session token for a member, without going through the rate-limited login. */
+export async function tokenFor(kit: TestKit, m: { id: string; programId: string }): Promise<string> {
+  const sid = await createSession(kit.db, { userId: m.id, programId: m.programId, ttlSeconds: 600 });
+  return signSessionToken(kit.config.jwtSecret, { sub: m.id, sid, pid: m.programId }, 600);
+}
+
+export async function login(kit: TestKit, email: string, password = TEST_PASSWORD) {
+  return request(kit.app).post("/api/auth/login").send({ email, password });
+}
+
+export interface Mail {
+  subject: string;
+  text: string;
+  to: { address: string }[];
+}
+
+/** Waits for the fake mail server to receive a message for `address`. */
+export async function waitForMail(address: string, subjectPart: string, timeoutMs = 8000): Promise<Mail> {
+  const url = process.env.MAILDEV_URL;
+  if (!url) throw new Error("MAILDEV_URL is not set: run the tests through `npm test`");
+  const deadline = Date.now() + timeoutMs;
+  while (Date.now() < deadline) {
+    const all = (await (await fetch(`${url}/email`)).json()) as Mail[];
+    const hit = all.find((m) => m.to.some((t) => t.address === address) && m.subject.includes(subjectPart));
+    if (hit) return hit;
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  throw new Error(`no mail "${subjectPart}" for ${address} within ${timeoutMs} ms`);
+}
+
+/** All messages the fake server holds for `address`. */
+export async function mailsFor(address: string): Promise<Mail[]> {
+  const all = (await (await fetch(`${process.env.MAILDEV_URL}/email`)).json()) as Mail[];
+  return all.filter((m) => m.to.some((t) => t.address === address));
+}
+
+/** The token in the first Soundings link of an e-mail. */
+export const linkToken = (mail: Mail) => {
+  const m = mail.text.match(/[?&]token=([A-Za-z0-9_-]+)/);
+  if (!m) throw new Error(`no token link in: ${mail.text}`);
+  return m[1];
+};
