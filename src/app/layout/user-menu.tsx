@@ -3,11 +3,12 @@
 import { useEffect, useId, useRef, useState } from "react";
 import { Link, useLocation, useNavigate } from "react-router-dom";
 import { useQueryClient } from "@tanstack/react-query";
-import { ChevronDown, LogOut } from "lucide-react";
+import { ChevronDown, KeyRound, LogOut } from "lucide-react";
 import { ROLE_LABELS } from "../../../shared/roles";
 import type { SessionUser } from "../../../shared/schemas/auth";
 import { sessionKey, signOut } from "../../lib/session";
-import { Button } from "../../components/ui/button";
+
+const menuItem = "flex w-full items-center gap-2 rounded-md px-2 py-1.5 text-left font-semibold text-sea-700 hover:bg-sea-50 disabled:opacity-60";
 
 function initials(name: string): string {
   const parts = name.trim().split(/\s+/).filter(Boolean);
@@ -94,13 +95,14 @@ export function UserMenu({ user }: { user: SessionUser }) {
           </div>
         </dl>
         <div className="mt-3 flex flex-col gap-1 border-t border-slate-200 pt-3">
-          <Link to="/account/password" className="rounded-md px-2 py-1.5 text-sea-700 hover:bg-sea-50">
+          <Link to="/account/password" className={menuItem}>
+            <KeyRound aria-hidden="true" className="size-4" />
             Change password
           </Link>
-          <Button variant="ghost" className="justify-start px-2 py-1.5" onClick={handleSignOut} busy={signingOut}>
-            {signingOut ? null : <LogOut aria-hidden="true" className="size-4" />}
-            Sign out
-          </Button>
+          <button type="button" className={menuItem} onClick={handleSignOut} disabled={signingOut} aria-busy={signingOut || undefined}>
+            <LogOut aria-hidden="true" className="size-4" />
+            {signingOut ? "Signing out…" : "Sign out"}
+          </button>
         </div>
       </div>
     </div>

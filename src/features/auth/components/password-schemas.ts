@@ -12,6 +12,13 @@ export const changePasswordFormSchema = changePasswordSchema
   .extend({ confirmPassword: z.string().min(1, "Type the new password again") })
   .refine((v) => v.newPassword === v.confirmPassword, { path: ["confirmPassword"], message: MISMATCH });
 
-export const acceptInvitationFormSchema = acceptInvitationSchema
-  .extend({ confirmPassword: z.string().min(1, "Type the password again") })
-  .refine((v) => v.password === v.confirmPassword, { path: ["confirmPassword"], message: MISMATCH });
+/**
+ * Accepting an invitation: a new account chooses a password and types it twice; an
+ * existing account proves itself with its current password, so there is nothing to repeat.
+ */
+export const acceptInvitationFormSchema = (existingUser: boolean) =>
+  acceptInvitationSchema.extend({ confirmPassword: z.string() }).superRefine((v, ctx) => {
+    if (existingUser) return;
+    if (!v.confirmPassword) ctx.addIssue({ code: "custom", path: ["confirmPassword"], message: "Type the password again" });
+    else if (v.password !== v.confirmPassword) ctx.addIssue({ code: "custom", path: ["confirmPassword"], message: MISMATCH });
+  });

@@ -54,7 +54,7 @@ function AcceptForm({ token, invitation }: { token: string; invitation: Invitati
     setError,
     formState: { errors },
   } = useForm({
-    resolver: zodResolver(acceptInvitationFormSchema),
+    resolver: zodResolver(acceptInvitationFormSchema(invitation.existingUser)),
     defaultValues: { token, name: "", password: "", confirmPassword: "" },
   });
 
@@ -67,6 +67,10 @@ function AcceptForm({ token, invitation }: { token: string; invitation: Invitati
       if (result?.user) navigate("/", { replace: true });
       else navigate("/sign-in", { replace: true, state: { notice: `You have joined ${invitation.programName}. Sign in to continue.` } });
     } catch (error) {
+      if (isApiError(error, 400) && error.code === "wrong_password") {
+        setError("password", { type: "server", message: "This is not the current password of your account" }, { shouldFocus: true });
+        return;
+      }
       if (isApiError(error, 404) || (isApiError(error, 400) && error.code !== "validation_failed")) {
         setDead(true);
         return;
@@ -89,27 +93,39 @@ function AcceptForm({ token, invitation }: { token: string; invitation: Invitati
       </dl>
       {invitation.existingUser ? (
         <p className="mb-4 text-sm text-slate-700">
-          This address already has a Soundings account. Accepting adds {invitation.programName} to it.
+          This address already has a Soundings account. Enter its current password to add {invitation.programName} to it.
         </p>
       ) : null}
       <form onSubmit={onSubmit} noValidate className="space-y-4">
         <FormMessage message={formError} />
         <TextField label="Your name" autoComplete="name" error={errors.name?.message} {...register("name")} />
-        <TextField
-          label="Password"
-          type="password"
-          autoComplete="new-password"
-          hint={`At least ${PASSWORD_MIN} characters.`}
-          error={errors.password?.message}
-          {...register("password")}
-        />
-        <TextField
-          label="Password again"
-          type="password"
-          autoComplete="new-password"
-          error={errors.confirmPassword?.message}
-          {...register("confirmPassword")}
-        />
+        {invitation.existingUser ? (
+          <TextField
+            label="Current password"
+            type="password"
+            autoComplete="current-password"
+            error={errors.password?.message}
+            {...register("password")}
+          />
+        ) : (
+          <>
+            <TextField
+              label="Password"
+              type="password"
+              autoComplete="new-password"
+              hint={`At least ${PASSWORD_MIN} characters.`}
+              error={errors.password?.message}
+              {...register("password")}
+            />
+            <TextField
+              label="Password again"
+              type="password"
+              autoComplete="new-password"
+              error={errors.confirmPassword?.message}
+              {...register("confirmPassword")}
+            />
+          </>
+        )}
         <Button type="submit" className="w-full" busy={accept.isPending}>
           Accept and continue
         </Button>

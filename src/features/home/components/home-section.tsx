@@ -45,11 +45,11 @@ export function HomeSection({ section }: { section: Section }) {
   const nothingWaiting = section.cards.every((c) => c.count === 0);
   return (
     <section aria-labelledby={headingId} className="mb-8">
-      <div className="mb-3 flex flex-wrap items-baseline gap-x-3">
+      <div className="mb-3 flex flex-wrap items-center gap-x-3 gap-y-1">
         <h2 id={headingId} className="text-lg font-semibold text-ink-950">
           {section.title}
         </h2>
-        <span className="text-sm text-slate-600">as {ROLE_LABELS[section.role]}</span>
+        <span className="rounded-full bg-sand-100 px-2 py-0.5 text-xs font-semibold text-sand-800">{ROLE_LABELS[section.role]}</span>
       </div>
       {nothingWaiting ? (
         <p className="mb-3 rounded-md border border-slate-200 bg-paper-200 px-4 py-3 text-sm text-slate-700">

@@ -54,7 +54,7 @@ export function MembersTable({ members, currentUserId, canManage, onEditRoles, o
                   {isSelf ? <span className="ml-1 font-normal text-slate-600">(you)</span> : null}
                   <span className="block text-xs font-normal text-slate-600">Joined {formatDate(m.joinedAt)}</span>
                 </th>
-                <td className="break-all px-3 py-2 text-ink-900">{m.email}</td>
+                <td className="whitespace-nowrap px-3 py-2 text-ink-900">{m.email}</td>
                 <td className="px-3 py-2 text-ink-900">{m.roles.map((r) => ROLE_LABELS[r]).join(", ") || "—"}</td>
                 <td className="px-3 py-2">
                   {m.active ? <StatusTag tone="good">Active</StatusTag> : <StatusTag tone="off">Deactivated</StatusTag>}
