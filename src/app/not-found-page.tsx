@@ -9,8 +9,7 @@ export default function NotFoundPage() {
     <div>
       <PageHeader title="Page not found" />
       <p className="text-slate-700">
-        There is no page at <code className="rounded bg-paper-200 px-1 py-0.5 text-sm">{pathname}</code>. It may have moved, or the link
-        may be mistyped.
+        There is no page at <code className="rounded bg-paper-200 px-1 py-0.5 text-sm">{pathname}</code>. It may have moved, or the link may be mistyped.
       </p>
       <Link to="/" className={buttonClasses("primary", "md", "mt-4")}>
         Go to Home

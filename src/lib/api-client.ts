@@ -70,12 +70,7 @@ export async function api<T>(path: string, options: RequestOptions = {}): Promis
 
   if (!response.ok) {
     const err = (data as Partial<ApiErrorBody> | undefined)?.error;
-    const apiError = new ApiError(
-      response.status,
-      err?.code ?? `http_${response.status}`,
-      err?.message ?? defaultMessage(response.status),
-      err?.details,
-    );
+    const apiError = new ApiError(response.status, err?.code ?? `http_${response.status}`, err?.message ?? defaultMessage(response.status), err?.details);
     if (response.status === 401 && !expectUnauthorized) onUnauthorized?.();
     throw apiError;
   }

@@ -130,3 +130,14 @@ test("a QA lead who opens the audit log is told it is not theirs", async ({ page
   await page.goto("/setup/audit");
   await expect(page.getByRole("heading", { level: 1, name: "No access" })).toBeVisible();
 });
+
+test("the first Tab offers a skip link to the content", async ({ page }) => {
+  await signIn(page, "reviewer@cedarhollow.example");
+  await expect(page.getByRole("heading", { level: 1, name: "Home" })).toBeVisible();
+  await page.keyboard.press("Tab");
+  const skip = page.getByRole("link", { name: "Skip to content" });
+  await expect(skip).toBeFocused();
+  await expect(skip).toBeVisible();
+  await page.keyboard.press("Enter");
+  await expect(page.getByRole("main")).toBeFocused();
+});

@@ -23,7 +23,9 @@ export function SideNav({ roles }: { roles: readonly Role[] }) {
                     end={item.end}
                     className={({ isActive }) =>
                       "block rounded-md px-2 py-1.5 text-sm " +
-                      (isActive ? "bg-white font-semibold text-ink-950 shadow-sm ring-1 ring-slate-200" : "text-slate-700 hover:bg-paper-300 hover:text-ink-950")
+                      (isActive
+                        ? "bg-white font-semibold text-ink-950 shadow-sm ring-1 ring-slate-200"
+                        : "text-slate-700 hover:bg-paper-300 hover:text-ink-950")
                     }
                   >
                     {item.label}

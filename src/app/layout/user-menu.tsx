@@ -17,7 +17,8 @@ function initials(name: string): string {
 }
 
 export function UserMenu({ user }: { user: SessionUser }) {
-  const [open, setOpen] = useState(false);
+  // The panel is open for the page it was opened on: navigating anywhere closes it.
+  const [openOn, setOpenOn] = useState<string | null>(null);
   const [signingOut, setSigningOut] = useState(false);
   const panelId = useId();
   const rootRef = useRef<HTMLDivElement>(null);
@@ -26,16 +27,17 @@ export function UserMenu({ user }: { user: SessionUser }) {
   const navigate = useNavigate();
   const queryClient = useQueryClient();
 
-  useEffect(() => setOpen(false), [location.key]);
+  const open = openOn === location.key;
+  const setOpen = (value: boolean) => setOpenOn(value ? location.key : null);
 
   useEffect(() => {
     if (!open) return;
     function onPointer(event: PointerEvent) {
-      if (!rootRef.current?.contains(event.target as Node)) setOpen(false);
+      if (!rootRef.current?.contains(event.target as Node)) setOpenOn(null);
     }
     function onKey(event: KeyboardEvent) {
       if (event.key === "Escape") {
-        setOpen(false);
+        setOpenOn(null);
         buttonRef.current?.focus();
       }
     }
@@ -68,7 +70,7 @@ export function UserMenu({ user }: { user: SessionUser }) {
         aria-expanded={open}
         aria-controls={panelId}
         aria-label={`Account: ${user.name}`}
-        onClick={() => setOpen((v) => !v)}
+        onClick={() => setOpen(!open)}
         className="flex items-center gap-2 rounded-md px-2 py-1 text-sm text-ink-900 hover:bg-paper-200"
       >
         <span aria-hidden="true" className="grid size-8 place-items-center rounded-full bg-ink-950 text-xs font-semibold text-sea-200">
@@ -77,11 +79,7 @@ export function UserMenu({ user }: { user: SessionUser }) {
         <span className="hidden max-w-40 truncate font-semibold sm:inline">{user.name}</span>
         <ChevronDown aria-hidden="true" className="size-4 text-slate-600" />
       </button>
-      <div
-        id={panelId}
-        hidden={!open}
-        className="absolute right-0 z-40 mt-2 w-72 rounded-lg border border-slate-200 bg-paper-50 p-4 text-sm shadow-lg"
-      >
+      <div id={panelId} hidden={!open} className="absolute right-0 z-40 mt-2 w-72 rounded-lg border border-slate-200 bg-paper-50 p-4 text-sm shadow-lg">
         <p className="font-semibold text-ink-950">{user.name}</p>
         <p className="truncate text-slate-600">{user.email}</p>
         <dl className="mt-3 space-y-2 border-t border-slate-200 pt-3">

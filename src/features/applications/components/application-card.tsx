@@ -41,9 +41,7 @@ export function ApplicationCard({ application }: { application: Application }) {
         <dt className="text-sm font-semibold text-slate-700">Usual transducers</dt>
         <dd className="text-sm text-ink-900">{application.usualTransducers.map((t) => TRANSDUCER_LABELS[t] ?? t).join(", ") || "—"}</dd>
         <dt className="text-sm font-semibold text-slate-700">Typical depth</dt>
-        <dd className="text-sm tabular-nums text-ink-900">
-          {min === max ? `${min} cm` : `${min}–${max} cm`}
-        </dd>
+        <dd className="text-sm tabular-nums text-ink-900">{min === max ? `${min} cm` : `${min}–${max} cm`}</dd>
         <dt className="text-sm font-semibold text-slate-700">Standard views</dt>
         <dd>
           <LabelList items={application.views} />

@@ -8,8 +8,7 @@ export const AUDIT_PAGE_SIZE = 50;
 export const auditQuery = (page: { limit: number; offset: number }) =>
   queryOptions({
     queryKey: ["audit", "list", page],
-    queryFn: ({ signal }) =>
-      api<{ entries: AuditEntry[]; total: number }>(`/audit?limit=${page.limit}&offset=${page.offset}`, { signal }),
+    queryFn: ({ signal }) => api<{ entries: AuditEntry[]; total: number }>(`/audit?limit=${page.limit}&offset=${page.offset}`, { signal }),
   });
 
 export function useAuditLog(page: { limit: number; offset: number }) {

@@ -18,8 +18,7 @@ export interface InvitationPreview {
 export function useSignIn() {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (body: { email: string; password: string }) =>
-      api<SignedIn>("/auth/login", { method: "POST", body, expectUnauthorized: true }),
+    mutationFn: (body: { email: string; password: string }) => api<SignedIn>("/auth/login", { method: "POST", body, expectUnauthorized: true }),
     onSuccess: ({ user }) => {
       queryClient.removeQueries();
       queryClient.setQueryData(sessionKey, user);
@@ -35,8 +34,7 @@ export function useForgotPassword() {
 
 export function useResetPassword() {
   return useMutation({
-    mutationFn: (body: { token: string; password: string }) =>
-      api<void>("/auth/password/reset", { method: "POST", body, expectUnauthorized: true }),
+    mutationFn: (body: { token: string; password: string }) => api<void>("/auth/password/reset", { method: "POST", body, expectUnauthorized: true }),
   });
 }
 

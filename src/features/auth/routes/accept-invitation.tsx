@@ -100,13 +100,7 @@ function AcceptForm({ token, invitation }: { token: string; invitation: Invitati
         <FormMessage message={formError} />
         <TextField label="Your name" autoComplete="name" error={errors.name?.message} {...register("name")} />
         {invitation.existingUser ? (
-          <TextField
-            label="Current password"
-            type="password"
-            autoComplete="current-password"
-            error={errors.password?.message}
-            {...register("password")}
-          />
+          <TextField label="Current password" type="password" autoComplete="current-password" error={errors.password?.message} {...register("password")} />
         ) : (
           <>
             <TextField

@@ -41,7 +41,11 @@ export default function ChangePasswordPage() {
       }
       if (applyServerFieldErrors(error, setError, ["currentPassword", "newPassword"])) return;
       setFormError(
-        isApiError(error, 429) ? "Too many attempts. Please wait a few minutes, then try again." : error instanceof Error ? error.message : "The password could not be changed.",
+        isApiError(error, 429)
+          ? "Too many attempts. Please wait a few minutes, then try again."
+          : error instanceof Error
+            ? error.message
+            : "The password could not be changed.",
       );
     }
   });

@@ -61,13 +61,7 @@ export default function SignInPage() {
       <form onSubmit={onSubmit} noValidate className="space-y-4">
         <FormMessage message={formError} />
         <TextField label="E-mail" type="email" autoComplete="username" error={errors.email?.message} {...register("email")} />
-        <TextField
-          label="Password"
-          type="password"
-          autoComplete="current-password"
-          error={errors.password?.message}
-          {...register("password")}
-        />
+        <TextField label="Password" type="password" autoComplete="current-password" error={errors.password?.message} {...register("password")} />
         <Button type="submit" className="w-full" busy={signIn.isPending}>
           Sign in
         </Button>

@@ -12,9 +12,7 @@ type Card = Section["cards"][number];
 function CardBody({ card }: { card: Card }) {
   return (
     <>
-      <span className={`block text-3xl font-semibold tabular-nums ${card.count === 0 ? "text-slate-600" : "text-ink-950"}`}>
-        {formatCount(card.count)}
-      </span>
+      <span className={`block text-3xl font-semibold tabular-nums ${card.count === 0 ? "text-slate-600" : "text-ink-950"}`}>{formatCount(card.count)}</span>
       <span className="mt-1 block font-semibold text-ink-900">{card.label}</span>
       {card.hint ? <span className="mt-1 block text-sm text-slate-600">{card.hint}</span> : null}
     </>
@@ -52,9 +50,7 @@ export function HomeSection({ section }: { section: Section }) {
         <span className="rounded-full bg-sand-100 px-2 py-0.5 text-xs font-semibold text-sand-800">{ROLE_LABELS[section.role]}</span>
       </div>
       {nothingWaiting ? (
-        <p className="mb-3 rounded-md border border-slate-200 bg-paper-200 px-4 py-3 text-sm text-slate-700">
-          Nothing is waiting for you here right now.
-        </p>
+        <p className="mb-3 rounded-md border border-slate-200 bg-paper-200 px-4 py-3 text-sm text-slate-700">Nothing is waiting for you here right now.</p>
       ) : null}
       {section.cards.length > 0 ? (
         <ul className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">

@@ -42,9 +42,7 @@ export function useRevokeInvitation() {
 }
 
 export function useUpdateRoles() {
-  return useUsersMutation(({ id, roles }: { id: string; roles: Role[] }) =>
-    api<{ member: Member }>(`/users/${id}/roles`, { method: "PUT", body: { roles } }),
-  );
+  return useUsersMutation(({ id, roles }: { id: string; roles: Role[] }) => api<{ member: Member }>(`/users/${id}/roles`, { method: "PUT", body: { roles } }));
 }
 
 export function useSetActive() {

@@ -14,7 +14,8 @@ export function InvitationsList() {
   const revoke = useRevokeInvitation();
   const [target, setTarget] = useState<Invitation | null>(null);
   const [error, setError] = useState<string | null>(null);
-  const now = Date.now();
+  // "Expired" is judged at the time the list was fetched, which keeps rendering pure.
+  const now = query.dataUpdatedAt;
 
   const pending = (query.data?.invitations ?? []).filter((i) => !i.acceptedAt && !i.revokedAt);
 

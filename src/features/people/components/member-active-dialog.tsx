@@ -42,8 +42,7 @@ export function MemberActiveDialog({ member, onClose }: { member: Member | null;
     >
       {deactivating ? (
         <p>
-          {member?.name} will be signed out and can no longer sign in to this program. Their exams, reviews and history stay. You can
-          reactivate them later.
+          {member?.name} will be signed out and can no longer sign in to this program. Their exams, reviews and history stay. You can reactivate them later.
         </p>
       ) : (
         <p>{member?.name} will be able to sign in again with their existing roles.</p>

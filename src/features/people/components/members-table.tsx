@@ -56,9 +56,7 @@ export function MembersTable({ members, currentUserId, canManage, onEditRoles, o
                 </th>
                 <td className="whitespace-nowrap px-3 py-2 text-ink-900">{m.email}</td>
                 <td className="px-3 py-2 text-ink-900">{m.roles.map((r) => ROLE_LABELS[r]).join(", ") || "—"}</td>
-                <td className="px-3 py-2">
-                  {m.active ? <StatusTag tone="good">Active</StatusTag> : <StatusTag tone="off">Deactivated</StatusTag>}
-                </td>
+                <td className="px-3 py-2">{m.active ? <StatusTag tone="good">Active</StatusTag> : <StatusTag tone="off">Deactivated</StatusTag>}</td>
                 <td className="whitespace-nowrap px-3 py-2 tabular-nums text-ink-900">
                   {m.lastSignInAt ? formatDateTime(m.lastSignInAt) : <span className="text-slate-600">Never</span>}
                 </td>
@@ -69,12 +67,7 @@ export function MembersTable({ members, currentUserId, canManage, onEditRoles, o
                         Change roles
                       </Button>
                       {isSelf ? null : (
-                        <Button
-                          variant="ghost"
-                          size="sm"
-                          onClick={() => onToggleActive(m)}
-                          aria-label={`${m.active ? "Deactivate" : "Reactivate"} ${m.name}`}
-                        >
+                        <Button variant="ghost" size="sm" onClick={() => onToggleActive(m)} aria-label={`${m.active ? "Deactivate" : "Reactivate"} ${m.name}`}>
                           {m.active ? "Deactivate" : "Reactivate"}
                         </Button>
                       )}

@@ -28,7 +28,11 @@ export default function PeoplePage() {
       <PageHeader
         eyebrow="Setup"
         title="People"
-        description={isAdmin ? "Members of the program, their roles and pending invitations." : "Members of the program and their roles. Only administrators can make changes."}
+        description={
+          isAdmin
+            ? "Members of the program, their roles and pending invitations."
+            : "Members of the program and their roles. Only administrators can make changes."
+        }
       />
       <section aria-labelledby="members-heading">
         <div className="mb-3 flex flex-wrap items-baseline gap-x-3">
