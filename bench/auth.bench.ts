@@ -3,6 +3,8 @@
 // connection pool. Target: the ratio stays under 4 (a JWT check plus one indexed
 // four-table lookup against a bare `select 1`; measured about 3.5 on 2 cores).
 import http from "node:http";
+import os from "node:os";
+import { createLocalStorage } from "../server/storage/local";
 import { startTemporaryCluster } from "../scripts/lib/postgres";
 import { createDb, migrate } from "../server/db/knex";
 import { loadConfig } from "../server/config";
@@ -19,7 +21,7 @@ const db = createDb(config.databaseUrl);
 try {
   await migrate(db);
   await seedDemoIfEmpty(db, 4);
-  const { app } = buildApp({ db, config, mailer: createMailer(config.smtp), log: () => {} });
+  const { app } = buildApp({ db, config, mailer: createMailer(config.smtp), storage: createLocalStorage(os.tmpdir()), jobs: { enqueueClip: async () => {} }, log: () => {} });
   const server = app.listen(0, "127.0.0.1");
   await new Promise((r) => server.once("listening", r));
   const port = (server.address() as { port: number }).port;

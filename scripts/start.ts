@@ -5,9 +5,7 @@ import path from "node:path";
 import { spawnSync } from "node:child_process";
 import { fileURLToPath } from "node:url";
 import { loadConfig } from "../server/config";
-import { createDb, migrate } from "../server/db/knex";
-import { createMailer } from "../server/mail/mailer";
-import { buildApp } from "../server/app";
+import { createRuntime } from "../server/runtime";
 import { seedDemoIfEmpty, DEMO_PASSWORD, DEMO_PROGRAMS } from "../seeds/demo";
 import { clusterDir, freePort, portInUse, startCluster, type Cluster } from "./lib/postgres";
 import { startFakeMail, type FakeMail } from "./lib/mail-server";
@@ -55,20 +53,15 @@ try {
   }
 
   const config = loadConfig(env);
-  const db = createDb(config.databaseUrl);
-  cleanups.push(() => db.destroy());
-  const applied = await migrate(db);
-  if (applied.length) console.log(`Migrations applied: ${applied.length}`);
-  if (await seedDemoIfEmpty(db)) console.log("Seeded the demo programs.");
+  const runtime = await createRuntime(config, { worker: config.jobs.runWorker });
+  cleanups.push(() => runtime.close());
+  if (await seedDemoIfEmpty(runtime.db)) console.log("Seeded the demo programs.");
 
   console.log("Building the client…");
   const build = spawnSync(process.execPath, [path.join(root, "node_modules/vite/bin/vite.js"), "build", "--logLevel", "warn"], { cwd: root, stdio: "inherit" });
   if (build.status !== 0) throw new Error("The client build failed");
 
-  const mailer = createMailer(config.smtp);
-  cleanups.push(() => mailer.close());
-  const { app } = buildApp({ db, config, mailer });
-  const server = app.listen(config.port, "0.0.0.0");
+  const server = runtime.app.listen(config.port, "0.0.0.0");
   await new Promise<void>((resolve, reject) => {
     server.once("listening", resolve);
     server.once("error", reject);

@@ -7,6 +7,8 @@ import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { createDb, migrate } from "../server/db/knex";
 import { seedDemoIfEmpty } from "../seeds/demo";
+import { createJobQueue } from "../server/jobs/queue";
+import { loadConfig } from "../server/config";
 import { freePort, startTemporaryCluster } from "./lib/postgres";
 import { startFakeMail } from "./lib/mail-server";
 
@@ -40,11 +42,15 @@ try {
     SMTP_HOST: "127.0.0.1",
     SMTP_PORT: String(mail.smtpPort),
     MAILDEV_URL: mail.webUrl,
+    STORAGE_DIR: path.join(cluster.dir, "storage"),
+    UPLOAD_TMP_DIR: path.join(cluster.dir, "uploads"),
   };
   const db = createDb(env.DATABASE_URL);
   await migrate(db);
   await seedDemoIfEmpty(db, 4);
   await db.destroy();
+  // Create the job-queue schema once, before parallel test files race to.
+  await (await createJobQueue(loadConfig(env), { supervise: false })).stop();
 
   if (!only || only === "unit") {
     console.log("== vitest (unit and API tests)");

@@ -19,11 +19,18 @@ import { registerUserRoutes } from "./routes/users/router";
 import { registerApplicationRoutes } from "./routes/applications/router";
 import { registerHomeRoutes } from "./routes/home/router";
 import { registerAuditRoutes } from "./routes/audit/router";
+import { registerExamRoutes } from "./routes/exams/router";
+import { registerClipRoutes } from "./routes/clips/router";
+import type { Storage } from "./storage/types";
+import type { JobQueue } from "./jobs/queue";
 
 export interface AppDeps {
   db: Db;
   config: Config;
   mailer: Mailer;
+  storage: Storage;
+  /** Where clip jobs are sent; the API never processes media itself. */
+  jobs: Pick<JobQueue, "enqueueClip">;
   log?: (msg: unknown) => void;
 }
 
@@ -61,6 +68,8 @@ export function buildApp(deps: AppDeps) {
   registerApplicationRoutes(kit, ctx);
   registerUserRoutes(kit, ctx);
   registerAuditRoutes(kit, ctx);
+  registerExamRoutes(kit, ctx);
+  registerClipRoutes(kit, ctx);
 
   let openapi: unknown;
   kit.router.get("/openapi.json", (_req, res) => {

@@ -1,6 +1,8 @@
 // Runtime configuration from the environment, with the embedded defaults of `npm start`.
 // Production refuses to start without a real JWT secret.
 import path from "node:path";
+import os from "node:os";
+import type { S3Settings } from "./storage/s3";
 
 export interface Config {
   env: "development" | "test" | "production";
@@ -13,6 +15,11 @@ export interface Config {
   appUrl: string;
   smtp: { host: string; port: number; secure: boolean; user?: string; pass?: string; from: string };
   storageDir: string;
+  storage: { driver: "local" | "s3"; s3?: S3Settings };
+  uploads: { maxFileBytes: number; maxClipsPerExam: number; tempDir: string };
+  /** What happens to an original upload once its exam is submitted. */
+  originalRetention: "delete_on_submit" | "keep";
+  jobs: { retryLimit: number; retryDelaySeconds: number; expireInSeconds: number; stuckAfterSeconds: number; runWorker: boolean };
   loginRateLimit: { windowMs: number; max: number };
   jsonBodyLimit: string;
   trustProxy: boolean | number;
@@ -28,6 +35,25 @@ function int(value: string | undefined, fallback: number, name: string): number 
   const n = Number(value);
   if (!Number.isInteger(n) || n < 0) throw new ConfigError(`${name} must be a whole number, got "${value}"`);
   return n;
+}
+
+function storageSettings(env: NodeJS.ProcessEnv): Config["storage"] {
+  if ((env.STORAGE_DRIVER ?? "local") === "local") return { driver: "local" };
+  if (env.STORAGE_DRIVER !== "s3") throw new ConfigError(`STORAGE_DRIVER must be "local" or "s3", got "${env.STORAGE_DRIVER}"`);
+  for (const name of ["S3_BUCKET", "S3_ACCESS_KEY_ID", "S3_SECRET_ACCESS_KEY"]) {
+    if (!env[name]) throw new ConfigError(`${name} must be set when STORAGE_DRIVER=s3`);
+  }
+  return {
+    driver: "s3",
+    s3: {
+      endpoint: env.S3_ENDPOINT || undefined,
+      region: env.S3_REGION ?? "us-east-1",
+      bucket: env.S3_BUCKET!,
+      accessKeyId: env.S3_ACCESS_KEY_ID!,
+      secretAccessKey: env.S3_SECRET_ACCESS_KEY!,
+      forcePathStyle: env.S3_FORCE_PATH_STYLE !== "false",
+    },
+  };
 }
 
 /** Reads the configuration; throws ConfigError when a setting is unusable. */
@@ -55,6 +81,20 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
       from: env.MAIL_FROM ?? "Soundings <no-reply@soundings.example>",
     },
     storageDir: path.resolve(env.STORAGE_DIR ?? "storage"),
+    storage: storageSettings(env),
+    uploads: {
+      maxFileBytes: int(env.MAX_UPLOAD_MB, 500, "MAX_UPLOAD_MB") * 1024 * 1024,
+      maxClipsPerExam: int(env.MAX_CLIPS_PER_EXAM, 20, "MAX_CLIPS_PER_EXAM"),
+      tempDir: path.resolve(env.UPLOAD_TMP_DIR ?? path.join(os.tmpdir(), "soundings-uploads")),
+    },
+    originalRetention: env.ORIGINAL_RETENTION === "keep" ? "keep" : "delete_on_submit",
+    jobs: {
+      retryLimit: int(env.JOB_RETRY_LIMIT, 3, "JOB_RETRY_LIMIT"),
+      retryDelaySeconds: int(env.JOB_RETRY_DELAY_SECONDS, 5, "JOB_RETRY_DELAY_SECONDS"),
+      expireInSeconds: int(env.JOB_EXPIRE_SECONDS, 15 * 60, "JOB_EXPIRE_SECONDS"),
+      stuckAfterSeconds: int(env.JOB_STUCK_AFTER_SECONDS, 20 * 60, "JOB_STUCK_AFTER_SECONDS"),
+      runWorker: env.RUN_WORKER !== "false",
+    },
     loginRateLimit: {
       windowMs: int(env.LOGIN_RATE_WINDOW_MS, 15 * 60_000, "LOGIN_RATE_WINDOW_MS"),
       max: int(env.LOGIN_RATE_MAX, 10, "LOGIN_RATE_MAX"),

@@ -1,20 +1,12 @@
-// Runs the API server alone against DATABASE_URL (migrating first). `npm start` uses
-// scripts/start.ts instead, which also brings up the embedded database and mail server.
+// Runs the API server (and, unless RUN_WORKER=false, a media worker) against DATABASE_URL,
+// migrating first. `npm start` uses scripts/start.ts instead, which also brings up the
+// embedded database and mail server.
 import { loadConfig } from "./config";
-import { createDb, migrate } from "./db/knex";
-import { createMailer } from "./mail/mailer";
-import { buildApp } from "./app";
+import { createRuntime } from "./runtime";
 
 const config = loadConfig();
-const db = createDb(config.databaseUrl);
-await migrate(db);
-const mailer = createMailer(config.smtp);
-const { app } = buildApp({ db, config, mailer });
-const server = app.listen(config.port, () => console.log(`Soundings API on http://127.0.0.1:${config.port}`));
-const stop = () => {
-  server.close();
-  mailer.close();
-  void db.destroy();
-};
+const runtime = await createRuntime(config, { worker: config.jobs.runWorker });
+const server = runtime.app.listen(config.port, () => console.log(`Soundings on http://127.0.0.1:${config.port}`));
+const stop = () => server.close(() => void runtime.close().then(() => process.exit(0)));
 process.once("SIGINT", stop);
 process.once("SIGTERM", stop);

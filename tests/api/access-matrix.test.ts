@@ -2,7 +2,7 @@
 // status written here. A route added without a row here fails the coverage check.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
-import { makeKit, makeMember, makeProgram, tokenFor, type TestKit, type TestMember } from "./helpers";
+import { makeClip, makeExam, makeKit, makeMember, makeProgram, tokenFor, type TestKit, type TestMember } from "./helpers";
 import { ROLES, type Role } from "../../shared/roles";
 import { newEmailToken } from "../../server/auth/tokens";
 
@@ -41,6 +41,12 @@ const only = (allowed: Role[], status: number): Record<Who, number> =>
   Object.fromEntries(WHO.map((w) => [w, w === "anonymous" ? 401 : allowed.includes(w as Role) ? status : 403])) as Record<Who, number>;
 
 const fixed = (path: string, body?: object) => async () => ({ path, body });
+// Exams and clips belong to members.sonographer; "own" = that sonographer, the others are
+// not the owner (so a role that passes the route's role gate still meets the exam policy).
+const ownExam = () => makeExam(kit.db, programId, members.sonographer.id);
+const ownClip = async (state: "queued" | "ready" = "queued") => makeClip(kit, await ownExam(), state);
+const examBody = () => ({ applicationCode: "efast", performedAt: new Date(Date.now() - 60_000).toISOString(), setting: "clinical", transducer: "curvilinear", findings: [] });
+const ownerOr = (owner: number, leadStatus: number, others: number): Record<Who, number> => ({ anonymous: 401, sonographer: owner, reviewer: others, qa_lead: leadStatus, admin: others });
 
 const MATRIX: Row[] = [
   { route: "GET /health", call: fixed("/api/health"), expect: everyone(200) },
@@ -63,6 +69,19 @@ const MATRIX: Row[] = [
   { route: "POST /users/:id/deactivate", call: async () => ({ path: `/api/users/${(await target()).id}/deactivate` }), expect: only(["admin"], 200) },
   { route: "POST /users/:id/reactivate", call: async () => ({ path: `/api/users/${(await target()).id}/reactivate` }), expect: only(["admin"], 200) },
   { route: "GET /audit", call: fixed("/api/audit"), expect: only(["admin"], 200) },
+  { route: "POST /exams", call: async () => ({ path: "/api/exams", body: examBody() }), expect: only(["sonographer"], 201) },
+  { route: "GET /exams", call: fixed("/api/exams"), expect: only(["sonographer"], 200) },
+  { route: "GET /exams/:id", call: async () => ({ path: `/api/exams/${(await ownExam()).id}` }), expect: ownerOr(200, 200, 404) },
+  { route: "PATCH /exams/:id", call: async () => ({ path: `/api/exams/${(await ownExam()).id}`, body: { indication: "Hypotension" } }), expect: only(["sonographer"], 200) },
+  // A draft without clips cannot be submitted: the owner passes every check but that one.
+  { route: "POST /exams/:id/submit", call: async () => ({ path: `/api/exams/${(await ownExam()).id}/submit`, body: { attestNoIdentifiers: true } }), expect: only(["sonographer"], 409) },
+  { route: "DELETE /exams/:id", call: async () => ({ path: `/api/exams/${(await ownExam()).id}` }), expect: only(["sonographer"], 204) },
+  // Multipart without a file: the owner gets as far as validation.
+  { route: "POST /exams/:id/clips", call: async () => ({ path: `/api/exams/${(await ownExam()).id}/clips` }), expect: only(["sonographer"], 400) },
+  { route: "PATCH /clips/:id", call: async () => ({ path: `/api/clips/${(await ownClip()).id}`, body: { view: "ruq" } }), expect: only(["sonographer"], 200) },
+  { route: "POST /clips/:id/retry", call: async () => ({ path: `/api/clips/${(await ownClip()).id}/retry` }), expect: only(["sonographer"], 409) },
+  { route: "DELETE /clips/:id", call: async () => ({ path: `/api/clips/${(await ownClip()).id}` }), expect: only(["sonographer"], 204) },
+  { route: "GET /clips/:id/media/:variant", call: async () => ({ path: `/api/clips/${(await ownClip("ready")).id}/media/video` }), expect: ownerOr(200, 200, 404) },
 ];
 
 describe("role-by-route matrix", () => {

@@ -6,6 +6,8 @@ import { createDb } from "../../server/db/knex";
 import { createMailer } from "../../server/mail/mailer";
 import { buildApp } from "../../server/app";
 import { loadConfig } from "../../server/config";
+import { createLocalStorage } from "../../server/storage/local";
+import os from "node:os";
 
 const cleanups: (() => unknown)[] = [];
 afterAll(async () => {
@@ -19,7 +21,8 @@ describe("GET /api/health", () => {
     const config = loadConfig({ NODE_ENV: "test", DATABASE_URL: cluster.url() });
     const db = createDb(config.databaseUrl, 2);
     cleanups.push(() => db.destroy());
-    const { app } = buildApp({ db, config, mailer: createMailer(config.smtp), log: () => {} });
+    // Health touches neither media nor jobs: storage and queue are inert stand-ins here.
+    const { app } = buildApp({ db, config, mailer: createMailer(config.smtp), storage: createLocalStorage(os.tmpdir()), jobs: { enqueueClip: async () => {} }, log: () => {} });
 
     const up = await request(app).get("/api/health");
     expect(up.status).toBe(200);

@@ -13,6 +13,9 @@ import { createSession } from "../../server/repositories/sessions";
 import { signSessionToken } from "../../server/auth/tokens";
 import { insertCatalogue } from "../../server/repositories/applications";
 import { DEFAULT_CATALOGUE } from "../../shared/catalogue";
+import { createStorage } from "../../server/storage";
+import { createJobQueue, type JobQueue } from "../../server/jobs/queue";
+import type { Storage } from "../../server/storage/types";
 import type { Role } from "../../shared/roles";
 
 export const TEST_PASSWORD = "correct-horse-battery-7";
@@ -22,6 +25,9 @@ export interface TestKit {
   routes: ReturnType<typeof buildApp>["routes"];
   db: Db;
   config: Config;
+  storage: Storage;
+  /** The real job queue, started on first use. */
+  queue: () => Promise<JobQueue>;
   close: () => Promise<void>;
 }
 
@@ -31,14 +37,21 @@ export function makeKit(env: Record<string, string> = {}): TestKit {
   const config = loadConfig({ ...process.env, NODE_ENV: "test", ...env });
   const db = createDb(config.databaseUrl, 4);
   const mailer = createMailer(config.smtp);
-  const { app, routes } = buildApp({ db, config, mailer, log: () => {} });
+  const storage = createStorage(config);
+  let started: Promise<JobQueue> | undefined;
+  const queue = () => (started ??= createJobQueue(config, { supervise: false, log: () => {} }));
+  const jobs = { enqueueClip: async (job: { clipId: string; version: number }) => (await queue()).enqueueClip(job) };
+  const { app, routes } = buildApp({ db, config, mailer, storage, jobs, log: () => {} });
   return {
     app,
     routes,
     db,
     config,
+    storage,
+    queue,
     close: async () => {
       mailer.close();
+      if (started) await (await started).stop();
       await db.destroy();
     },
   };
@@ -116,3 +129,52 @@ export const linkToken = (mail: Mail) => {
   if (!m) throw new Error(`no token link in: ${mail.text}`);
   return m[1];
 };
+
+/** A draft exam row for a sonographer (no clips). */
+export async function makeExam(db: Db, programId: string, sonographerId: string, opts: { application?: string; status?: "draft" | "submitted" } = {}) {
+  const app = await db("applications").where({ program_id: programId, code: opts.application ?? "efast" }).first("id");
+  const submitted = opts.status === "submitted";
+  const [exam] = await db("exams")
+    .insert({
+      program_id: programId,
+      sonographer_id: sonographerId,
+      application_id: app.id,
+      code: `EX-${crypto.randomBytes(3).toString("hex").toUpperCase()}`,
+      performed_at: new Date(Date.now() - 3600_000),
+      setting: "clinical",
+      transducer: "curvilinear",
+      status: submitted ? "submitted" : "draft",
+      submitted_at: submitted ? new Date() : null,
+      attested_at: submitted ? new Date() : null,
+    })
+    .returning("*");
+  return exam as { id: string; code: string; program_id: string };
+}
+
+/** A clip row; a "ready" one gets a small stored poster and video so media routes answer. */
+export async function makeClip(kit: TestKit, exam: { id: string; program_id: string }, state: "queued" | "ready" | "failed" = "queued") {
+  const id = crypto.randomUUID();
+  const row: Record<string, unknown> = {
+    id,
+    exam_id: exam.id,
+    program_id: exam.program_id,
+    kind: "video",
+    state,
+    sha256: crypto.randomBytes(32).toString("hex"),
+    size_bytes: 10,
+    mime: "video/mp4",
+    error: state === "failed" ? "test failure" : null,
+  };
+  if (state === "ready") {
+    const fs = await import("node:fs");
+    const os = await import("node:os");
+    const path = await import("node:path");
+    const tmp = path.join(os.tmpdir(), `soundings-fake-${id}`);
+    fs.writeFileSync(tmp, Buffer.from("0123456789"));
+    for (const name of ["video.mp4", "poster.jpg"]) await kit.storage.put(`programs/${exam.program_id}/clips/${id}/v1/${name}`, tmp, "application/octet-stream");
+    fs.rmSync(tmp);
+    Object.assign(row, { output_key: `programs/${exam.program_id}/clips/${id}/v1/video.mp4`, poster_key: `programs/${exam.program_id}/clips/${id}/v1/poster.jpg`, processed_version: 1 });
+  }
+  await kit.db("clips").insert(row);
+  return { id };
+}

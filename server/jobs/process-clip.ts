@@ -1,0 +1,106 @@
+// The clip job: original → web-playable H.264 MP4 (or a clean still) + poster + frame strip
+// + pre-check metrics, stored under generated keys. Idempotent: a job for an old process
+// version, or one already done, does nothing. Errors propagate so pg-boss retries; on the
+// last attempt the reason is written on the clip for the sonographer to see.
+import fsp from "node:fs/promises";
+import os from "node:os";
+import path from "node:path";
+import type { Db } from "../db/knex";
+import type { Storage } from "../storage/types";
+import type { ClipJob } from "./queue";
+import { processVideo } from "../media/video";
+import { processStill } from "../media/still";
+import { precheckFile } from "../media/precheck";
+import { MediaError } from "../media/exec";
+import type { RedactionBox } from "../../shared/schemas/exams";
+
+export interface ClipJobContext {
+  db: Db;
+  storage: Storage;
+  log?: (e: unknown) => void;
+}
+
+export interface Attempt {
+  retryCount: number;
+  retryLimit: number;
+}
+
+const clipKey = (programId: string, clipId: string, version: number, name: string) => `programs/${programId}/clips/${clipId}/v${version}/${name}`;
+
+/** A message a person can act on; internal details stay in the server log. */
+export function describeFailure(err: unknown): string {
+  // Paths of temporary files mean nothing to the reader and reveal the server's layout.
+  if (err instanceof MediaError) return err.message.replace(/(?:\/[\w.@-]+){2,}/g, "the upload");
+  return "Processing failed because of a server problem; try again, and tell your program lead if it keeps failing";
+}
+
+/** Processes one clip at one version. Throws on failure (after recording the last one). */
+export async function processClipJob(ctx: ClipJobContext, job: ClipJob, attempt: Attempt): Promise<"done" | "skipped"> {
+  const clip = await ctx.db("clips").where("id", job.clipId).first();
+  if (!clip || clip.process_version !== job.version || clip.processed_version === job.version) return "skipped";
+  if (!clip.original_key) {
+    await ctx.db("clips").where({ id: clip.id, process_version: job.version }).update({ state: "failed", error: "The original upload is no longer kept, so this clip cannot be processed again", updated_at: ctx.db.fn.now() });
+    return "skipped";
+  }
+  await ctx.db("clips").where({ id: clip.id, process_version: job.version }).update({ state: "processing", attempts: ctx.db.raw("attempts + 1"), updated_at: ctx.db.fn.now() });
+
+  const work = await fsp.mkdtemp(path.join(os.tmpdir(), "soundings-clip-"));
+  try {
+    const input = path.join(work, "original");
+    await ctx.storage.download(clip.original_key, input);
+    const redactions = (clip.redactions ?? []) as RedactionBox[];
+    const put = async (name: string, file: string, type: string) => {
+      const key = clipKey(clip.program_id, clip.id, job.version, name);
+      await ctx.storage.put(key, file, type);
+      return key;
+    };
+    let update: Record<string, unknown>;
+    if (clip.kind === "video") {
+      const out = await processVideo(input, work, { redactions });
+      const precheck = await precheckFile(out.videoPath).catch(() => null);
+      update = {
+        output_key: await put("video.mp4", out.videoPath, "video/mp4"),
+        poster_key: await put("poster.jpg", out.posterPath, "image/jpeg"),
+        strip_key: await put("strip.jpg", out.stripPath, "image/jpeg"),
+        thumb_key: null,
+        plan: JSON.stringify(out.plan),
+        width: out.width,
+        height: out.height,
+        seconds: out.seconds,
+        fps: out.fps,
+        frames: out.frames,
+        precheck: precheck ? JSON.stringify(precheck) : null,
+      };
+    } else {
+      const out = await processStill(input, work, { redactions });
+      const isPng = out.imagePath.endsWith(".png");
+      const precheck = await precheckFile(out.imagePath).catch(() => null);
+      const imageKey = await put(isPng ? "image.png" : "image.jpg", out.imagePath, isPng ? "image/png" : "image/jpeg");
+      update = {
+        output_key: imageKey,
+        poster_key: imageKey,
+        thumb_key: await put("thumb.jpg", out.thumbPath, "image/jpeg"),
+        strip_key: null,
+        width: out.width,
+        height: out.height,
+        precheck: precheck ? JSON.stringify(precheck) : null,
+      };
+    }
+    const previous = [clip.output_key, clip.poster_key, clip.strip_key, clip.thumb_key].filter(Boolean) as string[];
+    const n = await ctx.db("clips")
+      .where({ id: clip.id, process_version: job.version })
+      .update({ ...update, state: "ready", error: null, processed_version: job.version, processed_at: ctx.db.fn.now(), updated_at: ctx.db.fn.now() });
+    // Outputs of earlier versions are superseded; a newer version's job cleans up after itself.
+    if (n > 0) await Promise.all(previous.filter((k) => !Object.values(update).includes(k)).map((k) => ctx.storage.delete(k).catch(() => undefined)));
+    return "done";
+  } catch (err) {
+    const last = attempt.retryCount >= attempt.retryLimit;
+    ctx.log?.(err);
+    await ctx.db("clips")
+      .where({ id: clip.id, process_version: job.version })
+      .update(last ? { state: "failed", error: describeFailure(err), updated_at: ctx.db.fn.now() } : { state: "queued", error: null, updated_at: ctx.db.fn.now() });
+    throw err;
+  } finally {
+    await fsp.rm(work, { recursive: true, force: true });
+  }
+}

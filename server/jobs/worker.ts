@@ -1,0 +1,45 @@
+// A media worker: takes clip jobs from the shared queue, and sweeps for clips whose
+// processing was lost (a worker killed mid-job) so they are sent again.
+import type PgBoss from "pg-boss";
+import type { Db } from "../db/knex";
+import type { Storage } from "../storage/types";
+import type { Config } from "../config";
+import { CLIP_QUEUE, type ClipJob, type JobQueue } from "./queue";
+import { processClipJob } from "./process-clip";
+
+export interface MediaWorker {
+  stop(): Promise<void>;
+  sweep(): Promise<number>;
+}
+
+/** Requeues clips left queued or processing for longer than `stuckAfterSeconds`. */
+export async function sweepStuckClips(db: Db, queue: JobQueue, stuckAfterSeconds: number): Promise<number> {
+  const stuck = await db("clips")
+    .whereIn("state", ["queued", "processing"])
+    .andWhere("updated_at", "<", db.raw(`now() - make_interval(secs => ?)`, [stuckAfterSeconds]))
+    .update({ state: "queued", updated_at: db.fn.now() })
+    .returning(["id", "process_version"]);
+  await Promise.all(stuck.map((c) => queue.enqueueClip({ clipId: c.id, version: c.process_version })));
+  return stuck.length;
+}
+
+export async function startMediaWorker(deps: { db: Db; storage: Storage; config: Config; queue: JobQueue; log?: (e: unknown) => void }): Promise<MediaWorker> {
+  const { db, storage, config, queue } = deps;
+  const log = deps.log ?? ((e: unknown) => console.error(e));
+  const sweep = () => sweepStuckClips(db, queue, config.jobs.stuckAfterSeconds);
+  await sweep();
+  const timer = setInterval(() => void sweep().catch(log), Math.max(5, Math.min(60, config.jobs.stuckAfterSeconds)) * 1000);
+  timer.unref();
+  const workerId = await queue.boss.work<ClipJob>(CLIP_QUEUE, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 }, async (jobs: PgBoss.JobWithMetadata<ClipJob>[]) => {
+    for (const job of jobs) {
+      await processClipJob({ db, storage, log }, job.data, { retryCount: job.retryCount, retryLimit: job.retryLimit });
+    }
+  });
+  return {
+    sweep,
+    async stop() {
+      clearInterval(timer);
+      await queue.boss.offWork({ id: workerId } as never);
+    },
+  };
+}

@@ -1,0 +1,95 @@
+// Exam and clip queries, always scoped by program.
+import crypto from "node:crypto";
+import type { Knex } from "knex";
+import type { Db } from "../db/knex";
+import type { z } from "zod";
+import type { examListQuerySchema } from "../../shared/schemas/exams";
+import type { ClipRow, ExamDetailRow } from "../presenters/exam";
+import type { FindingRead } from "../../shared/catalogue";
+import type { ExamRow } from "../policies/exam";
+
+type Q = Db | Knex.Transaction;
+
+// Crockford-style alphabet: no I, L, O, U, so codes read aloud without confusion.
+const CODE_ALPHABET = "0123456789ABCDEFGHJKMNPQRSTVWXYZ";
+
+/** A short random exam code such as "EX-7K3Q9M"; uniqueness is enforced by the database. */
+export function newExamCode(): string {
+  const bytes = crypto.randomBytes(6);
+  return `EX-${[...bytes].map((b) => CODE_ALPHABET[b % 32]).join("")}`;
+}
+
+export const findExam = (db: Q, programId: string, id: string) =>
+  db("exams").where({ id, program_id: programId }).first<(ExamRow & { application_id: string }) | undefined>();
+
+export async function examDetail(db: Q, programId: string, id: string) {
+  const exam = (await db("exams as e")
+    .join("applications as a", "a.id", "e.application_id")
+    .join("users as u", "u.id", "e.sonographer_id")
+    .where({ "e.id": id, "e.program_id": programId })
+    .first("e.*", "a.code as app_code", "a.name as app_name", "u.name as sonographer_name")) as ExamDetailRow | undefined;
+  if (!exam) return undefined;
+  const [findings, clips] = await Promise.all([
+    db("exam_findings").where("exam_id", id).orderBy("finding_key") as Promise<{ finding_key: string; read: FindingRead }[]>,
+    db("clips").where("exam_id", id).orderBy(["position", "created_at"]) as Promise<ClipRow[]>,
+  ]);
+  return { exam, findings, clips };
+}
+
+const SORTS: Record<string, [string, "asc" | "desc"]> = {
+  performedAt: ["e.performed_at", "asc"],
+  "-performedAt": ["e.performed_at", "desc"],
+  createdAt: ["e.created_at", "asc"],
+  "-createdAt": ["e.created_at", "desc"],
+  application: ["a.name", "asc"],
+  "-application": ["a.name", "desc"],
+  status: ["e.status", "asc"],
+  "-status": ["e.status", "desc"],
+};
+
+/** One page of a sonographer's own exams with clip counts, and the total for paging. */
+export async function listOwnExams(db: Q, programId: string, userId: string, q: z.output<typeof examListQuerySchema>) {
+  const base = db("exams as e").join("applications as a", "a.id", "e.application_id").where({ "e.program_id": programId, "e.sonographer_id": userId });
+  if (q.status) base.andWhere("e.status", q.status);
+  if (q.application) base.andWhere("a.code", q.application);
+  if (q.from) base.andWhere("e.performed_at", ">=", q.from);
+  if (q.to) base.andWhere("e.performed_at", "<", db.raw(`?::date + 1`, [q.to]));
+  const [column, direction] = SORTS[q.sort];
+  const [rows, [{ count }]] = await Promise.all([
+    base
+      .clone()
+      .select(
+        "e.id",
+        "e.code",
+        "e.status",
+        "e.performed_at",
+        "e.setting",
+        "e.updated_at",
+        "a.code as app_code",
+        "a.name as app_name",
+        db.raw(`(SELECT count(*) FROM clips c WHERE c.exam_id = e.id) AS clip_count`),
+        db.raw(`(SELECT count(*) FROM clips c WHERE c.exam_id = e.id AND c.state = 'ready') AS ready_count`),
+        db.raw(`(SELECT count(*) FROM clips c WHERE c.exam_id = e.id AND c.state = 'failed') AS failed_count`),
+        db.raw(`(SELECT c.id FROM clips c WHERE c.exam_id = e.id AND c.state = 'ready' ORDER BY c.position, c.created_at LIMIT 1) AS poster_clip_id`),
+        db.raw(`(SELECT c.process_version FROM clips c WHERE c.exam_id = e.id AND c.state = 'ready' ORDER BY c.position, c.created_at LIMIT 1) AS poster_version`),
+      )
+      .orderBy([{ column, order: direction }, { column: "e.id", order: "asc" }])
+      .limit(q.limit)
+      .offset(q.offset),
+    base.clone().count<{ count: string }[]>("* as count"),
+  ]);
+  return { rows, total: Number(count) };
+}
+
+/** Replaces an exam's findings with the given reads. */
+export async function replaceFindings(trx: Knex.Transaction, examId: string, findings: { key: string; read: FindingRead }[]) {
+  await trx("exam_findings").where("exam_id", examId).delete();
+  if (findings.length) await trx("exam_findings").insert(findings.map((f) => ({ exam_id: examId, finding_key: f.key, read: f.read })));
+}
+
+/** The clip with its exam, scoped to the program. */
+export const findClipWithExam = (db: Q, programId: string, clipId: string) =>
+  db("clips as c")
+    .join("exams as e", "e.id", "c.exam_id")
+    .where({ "c.id": clipId, "c.program_id": programId })
+    .first("c.*", "e.sonographer_id", "e.status as exam_status", "e.program_id as exam_program_id");

@@ -1,0 +1,114 @@
+// Exams and clips: the submission form and the exam routes validate with these.
+import { z } from "zod";
+import { FINDING_READS, SETTINGS, TRANSDUCERS } from "../catalogue";
+
+export const EXAM_STATUSES = ["draft", "submitted"] as const;
+export const CLIP_STATES = ["queued", "processing", "ready", "failed"] as const;
+
+/** Accepts an ISO date-time; refuses the future (with a minute's grace for clock skew). */
+export const performedAtSchema = z.iso
+  .datetime({ offset: true, message: "Enter the date and time the scan was performed" })
+  .refine((s) => new Date(s).getTime() <= Date.now() + 60_000, "The scan cannot be in the future")
+  .refine((s) => new Date(s).getFullYear() >= 2000, "Enter a date from 2000 on");
+
+export const findingReadSchema = z.object({
+  key: z.string().min(1).max(60),
+  read: z.enum(FINDING_READS, { message: "Choose positive, negative or indeterminate" }),
+});
+
+export const examFieldsSchema = z.object({
+  applicationCode: z.string().min(1, "Choose an application").max(40),
+  performedAt: performedAtSchema,
+  setting: z.enum(SETTINGS, { message: "Choose clinical, educational or simulated" }),
+  transducer: z.enum(TRANSDUCERS, { message: "Choose the transducer used" }),
+  preset: z.string().trim().max(80).default(""),
+  indication: z.string().trim().max(1000).default(""),
+  findings: z
+    .array(findingReadSchema)
+    .max(50)
+    .default([])
+    .refine((f) => new Set(f.map((x) => x.key)).size === f.length, "Each finding may be read once"),
+});
+export type ExamFieldsInput = z.input<typeof examFieldsSchema>;
+
+export const examCreateSchema = examFieldsSchema;
+export const examUpdateSchema = examFieldsSchema.partial();
+
+export const submitExamSchema = z.object({
+  attestNoIdentifiers: z.literal(true, { message: "Confirm that no patient identifiers are visible in any clip" }),
+});
+
+export const redactionBoxSchema = z
+  .object({ x: z.number().min(0).max(1), y: z.number().min(0).max(1), w: z.number().gt(0).max(1), h: z.number().gt(0).max(1) })
+  .refine((b) => b.x + b.w <= 1.0001 && b.y + b.h <= 1.0001, "A box must stay inside the image");
+export type RedactionBox = z.infer<typeof redactionBoxSchema>;
+
+export const clipUpdateSchema = z.object({
+  view: z.string().max(60).nullable().optional(),
+  redactions: z.array(redactionBoxSchema).max(20).optional(),
+});
+
+export const clipSchema = z.object({
+  id: z.uuid(),
+  view: z.string().nullable(),
+  kind: z.enum(["video", "still"]),
+  state: z.enum(CLIP_STATES),
+  error: z.string().nullable(),
+  originalName: z.string(),
+  sizeBytes: z.number(),
+  width: z.number().nullable(),
+  height: z.number().nullable(),
+  seconds: z.number().nullable(),
+  fps: z.number().nullable(),
+  frames: z.number().nullable(),
+  redactions: z.array(redactionBoxSchema),
+  precheck: z.unknown().nullable(),
+  media: z.object({ video: z.string().nullable(), image: z.string().nullable(), poster: z.string().nullable(), strip: z.string().nullable(), thumb: z.string().nullable() }),
+  createdAt: z.string(),
+});
+export type Clip = z.infer<typeof clipSchema>;
+
+export const examSchema = z.object({
+  id: z.uuid(),
+  code: z.string(),
+  status: z.enum(EXAM_STATUSES),
+  application: z.object({ code: z.string(), name: z.string() }),
+  performedAt: z.string(),
+  setting: z.enum(SETTINGS),
+  transducer: z.enum(TRANSDUCERS),
+  preset: z.string(),
+  indication: z.string(),
+  findings: z.array(findingReadSchema),
+  sonographer: z.object({ id: z.uuid(), name: z.string() }).nullable(),
+  clips: z.array(clipSchema),
+  submittedAt: z.string().nullable(),
+  createdAt: z.string(),
+  updatedAt: z.string(),
+});
+export type Exam = z.infer<typeof examSchema>;
+
+export const examListQuerySchema = z.object({
+  status: z.enum(EXAM_STATUSES).optional(),
+  application: z.string().max(40).optional(),
+  from: z.iso.date().optional(),
+  to: z.iso.date().optional(),
+  sort: z.enum(["performedAt", "-performedAt", "createdAt", "-createdAt", "application", "-application", "status", "-status"]).default("-performedAt"),
+  limit: z.coerce.number().int().min(1).max(100).default(25),
+  offset: z.coerce.number().int().min(0).default(0),
+});
+export type ExamListQuery = z.input<typeof examListQuerySchema>;
+
+export const examListItemSchema = z.object({
+  id: z.uuid(),
+  code: z.string(),
+  status: z.enum(EXAM_STATUSES),
+  application: z.object({ code: z.string(), name: z.string() }),
+  performedAt: z.string(),
+  setting: z.enum(SETTINGS),
+  clipCount: z.number(),
+  readyClipCount: z.number(),
+  failedClipCount: z.number(),
+  posterUrl: z.string().nullable(),
+  updatedAt: z.string(),
+});
+export type ExamListItem = z.infer<typeof examListItemSchema>;
