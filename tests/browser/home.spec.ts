@@ -141,3 +141,13 @@ test("the first Tab offers a skip link to the content", async ({ page }) => {
   await page.keyboard.press("Enter");
   await expect(page.getByRole("main")).toBeFocused();
 });
+
+test("each screen names the browser tab", async ({ page }) => {
+  await page.goto("/sign-in");
+  await expect(page).toHaveTitle("Sign in · Soundings");
+  await signIn(page, "admin@cedarhollow.example");
+  await expect(page).toHaveTitle("Home · Soundings");
+  await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Audit log" }).click();
+  await expect(page).toHaveTitle("Audit log · Soundings");
+  await expect(page.getByRole("heading", { level: 1, name: "Audit log" })).toBeFocused();
+});

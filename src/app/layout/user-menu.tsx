@@ -63,7 +63,14 @@ export function UserMenu({ user }: { user: SessionUser }) {
   }
 
   return (
-    <div ref={rootRef} className="relative">
+    <div
+      ref={rootRef}
+      className="relative"
+      onBlur={(event) => {
+        // Tabbing out of the panel closes it, as a click outside does.
+        if (open && event.relatedTarget && !rootRef.current?.contains(event.relatedTarget as Node)) setOpenOn(null);
+      }}
+    >
       <button
         ref={buttonRef}
         type="button"
