@@ -108,24 +108,40 @@ const COMMON_OUTPUT = [
   "-movflags", "+faststart",
 ];
 
-/** The ffmpeg arguments (after the global ones) that turn `input` into `output` per the plan. */
-export function ffmpegArgs(plan: VideoPlan, input: string, output: string, redactions: readonly Redaction[] = []): string[] {
-  if (plan.video === "copy") {
-    return ["-i", input, ...COMMON_OUTPUT, "-c:v", "copy", "-f", "mp4", "-y", output];
-  }
+/**
+ * The ffmpeg runs (arguments after the global ones) that turn `input` into `output` per the plan.
+ * A copy is one run. A transcode encodes into a Matroska intermediate (`${output}.encode.mkv`), then
+ * stream-copies that into the MP4: ffmpeg always tags a stream it encodes with "encoder" (MP4 keeps
+ * it as the sample entry's compressor name, and `-metadata encoder=` cannot delete it), while a
+ * stream copy with `-map_metadata -1` carries no tag at all.
+ */
+export function ffmpegArgs(plan: VideoPlan, input: string, output: string, redactions: readonly Redaction[] = []): string[][] {
+  const toMp4 = (from: string) => ["-i", from, ...COMMON_OUTPUT, "-c:v", "copy", "-f", "mp4", "-y", output];
+  if (plan.video === "copy") return [toMp4(input)];
   const filters = [`scale=${plan.width}:${plan.height}:flags=bicubic`, "setsar=1"];
   for (const b of redactionPixels(redactions, plan.width, plan.height)) {
     filters.push(`drawbox=x=${b.x}:y=${b.y}:w=${b.w}:h=${b.h}:color=black:t=fill`);
   }
   filters.push("format=yuv420p");
-  return [
+  const intermediate = `${output}.encode.mkv`;
+  const encode = [
     "-i", input,
-    ...COMMON_OUTPUT,
+    "-map", "0:v:0",
+    "-an", "-sn", "-dn",
+    "-map_metadata", "-1",
+    "-map_chapters", "-1",
     "-vf", filters.join(","),
     "-c:v", "libx264", "-preset", X264.preset, "-crf", String(X264.crf), "-pix_fmt", "yuv420p",
     "-flags:v", "+bitexact",
+    "-fflags", "+bitexact",
     // x264 writes its version and settings into an SEI message; drop SEI units from our own encode.
     "-bsf:v", "filter_units=remove_types=6",
-    "-f", "mp4", "-y", output,
+    "-f", "matroska", "-y", intermediate,
   ];
+  return [encode, toMp4(intermediate)];
+}
+
+/** Intermediate files ffmpegArgs may create next to `output` (for cleaning up). */
+export function intermediates(output: string): string[] {
+  return [`${output}.encode.mkv`];
 }

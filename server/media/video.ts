@@ -4,7 +4,7 @@ import fs from "node:fs/promises";
 import path from "node:path";
 import sharp from "sharp";
 import { ffmpeg, fileUrl, MediaError } from "./exec";
-import { ffmpegArgs, planVideo, type Redaction, type VideoPlan } from "./plan";
+import { ffmpegArgs, intermediates, planVideo, type Redaction, type VideoPlan } from "./plan";
 import { displaySize, parseRate, probe, type ProbeResult } from "./probe";
 
 export interface ProcessedVideo {
@@ -103,7 +103,10 @@ export async function processVideo(input: string, outDir: string, opts: { redact
   // Write under a temporary name so a crash never leaves a half file under the final name.
   const partial = path.join(outDir, `video.partial-${process.pid}-${Date.now()}.mp4`);
   try {
-    await ffmpeg(ffmpegArgs(plan, fileUrl(input), fileUrl(partial), redactions), "The video could not be converted");
+    for (const step of ffmpegArgs(plan, fileUrl(input), fileUrl(partial), redactions)) {
+      await ffmpeg(step, "The video could not be converted");
+    }
+    await Promise.all(intermediates(partial).map((f) => fs.rm(f, { force: true })));
     await fs.rename(partial, videoPath);
     const out = await probe(videoPath);
     if (!out.video?.width || !out.video.height) throw new MediaError("The converted video has no picture");
@@ -112,7 +115,7 @@ export async function processVideo(input: string, outDir: string, opts: { redact
     await makePosterAndStrip(videoPath, out, width, height, posterPath, stripPath);
     return { videoPath, posterPath, stripPath, plan, width, height, ...clipTiming(out) };
   } catch (err) {
-    await Promise.all([partial, videoPath, posterPath, stripPath].map((f) => fs.rm(f, { force: true })));
+    await Promise.all([partial, ...intermediates(partial), videoPath, posterPath, stripPath].map((f) => fs.rm(f, { force: true })));
     throw err;
   }
 }

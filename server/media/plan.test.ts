@@ -1,0 +1,106 @@
+// The copy-or-transcode decision and its ffmpeg arguments, without any binary.
+import { describe, expect, it } from "vitest";
+import { MediaError } from "./exec";
+import { ffmpegArgs, fitWithin1080, planVideo, redactionPixels } from "./plan";
+import { parseProbe, type ProbeResult } from "./probe";
+
+function probeOf(over: { codec?: string; pixFmt?: string; width?: number; height?: number; format?: string; rotation?: number } = {}): ProbeResult {
+  return parseProbe(
+    JSON.stringify({
+      format: { format_name: over.format ?? "mov,mp4,m4a,3gp,3g2,mj2", duration: "3.0" },
+      streams: [
+        {
+          index: 0,
+          codec_type: "video",
+          codec_name: over.codec ?? "h264",
+          pix_fmt: over.pixFmt ?? "yuv420p",
+          width: over.width ?? 1280,
+          height: over.height ?? 720,
+          r_frame_rate: "30/1",
+          avg_frame_rate: "30/1",
+          side_data_list: over.rotation ? [{ rotation: over.rotation }] : undefined,
+        },
+        { index: 1, codec_type: "audio", codec_name: "aac" },
+      ],
+    }),
+  );
+}
+
+describe("planVideo", () => {
+  it("copies H.264 yuv420p in MP4/MOV at or under 1080p", () => {
+    const plan = planVideo(probeOf());
+    expect(plan.video).toBe("copy");
+    expect(plan.reasons).toEqual([]);
+    expect(planVideo(probeOf({ width: 1080, height: 1920 })).video).toBe("copy"); // portrait 1080p
+    expect(planVideo(probeOf({ width: 1920, height: 1080 })).video).toBe("copy");
+  });
+  it("transcodes HEVC", () => {
+    const plan = planVideo(probeOf({ codec: "hevc" }));
+    expect(plan.video).toBe("transcode");
+    expect(plan.reasons.join()).toMatch(/hevc/);
+  });
+  it("transcodes yuv422p", () => {
+    const plan = planVideo(probeOf({ pixFmt: "yuv422p" }));
+    expect(plan.video).toBe("transcode");
+    expect(plan.reasons.join()).toMatch(/yuv422p/);
+  });
+  it("transcodes and downscales 4K to fit 1080p with even sides", () => {
+    const plan = planVideo(probeOf({ width: 3840, height: 2160 }));
+    expect(plan.video).toBe("transcode");
+    expect([plan.width, plan.height]).toEqual([1920, 1080]);
+    expect(fitWithin1080(2000, 1500)).toEqual({ width: 1440, height: 1080 });
+    expect(fitWithin1080(1081, 1921)).toEqual({ width: 1080, height: 1920 });
+    expect(fitWithin1080(641, 481)).toEqual({ width: 642, height: 482 });
+  });
+  it("transcodes H.264 in an AVI container", () => {
+    const plan = planVideo(probeOf({ format: "avi" }));
+    expect(plan.video).toBe("transcode");
+    expect(plan.reasons.join()).toMatch(/container is avi/);
+  });
+  it("transcodes when redaction boxes are set, and ignores empty boxes", () => {
+    expect(planVideo(probeOf(), { redactions: [{ x: 0.1, y: 0.1, w: 0.2, h: 0.1 }] }).video).toBe("transcode");
+    expect(planVideo(probeOf(), { redactions: [{ x: 0.1, y: 0.1, w: 0, h: 0.1 }] }).video).toBe("copy");
+  });
+  it("reads a display rotation as a swapped size", () => {
+    const plan = planVideo(probeOf({ width: 1920, height: 1080, rotation: -90 }));
+    expect(plan.source).toEqual({ width: 1080, height: 1920 });
+    expect(plan.video).toBe("copy");
+  });
+  it("refuses a file without video", () => {
+    const p = probeOf();
+    expect(() => planVideo({ ...p, video: null, streams: p.streams.slice(1) })).toThrow(MediaError);
+  });
+  it("refuses a box with a coordinate that is not a number", () => {
+    expect(() => planVideo(probeOf(), { redactions: [{ x: NaN, y: 0, w: 1, h: 1 }] })).toThrow(/not a number/);
+  });
+});
+
+describe("ffmpegArgs", () => {
+  it("always drops audio, subtitles, data, chapters and metadata, and writes no encoder tag", () => {
+    for (const plan of [planVideo(probeOf()), planVideo(probeOf({ codec: "vp9", format: "matroska,webm" }))]) {
+      const steps = ffmpegArgs(plan, "in", "out");
+      expect(steps.at(-1)!.at(-1)).toBe("out");
+      for (const a of steps.map((s) => s.join(" ")))
+        for (const opt of ["-an", "-sn", "-dn", "-map_metadata -1", "-map_chapters -1", "-fflags +bitexact", "-map 0:v:0"]) {
+          expect(a).toContain(opt);
+        }
+      expect(steps.at(-1)!.join(" ")).toContain("-movflags +faststart -c:v copy -f mp4");
+    }
+  });
+  it("copies the stream, or encodes libx264 veryfast crf 23 yuv420p", () => {
+    const copy = ffmpegArgs(planVideo(probeOf()), "in", "out");
+    expect(copy).toHaveLength(1);
+    expect(copy[0].join(" ")).toContain("-i in -map 0:v:0");
+    expect(copy[0].join(" ")).toContain("-c:v copy");
+    const [encode, remux] = ffmpegArgs(planVideo(probeOf({ codec: "mpeg4", format: "avi" })), "in", "out");
+    expect(encode.join(" ")).toContain("-c:v libx264 -preset veryfast -crf 23 -pix_fmt yuv420p");
+    expect(encode.join(" ")).toContain("-flags:v +bitexact");
+    expect(remux.join(" ")).toContain(`-i ${encode.at(-1)} `);
+    expect(remux.join(" ")).toContain("-c:v copy");
+  });
+  it("fills redaction boxes black at even pixel edges", () => {
+    expect(redactionPixels([{ x: 0.1, y: 0.1, w: 0.25, h: 0.5 }], 641, 480)).toEqual([{ x: 64, y: 48, w: 162, h: 240 }]);
+    const [a] = ffmpegArgs(planVideo(probeOf(), { redactions: [{ x: 0, y: 0, w: 0.5, h: 0.1 }] }), "in", "out", [{ x: 0, y: 0, w: 0.5, h: 0.1 }]);
+    expect(a[a.indexOf("-vf") + 1]).toBe("scale=1280:720:flags=bicubic,setsar=1,drawbox=x=0:y=0:w=640:h=72:color=black:t=fill,format=yuv420p");
+  });
+});
