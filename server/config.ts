@@ -19,7 +19,7 @@ export interface Config {
   uploads: { maxFileBytes: number; maxClipsPerExam: number; tempDir: string };
   /** What happens to an original upload once its exam is submitted. */
   originalRetention: "delete_on_submit" | "keep";
-  jobs: { retryLimit: number; retryDelaySeconds: number; expireInSeconds: number; stuckAfterSeconds: number; runWorker: boolean };
+  jobs: { schema: string; retryLimit: number; retryDelaySeconds: number; expireInSeconds: number; stuckAfterSeconds: number; runWorker: boolean };
   loginRateLimit: { windowMs: number; max: number };
   jsonBodyLimit: string;
   trustProxy: boolean | number;
@@ -89,6 +89,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     },
     originalRetention: env.ORIGINAL_RETENTION === "keep" ? "keep" : "delete_on_submit",
     jobs: {
+      // Workers and API servers that share a schema must share storage too.
+      schema: env.JOB_SCHEMA ?? "pgboss",
       retryLimit: int(env.JOB_RETRY_LIMIT, 3, "JOB_RETRY_LIMIT"),
       retryDelaySeconds: int(env.JOB_RETRY_DELAY_SECONDS, 5, "JOB_RETRY_DELAY_SECONDS"),
       expireInSeconds: int(env.JOB_EXPIRE_SECONDS, 15 * 60, "JOB_EXPIRE_SECONDS"),

@@ -22,6 +22,7 @@ export async function createJobQueue(config: Config, opts: { supervise?: boolean
   const boss = new PgBoss({
     connectionString: config.databaseUrl,
     application_name: "soundings-jobs",
+    schema: config.jobs.schema,
     max: 4,
     schedule: false,
     supervise: opts.supervise ?? true,

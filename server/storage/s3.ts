@@ -20,6 +20,11 @@ export function createS3Storage(s: S3Settings): Storage {
     region: s.region,
     forcePathStyle: s.forcePathStyle,
     credentials: { accessKeyId: s.accessKeyId, secretAccessKey: s.secretAccessKey },
+    // Many S3-compatible servers do not understand the SDK's default aws-chunked uploads
+    // with checksum trailers (they store the chunk framing as data): only send checksums
+    // when an operation requires them.
+    requestChecksumCalculation: "WHEN_REQUIRED",
+    responseChecksumValidation: "WHEN_REQUIRED",
   });
   const Bucket = s.bucket;
   const body = async (key: string, range?: string) => {

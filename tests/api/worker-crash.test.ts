@@ -1,0 +1,52 @@
+// A media worker killed mid-job: after a worker (re)starts, the sweep sends the clip again
+// and it still ends ready. The first worker is a real separate process (`server/worker.ts`).
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { spawn } from "node:child_process";
+import fs from "node:fs";
+import request from "supertest";
+import { makeKit, makeMember, makeProgram, tokenFor, type TestKit } from "./helpers";
+import { fixtureDir, mpeg4Avi } from "./media-fixtures";
+import { startMediaWorker } from "../../server/jobs/worker";
+
+let kit: TestKit;
+beforeAll(() => {
+  kit = makeKit({ JOB_SCHEMA: "pgboss_crashtest", JOB_STUCK_AFTER_SECONDS: "1" });
+});
+afterAll(() => kit.close());
+
+describe("worker crash", () => {
+  it("finishes a clip whose worker was killed mid-job", async () => {
+    const p = await makeProgram(kit.db);
+    const m = await makeMember(kit.db, p.id, ["sonographer"]);
+    const auth = `Bearer ${await tokenFor(kit, m)}`;
+    const exam = (await request(kit.app).post("/api/exams").set("Authorization", auth).send({ applicationCode: "efast", performedAt: new Date(Date.now() - 60_000).toISOString(), setting: "simulated", transducer: "curvilinear" })).body.exam;
+    const dir = fixtureDir();
+    // Big enough that the transcode is still running when the worker is killed.
+    const up = await request(kit.app).post(`/api/exams/${exam.id}/clips`).set("Authorization", auth).attach("file", mpeg4Avi(dir, "long.avi", { seconds: 12, size: "1280x720" }));
+    expect(up.status).toBe(202);
+
+    const child = spawn(process.execPath, ["--import", "tsx", "server/worker.ts"], {
+      env: { ...process.env, NODE_ENV: "test", JOB_SCHEMA: "pgboss_crashtest", JOB_STUCK_AFTER_SECONDS: "3600" },
+      stdio: "ignore",
+    });
+    const state = async () => (await kit.db("clips").where("id", up.body.id).first()).state as string;
+    for (let i = 0; i < 300 && (await state()) !== "processing"; i++) await new Promise((r) => setTimeout(r, 100));
+    expect(await state()).toBe("processing");
+    child.kill("SIGKILL");
+    await new Promise((r) => child.once("exit", r));
+    expect(await state()).toBe("processing");
+
+    await new Promise((r) => setTimeout(r, 1200));
+    const worker = await startMediaWorker({ db: kit.db, storage: kit.storage, config: kit.config, queue: await kit.queue(), log: () => {} });
+    try {
+      for (let i = 0; i < 600 && (await state()) !== "ready"; i++) await new Promise((r) => setTimeout(r, 100));
+      expect(await state()).toBe("ready");
+      const row = await kit.db("clips").where("id", up.body.id).first();
+      expect(row.attempts).toBeGreaterThanOrEqual(2);
+      expect(await kit.storage.size(row.output_key)).toBeGreaterThan(0);
+    } finally {
+      await worker.stop();
+      fs.rmSync(dir, { recursive: true, force: true });
+    }
+  }, 90_000);
+});
