@@ -84,11 +84,7 @@ export const DEFAULT_CATALOGUE: CatalogueEntry[] = [
     name: "Biliary",
     usualTransducers: ["curvilinear"],
     typicalDepthCm: [8, 16],
-    views: [
-      v("gb_long", "Gallbladder, long axis"),
-      v("gb_trans", "Gallbladder, transverse"),
-      v("cbd", "Common bile duct"),
-    ],
+    views: [v("gb_long", "Gallbladder, long axis"), v("gb_trans", "Gallbladder, transverse"), v("cbd", "Common bile duct")],
     findings: [
       v("gallstones", "Gallstones"),
       v("wall_thickening", "Gallbladder wall thickening"),
@@ -139,12 +135,7 @@ export const DEFAULT_CATALOGUE: CatalogueEntry[] = [
     name: "Lower-extremity DVT",
     usualTransducers: ["linear"],
     typicalDepthCm: [3, 6],
-    views: [
-      v("cfv", "Common femoral vein"),
-      v("sfj", "Saphenofemoral junction"),
-      v("fv", "Femoral vein"),
-      v("popliteal", "Popliteal vein"),
-    ],
+    views: [v("cfv", "Common femoral vein"), v("sfj", "Saphenofemoral junction"), v("fv", "Femoral vein"), v("popliteal", "Popliteal vein")],
     findings: [v("non_compressible", "Non-compressible vein segment")],
   },
   {
@@ -153,22 +144,14 @@ export const DEFAULT_CATALOGUE: CatalogueEntry[] = [
     usualTransducers: ["curvilinear", "endocavitary"],
     typicalDepthCm: [10, 18],
     views: [v("uterus_long", "Uterus, longitudinal"), v("uterus_trans", "Uterus, transverse")],
-    findings: [
-      v("iup", "Intrauterine pregnancy"),
-      v("cardiac_activity", "Embryonic cardiac activity"),
-      v("free_fluid", "Free fluid"),
-    ],
+    findings: [v("iup", "Intrauterine pregnancy"), v("cardiac_activity", "Embryonic cardiac activity"), v("free_fluid", "Free fluid")],
   },
   {
     code: "ocular",
     name: "Ocular",
     usualTransducers: ["linear"],
     typicalDepthCm: [4, 5],
-    views: [
-      v("globe_trans", "Globe, transverse"),
-      v("globe_sag", "Globe, sagittal"),
-      v("onsd", "Optic nerve sheath"),
-    ],
+    views: [v("globe_trans", "Globe, transverse"), v("globe_sag", "Globe, sagittal"), v("onsd", "Optic nerve sheath")],
     findings: [
       v("retinal_detachment", "Retinal detachment"),
       v("vitreous_hemorrhage", "Vitreous haemorrhage"),
@@ -181,11 +164,7 @@ export const DEFAULT_CATALOGUE: CatalogueEntry[] = [
     usualTransducers: ["linear"],
     typicalDepthCm: [2, 6],
     views: [v("plane_1", "Area of interest, first plane"), v("plane_2", "Area of interest, second plane")],
-    findings: [
-      v("abscess", "Abscess"),
-      v("cobblestoning", "Cobblestoning"),
-      v("foreign_body", "Foreign body"),
-    ],
+    findings: [v("abscess", "Abscess"), v("cobblestoning", "Cobblestoning"), v("foreign_body", "Foreign body")],
   },
   {
     code: "procedure",
@@ -193,9 +172,6 @@ export const DEFAULT_CATALOGUE: CatalogueEntry[] = [
     usualTransducers: ["linear"],
     typicalDepthCm: [2, 6],
     views: [v("target_needle", "Target and needle in plane")],
-    findings: [
-      v("target_identified", "Target identified"),
-      v("needle_tip_seen", "Needle tip seen throughout"),
-    ],
+    findings: [v("target_identified", "Target identified"), v("needle_tip_seen", "Needle tip seen throughout")],
   },
 ];

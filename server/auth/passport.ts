@@ -36,7 +36,9 @@ export function createAuthenticate(db: Db, secret: string): RequestHandler {
         if (err) return next(err);
         if (!user) {
           const expired = info instanceof Error && info.name === "TokenExpiredError";
-          return next(new HttpError(401, expired ? "session_expired" : "unauthorized", expired ? "Your session has expired; sign in again" : "Sign in to continue"));
+          return next(
+            new HttpError(401, expired ? "session_expired" : "unauthorized", expired ? "Your session has expired; sign in again" : "Sign in to continue"),
+          );
         }
         req.user = user;
         next();

@@ -101,8 +101,10 @@ export function defineRoute<B extends ZodType | undefined = undefined, Q extends
     responses[status] = r.schema ? { description: r.description, content: { "application/json": { schema: r.schema } } } : { description: r.description };
   }
   if (spec.access !== "public") responses["401"] = { description: "Not signed in", content: { "application/json": { schema: errorSchema } } };
-  if (Array.isArray(spec.access)) responses["403"] = { description: `Needs one of: ${spec.access.join(", ")}`, content: { "application/json": { schema: errorSchema } } };
-  if (spec.body || spec.query || spec.params) responses["400"] = { description: "Validation failed; the message names the field", content: { "application/json": { schema: errorSchema } } };
+  if (Array.isArray(spec.access))
+    responses["403"] = { description: `Needs one of: ${spec.access.join(", ")}`, content: { "application/json": { schema: errorSchema } } };
+  if (spec.body || spec.query || spec.params)
+    responses["400"] = { description: "Validation failed; the message names the field", content: { "application/json": { schema: errorSchema } } };
   kit.registry.registerPath({
     method: spec.method,
     path: `/api${toOpenApiPath(spec.path)}`,

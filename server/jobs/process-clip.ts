@@ -39,10 +39,16 @@ export async function processClipJob(ctx: ClipJobContext, job: ClipJob, attempt:
   const clip = await ctx.db("clips").where("id", job.clipId).first();
   if (!clip || clip.process_version !== job.version || clip.processed_version === job.version) return "skipped";
   if (!clip.original_key) {
-    await ctx.db("clips").where({ id: clip.id, process_version: job.version }).update({ state: "failed", error: "The original upload is no longer kept, so this clip cannot be processed again", updated_at: ctx.db.fn.now() });
+    await ctx
+      .db("clips")
+      .where({ id: clip.id, process_version: job.version })
+      .update({ state: "failed", error: "The original upload is no longer kept, so this clip cannot be processed again", updated_at: ctx.db.fn.now() });
     return "skipped";
   }
-  await ctx.db("clips").where({ id: clip.id, process_version: job.version }).update({ state: "processing", attempts: ctx.db.raw("attempts + 1"), updated_at: ctx.db.fn.now() });
+  await ctx
+    .db("clips")
+    .where({ id: clip.id, process_version: job.version })
+    .update({ state: "processing", attempts: ctx.db.raw("attempts + 1"), updated_at: ctx.db.fn.now() });
 
   const work = await fsp.mkdtemp(path.join(os.tmpdir(), "soundings-clip-"));
   try {
@@ -87,7 +93,8 @@ export async function processClipJob(ctx: ClipJobContext, job: ClipJob, attempt:
       };
     }
     const previous = [clip.output_key, clip.poster_key, clip.strip_key, clip.thumb_key].filter(Boolean) as string[];
-    const n = await ctx.db("clips")
+    const n = await ctx
+      .db("clips")
       .where({ id: clip.id, process_version: job.version })
       .update({ ...update, state: "ready", error: null, processed_version: job.version, processed_at: ctx.db.fn.now(), updated_at: ctx.db.fn.now() });
     // Outputs of earlier versions are superseded; a newer version's job cleans up after itself.
@@ -96,9 +103,12 @@ export async function processClipJob(ctx: ClipJobContext, job: ClipJob, attempt:
   } catch (err) {
     const last = attempt.retryCount >= attempt.retryLimit;
     ctx.log?.(err);
-    await ctx.db("clips")
+    await ctx
+      .db("clips")
       .where({ id: clip.id, process_version: job.version })
-      .update(last ? { state: "failed", error: describeFailure(err), updated_at: ctx.db.fn.now() } : { state: "queued", error: null, updated_at: ctx.db.fn.now() });
+      .update(
+        last ? { state: "failed", error: describeFailure(err), updated_at: ctx.db.fn.now() } : { state: "queued", error: null, updated_at: ctx.db.fn.now() },
+      );
     throw err;
   } finally {
     await fsp.rm(work, { recursive: true, force: true });

@@ -30,7 +30,12 @@ export async function createJobQueue(config: Config, opts: { supervise?: boolean
   });
   boss.on("error", (e) => (opts.log ?? console.error)(e));
   await boss.start();
-  const retry = { retryLimit: config.jobs.retryLimit, retryDelay: config.jobs.retryDelaySeconds, retryBackoff: true, expireInSeconds: config.jobs.expireInSeconds };
+  const retry = {
+    retryLimit: config.jobs.retryLimit,
+    retryDelay: config.jobs.retryDelaySeconds,
+    retryBackoff: true,
+    expireInSeconds: config.jobs.expireInSeconds,
+  };
   await boss.createQueue(CLIP_QUEUE, { name: CLIP_QUEUE, ...retry });
   return {
     boss,

@@ -30,11 +30,15 @@ export async function startMediaWorker(deps: { db: Db; storage: Storage; config:
   await sweep();
   const timer = setInterval(() => void sweep().catch(log), Math.max(5, Math.min(60, config.jobs.stuckAfterSeconds)) * 1000);
   timer.unref();
-  const workerId = await queue.boss.work<ClipJob>(CLIP_QUEUE, { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 }, async (jobs: PgBoss.JobWithMetadata<ClipJob>[]) => {
-    for (const job of jobs) {
-      await processClipJob({ db, storage, log }, job.data, { retryCount: job.retryCount, retryLimit: job.retryLimit });
-    }
-  });
+  const workerId = await queue.boss.work<ClipJob>(
+    CLIP_QUEUE,
+    { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 },
+    async (jobs: PgBoss.JobWithMetadata<ClipJob>[]) => {
+      for (const job of jobs) {
+        await processClipJob({ db, storage, log }, job.data, { retryCount: job.retryCount, retryLimit: job.retryLimit });
+      }
+    },
+  );
   return {
     sweep,
     async stop() {

@@ -6,11 +6,15 @@ const escape = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)}
 const htmlOf = (text: string) =>
   `<div style="font-family:sans-serif;line-height:1.5">${text
     .split("\n\n")
-    .map((p) => `<p>${escape(p).replace(/(https?:\/\/\S+)/g, '<a href="$1">$1</a>').replace(/\n/g, "<br>")}</p>`)
+    .map(
+      (p) =>
+        `<p>${escape(p)
+          .replace(/(https?:\/\/\S+)/g, '<a href="$1">$1</a>')
+          .replace(/\n/g, "<br>")}</p>`,
+    )
     .join("")}</div>`;
 
-const footer =
-  "Soundings supports education and quality review of point-of-care ultrasound. It does not make diagnoses.";
+const footer = "Soundings supports education and quality review of point-of-care ultrasound. It does not make diagnoses.";
 
 export function invitationMail(p: { to: string; programName: string; roles: Role[]; inviter: string; link: string; expiresHours: number }): MailMessage {
   const roles = p.roles.map((r) => ROLE_LABELS[r]).join(", ");

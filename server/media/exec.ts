@@ -24,18 +24,13 @@ export function trimReason(stderr: string): string {
 /** Runs a binary and resolves with its stdout as a Buffer; rejects with stderr attached. */
 export function runTool(bin: string, args: string[], opts: { maxBuffer?: number } = {}): Promise<Buffer> {
   return new Promise((resolve, reject) => {
-    execFile(
-      bin,
-      args,
-      { encoding: "buffer", maxBuffer: opts.maxBuffer ?? 256 * 1024 * 1024, windowsHide: true },
-      (err, stdout, stderr) => {
-        if (err) {
-          const e = err as NodeJS.ErrnoException & { stderrText?: string };
-          e.stderrText = stderr.toString("utf8");
-          reject(e);
-        } else resolve(stdout);
-      },
-    );
+    execFile(bin, args, { encoding: "buffer", maxBuffer: opts.maxBuffer ?? 256 * 1024 * 1024, windowsHide: true }, (err, stdout, stderr) => {
+      if (err) {
+        const e = err as NodeJS.ErrnoException & { stderrText?: string };
+        e.stderrText = stderr.toString("utf8");
+        reject(e);
+      } else resolve(stdout);
+    });
   });
 }
 

@@ -1,7 +1,7 @@
 // The copy-or-transcode decision and its ffmpeg arguments, without any binary.
 import { describe, expect, it } from "vitest";
 import { MediaError } from "./exec";
-import { ffmpegArgs, fitWithin1080, planVideo, redactionPixels } from "./plan";
+import { ffmpegArgs, fitWithin1080, planVideo, redactionPixels, selectAtTimes } from "./plan";
 import { parseProbe, type ProbeResult } from "./probe";
 
 function probeOf(over: { codec?: string; pixFmt?: string; width?: number; height?: number; format?: string; rotation?: number } = {}): ProbeResult {
@@ -76,31 +76,37 @@ describe("planVideo", () => {
 });
 
 describe("ffmpegArgs", () => {
+  const tap = { times: [0.5, 1], width: 1280, height: 720 };
   it("always drops audio, subtitles, data, chapters and metadata, and writes no encoder tag", () => {
     for (const plan of [planVideo(probeOf()), planVideo(probeOf({ codec: "vp9", format: "matroska,webm" }))]) {
-      const steps = ffmpegArgs(plan, "in", "out");
-      expect(steps.at(-1)!.at(-1)).toBe("out");
-      for (const a of steps.map((s) => s.join(" ")))
-        for (const opt of ["-an", "-sn", "-dn", "-map_metadata -1", "-map_chapters -1", "-fflags +bitexact", "-map 0:v:0"]) {
-          expect(a).toContain(opt);
-        }
-      expect(steps.at(-1)!.join(" ")).toContain("-movflags +faststart -c:v copy -f mp4");
+      const a = ffmpegArgs(plan, "in", "out").join(" ");
+      for (const opt of ["-an", "-sn", "-dn", "-map_metadata -1", "-map_chapters -1", "-fflags +bitexact", "-movflags +faststart -"]) {
+        expect(a).toContain(opt);
+      }
+      expect(a).toMatch(/ -f mp4 -y out$/);
     }
   });
-  it("copies the stream, or encodes libx264 veryfast crf 23 yuv420p", () => {
-    const copy = ffmpegArgs(planVideo(probeOf()), "in", "out");
-    expect(copy).toHaveLength(1);
-    expect(copy[0].join(" ")).toContain("-i in -map 0:v:0");
-    expect(copy[0].join(" ")).toContain("-c:v copy");
-    const [encode, remux] = ffmpegArgs(planVideo(probeOf({ codec: "mpeg4", format: "avi" })), "in", "out");
-    expect(encode.join(" ")).toContain("-c:v libx264 -preset veryfast -crf 23 -pix_fmt yuv420p");
-    expect(encode.join(" ")).toContain("-flags:v +bitexact");
-    expect(remux.join(" ")).toContain(`-i ${encode.at(-1)} `);
-    expect(remux.join(" ")).toContain("-c:v copy");
+  it("copies the stream, decoding only keyframes for the frame tap", () => {
+    const a = ffmpegArgs(planVideo(probeOf()), "in", "out", { tap: { ...tap, keyframesOnly: true } }).join(" ");
+    expect(a).toMatch(/^-skip_frame nokey -i in -map 0:v:0 .* -c:v copy -f mp4 -y out -map 0:v:0 -vf select=.* -frames:v 2 -f rawvideo pipe:1$/);
   });
-  it("fills redaction boxes black at even pixel edges", () => {
+  it("encodes libx264 veryfast crf 23 yuv420p with a keyframe every second", () => {
+    const a = ffmpegArgs(planVideo(probeOf({ codec: "mpeg4", format: "avi" })), "in", "out", { tap }).join(" ");
+    expect(a).toContain("-map [enc]");
+    expect(a).toContain("-c:v libx264 -preset veryfast -crf 23 -pix_fmt yuv420p");
+    expect(a).toContain("-force_key_frames expr:gte(t,n_forced*1)");
+    expect(a).toContain("-flags:v +bitexact");
+    expect(a).toMatch(/-map \[frames\] -fps_mode passthrough -frames:v 2 -f rawvideo pipe:1$/);
+  });
+  it("fills redaction boxes black at even pixel edges, before the frames are tapped", () => {
     expect(redactionPixels([{ x: 0.1, y: 0.1, w: 0.25, h: 0.5 }], 641, 480)).toEqual([{ x: 64, y: 48, w: 162, h: 240 }]);
-    const [a] = ffmpegArgs(planVideo(probeOf(), { redactions: [{ x: 0, y: 0, w: 0.5, h: 0.1 }] }), "in", "out", [{ x: 0, y: 0, w: 0.5, h: 0.1 }]);
-    expect(a[a.indexOf("-vf") + 1]).toBe("scale=1280:720:flags=bicubic,setsar=1,drawbox=x=0:y=0:w=640:h=72:color=black:t=fill,format=yuv420p");
+    const box = { x: 0, y: 0, w: 0.5, h: 0.1 };
+    const a = ffmpegArgs(planVideo(probeOf(), { redactions: [box] }), "in", "out", { redactions: [box], tap });
+    expect(a[a.indexOf("-filter_complex") + 1]).toMatch(
+      /^\[0:v:0\]scale=1280:720:flags=bicubic,setsar=1,drawbox=x=0:y=0:w=640:h=72:color=black:t=fill,format=yuv420p,split=2\[enc\]\[tap\];\[tap\]select=/,
+    );
+  });
+  it("selects the first frame at or after each time", () => {
+    expect(selectAtTimes([1])).toBe("select='gt(gte(t\\,1.0000)*(isnan(prev_pts)+lt(prev_pts*TB\\,1.0000))\\,0)'");
   });
 });

@@ -96,52 +96,104 @@ export function redactionPixels(boxes: readonly Redaction[], width: number, heig
 }
 
 /**
- * Output options every result gets: first video stream only; no audio, subtitles, data,
- * chapters or container/stream metadata; bitexact so no "encoder" tag is written; moov first.
+ * Output options every result gets: no audio, subtitles, data, chapters or container/stream
+ * metadata; bitexact so no "encoder" tag or version string is written; moov first.
  */
-const COMMON_OUTPUT = [
-  "-map", "0:v:0",
-  "-an", "-sn", "-dn",
-  "-map_metadata", "-1",
-  "-map_chapters", "-1",
-  "-fflags", "+bitexact",
-  "-movflags", "+faststart",
+const COMMON_OUTPUT = ["-an", "-sn", "-dn", "-map_metadata", "-1", "-map_chapters", "-1", "-fflags", "+bitexact", "-movflags", "+faststart"];
+
+/**
+ * Frames to hand back for the poster and strip, as raw RGB on stdout, in the same ffmpeg run.
+ * `times` are seconds; each picks the first frame at or after it. `keyframesOnly` (stream copy
+ * only) decodes keyframes and nothing else, which is what lets a copy run far faster than real time.
+ */
+export interface FrameTap {
+  times: number[];
+  width: number;
+  height: number;
+  keyframesOnly?: boolean;
+}
+
+/** An ffmpeg `select` expression that passes the first frame at or after each time. */
+export function selectAtTimes(times: readonly number[]): string {
+  const terms = times.map((t) => {
+    const T = t.toFixed(4);
+    return `gte(t\\,${T})*(isnan(prev_pts)+lt(prev_pts*TB\\,${T}))`;
+  });
+  return `select='gt(${terms.join("+")}\\,0)'`;
+}
+
+/** Output arguments for a frame tap: from a filtergraph label, or decoded from the first input's video. */
+export const frameTapArgs = (tap: FrameTap, label: string | null = null): string[] => [
+  ...(label ? ["-map", label] : ["-map", "0:v:0", "-vf", `${selectAtTimes(tap.times)},scale=${tap.width}:${tap.height},format=rgb24`]),
+  "-fps_mode",
+  "passthrough",
+  "-frames:v",
+  String(tap.times.length),
+  "-f",
+  "rawvideo",
+  "pipe:1",
 ];
 
 /**
- * The ffmpeg runs (arguments after the global ones) that turn `input` into `output` per the plan.
- * A copy is one run. A transcode encodes into a Matroska intermediate (`${output}.encode.mkv`), then
- * stream-copies that into the MP4: ffmpeg always tags a stream it encodes with "encoder" (MP4 keeps
- * it as the sample entry's compressor name, and `-metadata encoder=` cannot delete it), while a
- * stream copy with `-map_metadata -1` carries no tag at all.
+ * The ffmpeg arguments (after the global ones) that turn `input` into `output` per the plan, in
+ * one run; with a tap, the poster and strip frames also come out on stdout. In a transcode they
+ * are taken after scaling and redaction, so the boxes are in them too.
  */
-export function ffmpegArgs(plan: VideoPlan, input: string, output: string, redactions: readonly Redaction[] = []): string[][] {
-  const toMp4 = (from: string) => ["-i", from, ...COMMON_OUTPUT, "-c:v", "copy", "-f", "mp4", "-y", output];
-  if (plan.video === "copy") return [toMp4(input)];
+export function ffmpegArgs(plan: VideoPlan, input: string, output: string, opts: { redactions?: readonly Redaction[]; tap?: FrameTap } = {}): string[] {
+  const { tap } = opts;
+  if (plan.video === "copy") {
+    return [
+      ...(tap?.keyframesOnly ? ["-skip_frame", "nokey"] : []),
+      "-i",
+      input,
+      "-map",
+      "0:v:0",
+      ...COMMON_OUTPUT,
+      "-c:v",
+      "copy",
+      "-f",
+      "mp4",
+      "-y",
+      output,
+      ...(tap ? frameTapArgs(tap) : []),
+    ];
+  }
   const filters = [`scale=${plan.width}:${plan.height}:flags=bicubic`, "setsar=1"];
-  for (const b of redactionPixels(redactions, plan.width, plan.height)) {
+  for (const b of redactionPixels(opts.redactions ?? [], plan.width, plan.height)) {
     filters.push(`drawbox=x=${b.x}:y=${b.y}:w=${b.w}:h=${b.h}:color=black:t=fill`);
   }
   filters.push("format=yuv420p");
-  const intermediate = `${output}.encode.mkv`;
-  const encode = [
-    "-i", input,
-    "-map", "0:v:0",
-    "-an", "-sn", "-dn",
-    "-map_metadata", "-1",
-    "-map_chapters", "-1",
-    "-vf", filters.join(","),
-    "-c:v", "libx264", "-preset", X264.preset, "-crf", String(X264.crf), "-pix_fmt", "yuv420p",
-    "-flags:v", "+bitexact",
-    "-fflags", "+bitexact",
+  const graph = tap
+    ? `[0:v:0]${filters.join(",")},split=2[enc][tap];[tap]${selectAtTimes(tap.times)},scale=${tap.width}:${tap.height},format=rgb24[frames]`
+    : `[0:v:0]${filters.join(",")}[enc]`;
+  return [
+    "-i",
+    input,
+    "-filter_complex",
+    graph,
+    "-map",
+    "[enc]",
+    ...COMMON_OUTPUT,
+    "-c:v",
+    "libx264",
+    "-preset",
+    X264.preset,
+    "-crf",
+    String(X264.crf),
+    "-pix_fmt",
+    "yuv420p",
+    // A keyframe every second: reviewers seek and step through frames.
+    "-force_key_frames",
+    "expr:gte(t,n_forced*1)",
+    "-flags:v",
+    "+bitexact",
     // x264 writes its version and settings into an SEI message; drop SEI units from our own encode.
-    "-bsf:v", "filter_units=remove_types=6",
-    "-f", "matroska", "-y", intermediate,
+    "-bsf:v",
+    "filter_units=remove_types=6",
+    "-f",
+    "mp4",
+    "-y",
+    output,
+    ...(tap ? frameTapArgs(tap, "[frames]") : []),
   ];
-  return [encode, toMp4(intermediate)];
-}
-
-/** Intermediate files ffmpegArgs may create next to `output` (for cleaning up). */
-export function intermediates(output: string): string[] {
-  return [`${output}.encode.mkv`];
 }

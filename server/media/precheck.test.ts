@@ -92,9 +92,14 @@ describe("npm run precheck", () => {
   it("prints one JSON line per file and exits non-zero when one is unreadable", async () => {
     const good = path.join(dir, "linear.mp4");
     const bad = path.join(dir, "missing.mp4");
-    const err = await run(process.execPath, ["--import", "tsx", path.resolve("scripts/precheck.ts"), good, bad]).catch((e: unknown) => e as { code: number; stdout: string });
+    const err = await run(process.execPath, ["--import", "tsx", path.resolve("scripts/precheck.ts"), good, bad]).catch(
+      (e: unknown) => e as { code: number; stdout: string },
+    );
     expect((err as { code: number }).code).toBe(1);
-    const lines = (err as { stdout: string }).stdout.trim().split("\n").map((l) => JSON.parse(l));
+    const lines = (err as { stdout: string }).stdout
+      .trim()
+      .split("\n")
+      .map((l) => JSON.parse(l));
     expect(lines).toHaveLength(2);
     expect(lines[0]).toMatchObject({ file: good, gain: { hint: "balanced" }, depth: { hint: "fits" }, footprint: { shape: "linear" }, clip: { frames: 10 } });
     expect(typeof lines[0].gain.meanLuma).toBe("number");

@@ -159,7 +159,12 @@ export function analyseFrames(frames: GreyFrame[]): Precheck {
     const all = frames.flatMap((f) => Array.from(f.data));
     const m = all.reduce((a, b) => a + b, 0) / all.length;
     const sat = all.filter((v) => v >= SATURATED_LUMA).length / all.length;
-    return { gain: { hint: gainHint(m, sat), meanLuma: round(m, 1), saturatedShare: round(sat) }, depth: { hint: "fits", unusedShare: 0 }, footprint: { shape: "unknown" }, area: null };
+    return {
+      gain: { hint: gainHint(m, sat), meanLuma: round(m, 1), saturatedShare: round(sat) },
+      depth: { hint: "fits", unusedShare: 0 },
+      footprint: { shape: "unknown" },
+      area: null,
+    };
   }
   const rows = Array.from({ length: areaH }, (_, i) => best.top + i);
   const span = (y: number) => spans[y] ?? { l: 0, r: -1 };
@@ -252,7 +257,19 @@ export async function videoFrames(file: string): Promise<{ frames: GreyFrame[]; 
   const fps = parseRate(p.video.avgFrameRate) ?? parseRate(p.video.rFrameRate) ?? 0;
   const rate = seconds > 0 ? SAMPLE_FRAMES / seconds : 2;
   const out = await ffmpeg(
-    ["-i", fileUrl(file), "-map", "0:v:0", "-vf", `fps=${rate.toFixed(6)}:start_time=0,scale=${width}:${height},format=gray`, "-frames:v", String(SAMPLE_FRAMES), "-f", "rawvideo", "pipe:1"],
+    [
+      "-i",
+      fileUrl(file),
+      "-map",
+      "0:v:0",
+      "-vf",
+      `fps=${rate.toFixed(6)}:start_time=0,scale=${width}:${height},format=gray`,
+      "-frames:v",
+      String(SAMPLE_FRAMES),
+      "-f",
+      "rawvideo",
+      "pipe:1",
+    ],
     "The file could not be read as video",
   );
   const frames: GreyFrame[] = [];

@@ -106,7 +106,8 @@ describe("processStill", () => {
     for (let y = 0; y < info.height; y++)
       for (let x = 0; x < info.width; x++) {
         const v = data[(y * info.width + x) * info.channels];
-        if (x >= box.x * info.width && x < (box.x + box.w) * info.width && y >= box.y * info.height && y < (box.y + box.h) * info.height) maxIn = Math.max(maxIn, v);
+        if (x >= box.x * info.width && x < (box.x + box.w) * info.width && y >= box.y * info.height && y < (box.y + box.h) * info.height)
+          maxIn = Math.max(maxIn, v);
       }
     const { data: before } = await sharp(f("plain.png")).raw().toBuffer({ resolveWithObject: true });
     for (let y = 40; y < 70; y++) for (let x = 30; x < 110; x++) sumIn += before[(y * info.width + x) * info.channels];

@@ -51,11 +51,7 @@ export async function processStill(input: string, outDir: string, opts: { redact
   try {
     const img = sharp(data, { raw });
     await (format === "png" ? img.png() : img.jpeg({ quality: 90 })).toFile(imagePath);
-    await sharp(data, { raw })
-      .resize({ width: THUMB_WIDTH })
-      .flatten({ background: "#000" })
-      .jpeg({ quality: 80 })
-      .toFile(thumbPath);
+    await sharp(data, { raw }).resize({ width: THUMB_WIDTH }).flatten({ background: "#000" }).jpeg({ quality: 80 }).toFile(thumbPath);
   } catch (err) {
     await Promise.all([imagePath, thumbPath].map((f) => fs.rm(f, { force: true })));
     throw err;

@@ -26,7 +26,18 @@ const INPUT_TAGS = {
  * (major_brand, minor_version, compatible_brands, handler_name, vendor_id, language), which
  * carry nothing about the patient or the device, so the test names the identifying ones.
  */
-const IDENTIFYING = ["title", "comment", "creation_time", "location", "location-eng", "com.apple.quicktime.location.ISO6709", "encoder", "date", "artist", "description"];
+const IDENTIFYING = [
+  "title",
+  "comment",
+  "creation_time",
+  "location",
+  "location-eng",
+  "com.apple.quicktime.location.ISO6709",
+  "encoder",
+  "date",
+  "artist",
+  "description",
+];
 
 let dir: string;
 const inputs: Record<string, string> = {};
@@ -69,7 +80,12 @@ function boxStats(img: { data: Buffer; width: number; height: number; channels?:
   for (let y = 0; y < img.height; y++)
     for (let x = 0; x < img.width; x++) {
       const inBox = x >= box.x * img.width && x < (box.x + box.w) * img.width && y >= box.y * img.height && y < (box.y + box.h) * img.height;
-      const inside = inBox && x >= box.x * img.width + margin && x < (box.x + box.w) * img.width - margin && y >= box.y * img.height + margin && y < (box.y + box.h) * img.height - margin;
+      const inside =
+        inBox &&
+        x >= box.x * img.width + margin &&
+        x < (box.x + box.w) * img.width - margin &&
+        y >= box.y * img.height + margin &&
+        y < (box.y + box.h) * img.height - margin;
       if (inBox && !inside) continue;
       for (let c = 0; c < Math.min(3, ch); c++) {
         const v = img.data[(y * img.width + x) * ch + c];
@@ -145,11 +161,18 @@ describe("processVideo", () => {
     for (const [name, out] of Object.entries(outputs)) {
       const p = await ffprobeJson(out.videoPath);
       expect(p.format.format_name, name).toContain("mp4");
-      expect(p.streams.map((s) => s.codec_type), name).toEqual(["video"]);
+      expect(
+        p.streams.map((s) => s.codec_type),
+        name,
+      ).toEqual(["video"]);
       expect(p.streams[0].codec_name, name).toBe("h264");
       expect(p.streams[0].pix_fmt, name).toBe("yuv420p");
       for (const tags of [p.format.tags ?? {}, ...p.streams.map((s) => s.tags ?? {})]) {
-        for (const key of IDENTIFYING) expect(Object.keys(tags).map((k) => k.toLowerCase()), `${name}: ${key}`).not.toContain(key.toLowerCase());
+        for (const key of IDENTIFYING)
+          expect(
+            Object.keys(tags).map((k) => k.toLowerCase()),
+            `${name}: ${key}`,
+          ).not.toContain(key.toLowerCase());
       }
       const bytes = await fs.readFile(out.videoPath);
       for (const needle of ["Patient name", "MRN 000000", "2026-01-02", "+51.5000", "Lavf"]) expect(bytes.includes(needle), `${name}: ${needle}`).toBe(false);

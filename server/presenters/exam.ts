@@ -26,7 +26,8 @@ export interface ClipRow {
   created_at: Date;
 }
 
-const mediaUrl = (clip: ClipRow, variant: string, present: string | null) => (present ? `/api/clips/${clip.id}/media/${variant}?v=${clip.process_version}` : null);
+const mediaUrl = (clip: ClipRow, variant: string, present: string | null) =>
+  present ? `/api/clips/${clip.id}/media/${variant}?v=${clip.process_version}` : null;
 
 export function presentClip(c: ClipRow, opts: { forOwner: boolean }): Clip {
   const ready = c.state === "ready";

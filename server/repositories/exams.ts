@@ -71,9 +71,14 @@ export async function listOwnExams(db: Q, programId: string, userId: string, q: 
         db.raw(`(SELECT count(*) FROM clips c WHERE c.exam_id = e.id AND c.state = 'ready') AS ready_count`),
         db.raw(`(SELECT count(*) FROM clips c WHERE c.exam_id = e.id AND c.state = 'failed') AS failed_count`),
         db.raw(`(SELECT c.id FROM clips c WHERE c.exam_id = e.id AND c.state = 'ready' ORDER BY c.position, c.created_at LIMIT 1) AS poster_clip_id`),
-        db.raw(`(SELECT c.process_version FROM clips c WHERE c.exam_id = e.id AND c.state = 'ready' ORDER BY c.position, c.created_at LIMIT 1) AS poster_version`),
+        db.raw(
+          `(SELECT c.process_version FROM clips c WHERE c.exam_id = e.id AND c.state = 'ready' ORDER BY c.position, c.created_at LIMIT 1) AS poster_version`,
+        ),
       )
-      .orderBy([{ column, order: direction }, { column: "e.id", order: "asc" }])
+      .orderBy([
+        { column, order: direction },
+        { column: "e.id", order: "asc" },
+      ])
       .limit(q.limit)
       .offset(q.offset),
     base.clone().count<{ count: string }[]>("* as count"),

@@ -31,8 +31,7 @@ export const presentMember = (r: MemberRow): Member => ({
   lastSignInAt: iso(r.last_sign_in_at),
 });
 
-const members = (db: Q, programId: string) =>
-  db("memberships as m").join("users as u", "u.id", "m.user_id").where("m.program_id", programId);
+const members = (db: Q, programId: string) => db("memberships as m").join("users as u", "u.id", "m.user_id").where("m.program_id", programId);
 
 export async function listMembers(db: Q, programId: string): Promise<Member[]> {
   const rows = await members(db, programId).select(memberColumns).orderBy("u.name");

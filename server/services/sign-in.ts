@@ -10,14 +10,7 @@ import { audit } from "../repositories/audit";
 import type { SessionUser } from "../../shared/schemas/auth";
 
 /** Starts a session in `user.programId` and answers like POST /api/auth/login. */
-export async function openSession(
-  db: Db | Knex.Transaction,
-  config: Config,
-  req: Request,
-  res: Response,
-  user: SessionUser,
-  action: string,
-) {
+export async function openSession(db: Db | Knex.Transaction, config: Config, req: Request, res: Response, user: SessionUser, action: string) {
   const sessionId = await createSession(db, {
     userId: user.id,
     programId: user.programId,

@@ -13,10 +13,7 @@ export const emailSchema = z
   .pipe(z.email("Enter a valid e-mail address"))
   .transform((s) => s.toLowerCase());
 
-export const newPasswordSchema = z
-  .string()
-  .min(PASSWORD_MIN, `Use at least ${PASSWORD_MIN} characters`)
-  .max(200, "Use at most 200 characters");
+export const newPasswordSchema = z.string().min(PASSWORD_MIN, `Use at least ${PASSWORD_MIN} characters`).max(200, "Use at most 200 characters");
 
 export const loginSchema = z.object({
   email: emailSchema,
@@ -52,10 +49,26 @@ export const changePasswordSchema = z.object({
   newPassword: newPasswordSchema,
 });
 
-export const acceptInvitationSchema = z.object({
+/** Accepting as a new person: a name and a new password. */
+export const acceptInvitationNewSchema = z.object({
   token: z.string().min(20).max(200),
   name: z.string().trim().min(1, "Enter your name").max(120),
   password: newPasswordSchema,
+});
+
+/** Accepting with an existing account: its current password proves who you are. */
+export const acceptInvitationExistingSchema = z.object({
+  token: z.string().min(20).max(200),
+  name: z.string().trim().max(120).optional(),
+  password: z.string().min(1, "Enter your current password").max(200),
+});
+
+/** What the accept route takes; which rules apply depends on whether the account exists. */
+export const acceptInvitationSchema = acceptInvitationExistingSchema;
+
+export const programChoiceSchema = z.object({ programId: z.uuid() });
+export const myProgramsSchema = z.object({
+  programs: z.array(z.object({ id: z.uuid(), name: z.string(), roles: z.array(z.enum(ROLES)), current: z.boolean() })),
 });
 
 export const invitationPreviewSchema = z.object({
@@ -63,4 +76,6 @@ export const invitationPreviewSchema = z.object({
   programName: z.string(),
   roles: z.array(roleSchema),
   existingUser: z.boolean(),
+  /** The name the inviter typed, to prefill the form. */
+  name: z.string().nullable(),
 });

@@ -63,7 +63,13 @@ export const clipSchema = z.object({
   frames: z.number().nullable(),
   redactions: z.array(redactionBoxSchema),
   precheck: z.unknown().nullable(),
-  media: z.object({ video: z.string().nullable(), image: z.string().nullable(), poster: z.string().nullable(), strip: z.string().nullable(), thumb: z.string().nullable() }),
+  media: z.object({
+    video: z.string().nullable(),
+    image: z.string().nullable(),
+    poster: z.string().nullable(),
+    strip: z.string().nullable(),
+    thumb: z.string().nullable(),
+  }),
   createdAt: z.string(),
 });
 export type Clip = z.infer<typeof clipSchema>;

@@ -1,6 +1,7 @@
 // "What needs me now": per-role counts for the home page. Only counts the server can
 // really compute are sent; an area with nothing behind it yet is simply absent.
 import { z } from "zod";
+import { roleSchema } from "./auth";
 
 export const homeCardSchema = z.object({
   key: z.string(),
@@ -14,7 +15,7 @@ export const homeSchema = z.object({
   programName: z.string(),
   sections: z.array(
     z.object({
-      role: z.enum(["sonographer", "reviewer", "qa_lead", "admin"]),
+      role: roleSchema,
       title: z.string(),
       cards: z.array(homeCardSchema),
     }),

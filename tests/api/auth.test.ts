@@ -81,6 +81,23 @@ describe("POST /api/auth/login", () => {
     }
   });
 
+  it("lists a person's programs and moves the session to another one, ending the old token", async () => {
+    const m = await makeMember(kit.db, programId, ["sonographer"]);
+    const other = await makeProgram(kit.db);
+    await makeMember(kit.db, other.id, ["qa_lead"], { userId: m.id });
+    const first = (await login(kit, m.email)).body.token;
+    const list = await request(kit.app).get("/api/auth/programs").set("Authorization", `Bearer ${first}`);
+    expect(list.body.programs).toEqual([
+      { id: programId, name: expect.any(String), roles: ["sonographer"], current: true },
+      { id: other.id, name: other.name, roles: ["qa_lead"], current: false },
+    ]);
+    const sw = await request(kit.app).post("/api/auth/switch-program").set("Authorization", `Bearer ${first}`).send({ programId: other.id });
+    expect(sw.status).toBe(200);
+    expect(sw.body.user).toMatchObject({ programId: other.id, roles: ["qa_lead"] });
+    expect((await me(first)).status).toBe(401);
+    expect((await me(sw.body.token)).body.user.programId).toBe(other.id);
+  });
+
   it("picks the requested program for a person in two programs", async () => {
     const m = await makeMember(kit.db, programId, ["sonographer"]);
     const other = await makeProgram(kit.db);
@@ -111,7 +128,9 @@ describe("tokens", () => {
     const m = await makeMember(kit.db, programId, ["sonographer"]);
     const valid = await tokenFor(kit, m);
     const claims = jwt.decode(valid) as { sub: string; sid: string; pid: string };
-    const expired = jwt.sign({ sub: claims.sub, sid: claims.sid, pid: claims.pid, exp: Math.floor(Date.now() / 1000) - 60 }, kit.config.jwtSecret, { issuer: JWT_ISSUER });
+    const expired = jwt.sign({ sub: claims.sub, sid: claims.sid, pid: claims.pid, exp: Math.floor(Date.now() / 1000) - 60 }, kit.config.jwtSecret, {
+      issuer: JWT_ISSUER,
+    });
     const res = await me(expired);
     expect(res.status).toBe(401);
     expect(res.body.error.code).toBe("session_expired");
@@ -131,7 +150,10 @@ describe("tokens", () => {
     const m = await makeMember(kit.db, programId, ["sonographer"]);
     const a = (await login(kit, m.email)).body.token;
     const b = (await login(kit, m.email)).body.token;
-    const change = await request(kit.app).post("/api/auth/password/change").set("Authorization", `Bearer ${a}`).send({ currentPassword: m.password, newPassword: "a-brand-new-passphrase" });
+    const change = await request(kit.app)
+      .post("/api/auth/password/change")
+      .set("Authorization", `Bearer ${a}`)
+      .send({ currentPassword: m.password, newPassword: "a-brand-new-passphrase" });
     expect(change.status).toBe(204);
     expect((await me(a)).status).toBe(200);
     expect((await me(b)).status).toBe(401);
@@ -142,7 +164,10 @@ describe("tokens", () => {
   it("refuses a new password shorter than 12 characters, naming the field", async () => {
     const m = await makeMember(kit.db, programId, ["sonographer"]);
     const t = await tokenFor(kit, m);
-    const res = await request(kit.app).post("/api/auth/password/change").set("Authorization", `Bearer ${t}`).send({ currentPassword: m.password, newPassword: "short-11chr" });
+    const res = await request(kit.app)
+      .post("/api/auth/password/change")
+      .set("Authorization", `Bearer ${t}`)
+      .send({ currentPassword: m.password, newPassword: "short-11chr" });
     expect(res.status).toBe(400);
     expect(res.body.error.message).toMatch(/^newPassword: .*12/);
   });
@@ -150,7 +175,10 @@ describe("tokens", () => {
   it("refuses a wrong current password", async () => {
     const m = await makeMember(kit.db, programId, ["sonographer"]);
     const t = await tokenFor(kit, m);
-    const res = await request(kit.app).post("/api/auth/password/change").set("Authorization", `Bearer ${t}`).send({ currentPassword: "not-my-password", newPassword: "a-brand-new-passphrase" });
+    const res = await request(kit.app)
+      .post("/api/auth/password/change")
+      .set("Authorization", `Bearer ${t}`)
+      .send({ currentPassword: "not-my-password", newPassword: "a-brand-new-passphrase" });
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe("wrong_password");
   });
@@ -159,7 +187,10 @@ describe("tokens", () => {
     const admin = await makeMember(kit.db, programId, ["admin"]);
     const m = await makeMember(kit.db, programId, ["sonographer", "reviewer"]);
     const t = await tokenFor(kit, m);
-    const res = await request(kit.app).put(`/api/users/${m.id}/roles`).set("Authorization", `Bearer ${await tokenFor(kit, admin)}`).send({ roles: ["sonographer"] });
+    const res = await request(kit.app)
+      .put(`/api/users/${m.id}/roles`)
+      .set("Authorization", `Bearer ${await tokenFor(kit, admin)}`)
+      .send({ roles: ["sonographer"] });
     expect(res.status).toBe(200);
     expect((await me(t)).status).toBe(401);
     expect((await login(kit, m.email)).body.user.roles).toEqual(["sonographer"]);
@@ -169,7 +200,10 @@ describe("tokens", () => {
     const admin = await makeMember(kit.db, programId, ["admin"]);
     const m = await makeMember(kit.db, programId, ["sonographer"]);
     const t = await tokenFor(kit, m);
-    await request(kit.app).put(`/api/users/${m.id}/roles`).set("Authorization", `Bearer ${await tokenFor(kit, admin)}`).send({ roles: ["sonographer", "reviewer"] });
+    await request(kit.app)
+      .put(`/api/users/${m.id}/roles`)
+      .set("Authorization", `Bearer ${await tokenFor(kit, admin)}`)
+      .send({ roles: ["sonographer", "reviewer"] });
     expect((await me(t)).body.user.roles).toEqual(["sonographer", "reviewer"]);
   });
 
@@ -177,7 +211,9 @@ describe("tokens", () => {
     const admin = await makeMember(kit.db, programId, ["admin"]);
     const m = await makeMember(kit.db, programId, ["sonographer"]);
     const t = await tokenFor(kit, m);
-    const res = await request(kit.app).post(`/api/users/${m.id}/deactivate`).set("Authorization", `Bearer ${await tokenFor(kit, admin)}`);
+    const res = await request(kit.app)
+      .post(`/api/users/${m.id}/deactivate`)
+      .set("Authorization", `Bearer ${await tokenFor(kit, admin)}`);
     expect(res.status).toBe(200);
     expect(res.body.member.active).toBe(false);
     expect((await me(t)).status).toBe(401);

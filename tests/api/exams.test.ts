@@ -35,7 +35,16 @@ const newExam = async (as = auth, extra: object = {}) => {
   const res = await request(kit.app)
     .post("/api/exams")
     .set("Authorization", as)
-    .send({ applicationCode: "efast", performedAt: anHourAgo(), setting: "clinical", transducer: "curvilinear", preset: "Abdomen", indication: "Blunt trauma", findings: [{ key: "free_fluid_ruq", read: "negative" }], ...extra });
+    .send({
+      applicationCode: "efast",
+      performedAt: anHourAgo(),
+      setting: "clinical",
+      transducer: "curvilinear",
+      preset: "Abdomen",
+      indication: "Blunt trauma",
+      findings: [{ key: "free_fluid_ruq", read: "negative" }],
+      ...extra,
+    });
   expect(res.status, JSON.stringify(res.body)).toBe(201);
   return res.body.exam as { id: string; code: string };
 };
@@ -56,24 +65,50 @@ async function waitForClip(examId: string, clipId: string, states = ["ready", "f
 
 describe("creating exams", () => {
   it("creates a draft with a blinded code and the sonographer's reads", async () => {
-    const res = await request(kit.app).post("/api/exams").set("Authorization", auth).send({ applicationCode: "cardiac", performedAt: anHourAgo(), setting: "educational", transducer: "phased", findings: [{ key: "pericardial_effusion", read: "positive" }] });
+    const res = await request(kit.app)
+      .post("/api/exams")
+      .set("Authorization", auth)
+      .send({
+        applicationCode: "cardiac",
+        performedAt: anHourAgo(),
+        setting: "educational",
+        transducer: "phased",
+        findings: [{ key: "pericardial_effusion", read: "positive" }],
+      });
     expect(res.status).toBe(201);
-    expect(res.body.exam).toMatchObject({ status: "draft", application: { code: "cardiac" }, findings: [{ key: "pericardial_effusion", read: "positive" }], sonographer: { id: owner.id } });
+    expect(res.body.exam).toMatchObject({
+      status: "draft",
+      application: { code: "cardiac" },
+      findings: [{ key: "pericardial_effusion", read: "positive" }],
+      sonographer: { id: owner.id },
+    });
     expect(res.body.exam.code).toMatch(/^EX-[0-9A-HJKMNP-TV-Z]{6}$/);
   });
 
   it("refuses a scan in the future, an unknown application and an unknown finding, naming the field", async () => {
     const base = { applicationCode: "efast", performedAt: anHourAgo(), setting: "clinical", transducer: "linear", findings: [] };
-    const future = await request(kit.app).post("/api/exams").set("Authorization", auth).send({ ...base, performedAt: new Date(Date.now() + 3600_000).toISOString() });
+    const future = await request(kit.app)
+      .post("/api/exams")
+      .set("Authorization", auth)
+      .send({ ...base, performedAt: new Date(Date.now() + 3600_000).toISOString() });
     expect(future.status).toBe(400);
     expect(future.body.error.message).toMatch(/^performedAt: .*future/);
-    const app = await request(kit.app).post("/api/exams").set("Authorization", auth).send({ ...base, applicationCode: "xray" });
+    const app = await request(kit.app)
+      .post("/api/exams")
+      .set("Authorization", auth)
+      .send({ ...base, applicationCode: "xray" });
     expect(app.status).toBe(400);
     expect(app.body.error.message).toMatch(/^applicationCode:/);
-    const finding = await request(kit.app).post("/api/exams").set("Authorization", auth).send({ ...base, findings: [{ key: "gallstones", read: "positive" }] });
+    const finding = await request(kit.app)
+      .post("/api/exams")
+      .set("Authorization", auth)
+      .send({ ...base, findings: [{ key: "gallstones", read: "positive" }] });
     expect(finding.status).toBe(400);
     expect(finding.body.error.message).toMatch(/^findings\.0\.key:/);
-    const transducer = await request(kit.app).post("/api/exams").set("Authorization", auth).send({ ...base, transducer: "laser" });
+    const transducer = await request(kit.app)
+      .post("/api/exams")
+      .set("Authorization", auth)
+      .send({ ...base, transducer: "laser" });
     expect(transducer.body.error.message).toMatch(/^transducer:/);
     expect(await kit.db("exams").where("sonographer_id", owner.id).andWhere("transducer", "laser").first()).toBeUndefined();
   });
@@ -114,7 +149,11 @@ describe("uploads", () => {
     const empty = path.join(dir, "empty.mp4");
     fs.writeFileSync(empty, "");
     expect((await uploadFile(exam.id, empty)).body.error.code).toBe("empty_file");
-    const two = await request(kit.app).post(`/api/exams/${exam.id}/clips`).set("Authorization", auth).attach("file", h264Mp4(dir, "a.mp4")).attach("file", h264Mp4(dir, "b.mp4", { seed: 1 }));
+    const two = await request(kit.app)
+      .post(`/api/exams/${exam.id}/clips`)
+      .set("Authorization", auth)
+      .attach("file", h264Mp4(dir, "a.mp4"))
+      .attach("file", h264Mp4(dir, "b.mp4", { seed: 1 }));
     expect(two.status).toBe(400);
     expect(two.body.error.code).toBe("too_many_files");
     const none = await request(kit.app).post(`/api/exams/${exam.id}/clips`).set("Authorization", auth).field("view", "ruq");
@@ -132,8 +171,18 @@ describe("uploads", () => {
       const res = await request(small.app).post(`/api/exams/${exam.id}/clips`).set("Authorization", auth).attach("file", big);
       expect(res.status).toBe(413);
       expect(res.body.error.code).toBe("file_too_large");
-      expect((await request(small.app).post(`/api/exams/${exam.id}/clips`).set("Authorization", auth).attach("file", await png(dir))).status).toBe(202);
-      const second = await request(small.app).post(`/api/exams/${exam.id}/clips`).set("Authorization", auth).attach("file", await png(dir, "other.png", 9));
+      expect(
+        (
+          await request(small.app)
+            .post(`/api/exams/${exam.id}/clips`)
+            .set("Authorization", auth)
+            .attach("file", await png(dir))
+        ).status,
+      ).toBe(202);
+      const second = await request(small.app)
+        .post(`/api/exams/${exam.id}/clips`)
+        .set("Authorization", auth)
+        .attach("file", await png(dir, "other.png", 9));
       expect(second.status).toBe(413);
       expect(second.body.error.code).toBe("too_many_clips");
     } finally {
@@ -161,7 +210,13 @@ describe("uploads", () => {
     const stranger = await makeMember(kit.db, other.id, ["sonographer", "qa_lead"]);
     const res = await uploadFile(exam.id, await png(dir, "x.png", 3), `Bearer ${await tokenFor(kit, stranger)}`);
     expect(res.status).toBe(404);
-    expect((await request(kit.app).get(`/api/exams/${exam.id}`).set("Authorization", `Bearer ${await tokenFor(kit, stranger)}`)).status).toBe(404);
+    expect(
+      (
+        await request(kit.app)
+          .get(`/api/exams/${exam.id}`)
+          .set("Authorization", `Bearer ${await tokenFor(kit, stranger)}`)
+      ).status,
+    ).toBe(404);
     const lead = await makeMember(kit.db, program.id, ["sonographer", "qa_lead"]);
     const leadAuth = `Bearer ${await tokenFor(kit, lead)}`;
     expect((await request(kit.app).get(`/api/exams/${exam.id}`).set("Authorization", leadAuth)).status).toBe(200);
@@ -200,7 +255,10 @@ describe("processing and media", () => {
     expect(Number(part.headers["content-length"])).toBe(100);
     const tail = await request(kit.app).get(clip.media.video).set("Authorization", auth).set("Range", "bytes=-10");
     expect(tail.headers["content-range"]).toBe(`bytes ${size - 10}-${size - 1}/${size}`);
-    const beyond = await request(kit.app).get(clip.media.video).set("Authorization", auth).set("Range", `bytes=${size + 5}-`);
+    const beyond = await request(kit.app)
+      .get(clip.media.video)
+      .set("Authorization", auth)
+      .set("Range", `bytes=${size + 5}-`);
     expect(beyond.status).toBe(416);
     expect(beyond.headers["content-range"]).toBe(`bytes */${size}`);
     const poster = await request(kit.app).get(clip.media.poster).set("Authorization", auth).buffer(true);
@@ -209,7 +267,13 @@ describe("processing and media", () => {
     expect(strip.status).toBe(200);
 
     const peer = await makeMember(kit.db, program.id, ["sonographer", "reviewer"]);
-    expect((await request(kit.app).get(clip.media.video).set("Authorization", `Bearer ${await tokenFor(kit, peer)}`)).status).toBe(404);
+    expect(
+      (
+        await request(kit.app)
+          .get(clip.media.video)
+          .set("Authorization", `Bearer ${await tokenFor(kit, peer)}`)
+      ).status,
+    ).toBe(404);
     expect((await request(kit.app).get(clip.media.video)).status).toBe(401);
   });
 
@@ -232,7 +296,10 @@ describe("processing and media", () => {
     const exam = await newExam();
     const up = await uploadFile(exam.id, await png(dir, "redact.png", 50));
     await waitForClip(exam.id, up.body.id);
-    const patch = await request(kit.app).patch(`/api/clips/${up.body.id}`).set("Authorization", auth).send({ redactions: [{ x: 0, y: 0, w: 0.5, h: 0.5 }] });
+    const patch = await request(kit.app)
+      .patch(`/api/clips/${up.body.id}`)
+      .set("Authorization", auth)
+      .send({ redactions: [{ x: 0, y: 0, w: 0.5, h: 0.5 }] });
     expect(patch.status).toBe(200);
     expect(patch.body.clip.state).toBe("queued");
     const clip = await waitForClip(exam.id, up.body.id);
@@ -243,7 +310,10 @@ describe("processing and media", () => {
     expect(at(10, 10)).toBeLessThan(8);
     expect(at(info.width / 2 - 2, info.height / 2 - 2)).toBeLessThan(8);
     expect(at(info.width - 5, info.height - 5)).toBeGreaterThan(20);
-    const bad = await request(kit.app).patch(`/api/clips/${up.body.id}`).set("Authorization", auth).send({ redactions: [{ x: 0.8, y: 0, w: 0.5, h: 0.5 }] });
+    const bad = await request(kit.app)
+      .patch(`/api/clips/${up.body.id}`)
+      .set("Authorization", auth)
+      .send({ redactions: [{ x: 0.8, y: 0, w: 0.5, h: 0.5 }] });
     expect(bad.status).toBe(400);
     expect(bad.body.error.message).toMatch(/^redactions\.0/);
   });

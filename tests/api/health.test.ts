@@ -22,7 +22,14 @@ describe("GET /api/health", () => {
     const db = createDb(config.databaseUrl, 2);
     cleanups.push(() => db.destroy());
     // Health touches neither media nor jobs: storage and queue are inert stand-ins here.
-    const { app } = buildApp({ db, config, mailer: createMailer(config.smtp), storage: createLocalStorage(os.tmpdir()), jobs: { enqueueClip: async () => {} }, log: () => {} });
+    const { app } = buildApp({
+      db,
+      config,
+      mailer: createMailer(config.smtp),
+      storage: createLocalStorage(os.tmpdir()),
+      jobs: { enqueueClip: async () => {} },
+      log: () => {},
+    });
 
     const up = await request(app).get("/api/health");
     expect(up.status).toBe(200);

@@ -60,7 +60,9 @@ export function makeKit(env: Record<string, string> = {}): TestKit {
 const uid = () => crypto.randomBytes(5).toString("hex");
 
 export async function makeProgram(db: Db, name = `Test Program ${uid()}`) {
-  const [p] = await db("programs").insert({ name, slug: `test-${uid()}` }).returning(["id", "name"]);
+  const [p] = await db("programs")
+    .insert({ name, slug: `test-${uid()}` })
+    .returning(["id", "name"]);
   await insertCatalogue(db, p.id, DEFAULT_CATALOGUE.slice(0, 3));
   return p as { id: string; name: string };
 }
@@ -81,7 +83,9 @@ export async function makeMember(db: Db, programId: string, roles: Role[], opts:
     user = await db("users").where("id", opts.userId).first("id", "email", "name");
   } else {
     const email = opts.email ?? `person-${uid()}@test.example`;
-    [user] = await db("users").insert({ email, name: `Person ${uid()}`, password_hash: await hashPassword(TEST_PASSWORD, 4) }).returning(["id", "email", "name"]);
+    [user] = await db("users")
+      .insert({ email, name: `Person ${uid()}`, password_hash: await hashPassword(TEST_PASSWORD, 4) })
+      .returning(["id", "email", "name"]);
   }
   await db("memberships").insert({ user_id: user.id, program_id: programId, roles });
   return { ...user, password: TEST_PASSWORD, programId, roles };
@@ -132,7 +136,9 @@ export const linkToken = (mail: Mail) => {
 
 /** A draft exam row for a sonographer (no clips). */
 export async function makeExam(db: Db, programId: string, sonographerId: string, opts: { application?: string; status?: "draft" | "submitted" } = {}) {
-  const app = await db("applications").where({ program_id: programId, code: opts.application ?? "efast" }).first("id");
+  const app = await db("applications")
+    .where({ program_id: programId, code: opts.application ?? "efast" })
+    .first("id");
   const submitted = opts.status === "submitted";
   const [exam] = await db("exams")
     .insert({
@@ -171,9 +177,14 @@ export async function makeClip(kit: TestKit, exam: { id: string; program_id: str
     const path = await import("node:path");
     const tmp = path.join(os.tmpdir(), `soundings-fake-${id}`);
     fs.writeFileSync(tmp, Buffer.from("0123456789"));
-    for (const name of ["video.mp4", "poster.jpg"]) await kit.storage.put(`programs/${exam.program_id}/clips/${id}/v1/${name}`, tmp, "application/octet-stream");
+    for (const name of ["video.mp4", "poster.jpg"])
+      await kit.storage.put(`programs/${exam.program_id}/clips/${id}/v1/${name}`, tmp, "application/octet-stream");
     fs.rmSync(tmp);
-    Object.assign(row, { output_key: `programs/${exam.program_id}/clips/${id}/v1/video.mp4`, poster_key: `programs/${exam.program_id}/clips/${id}/v1/poster.jpg`, processed_version: 1 });
+    Object.assign(row, {
+      output_key: `programs/${exam.program_id}/clips/${id}/v1/video.mp4`,
+      poster_key: `programs/${exam.program_id}/clips/${id}/v1/poster.jpg`,
+      processed_version: 1,
+    });
   }
   await kit.db("clips").insert(row);
   return { id };

@@ -25,7 +25,9 @@ describe("bad input", () => {
   });
 
   it("answers 413 payload_too_large for an oversized body", async () => {
-    const res = await request(kit.app).post("/api/auth/login").send({ email: "a@b.example", password: "x".repeat(4000) });
+    const res = await request(kit.app)
+      .post("/api/auth/login")
+      .send({ email: "a@b.example", password: "x".repeat(4000) });
     expect(res.status).toBe(413);
     expect(res.body.error.code).toBe("payload_too_large");
   });
@@ -48,7 +50,9 @@ describe("GET /api/openapi.json", () => {
     const res = await request(kit.app).get("/api/openapi.json");
     expect(res.status).toBe(200);
     expect(res.body.openapi).toMatch(/^3\.1/);
-    const documented = Object.entries(res.body.paths as Record<string, Record<string, unknown>>).flatMap(([p, ops]) => Object.keys(ops).map((m) => `${m.toUpperCase()} ${p}`));
+    const documented = Object.entries(res.body.paths as Record<string, Record<string, unknown>>).flatMap(([p, ops]) =>
+      Object.keys(ops).map((m) => `${m.toUpperCase()} ${p}`),
+    );
     for (const r of kit.routes.filter((r) => r.path !== "/openapi.json")) {
       expect(documented).toContain(`${r.method} /api${r.path.replace(/:([A-Za-z_]+)/g, "{$1}")}`);
     }

@@ -20,7 +20,16 @@ beforeAll(async () => {
   leadA = await makeMember(kit.db, a.id, ["qa_lead"]);
   memberB = await makeMember(kit.db, b.id, ["sonographer"]);
   await makeMember(kit.db, b.id, ["admin"]);
-  const [inv] = await kit.db("invitations").insert({ program_id: b.id, email: "someone-b@test.example", roles: ["reviewer"], token_hash: newEmailToken().hash, expires_at: new Date(Date.now() + 3600_000) }).returning("id");
+  const [inv] = await kit
+    .db("invitations")
+    .insert({
+      program_id: b.id,
+      email: "someone-b@test.example",
+      roles: ["reviewer"],
+      token_hash: newEmailToken().hash,
+      expires_at: new Date(Date.now() + 3600_000),
+    })
+    .returning("id");
   invitationB = inv.id;
   await kit.db("audit_log").insert({ program_id: b.id, action: "test.only_in_b" });
 });
@@ -45,7 +54,9 @@ describe("cross-program isolation", () => {
   });
 
   it("answers 404 for another program's invitation and leaves it open", async () => {
-    const res = await request(kit.app).delete(`/api/users/invitations/${invitationB}`).set("Authorization", await as(adminA));
+    const res = await request(kit.app)
+      .delete(`/api/users/invitations/${invitationB}`)
+      .set("Authorization", await as(adminA));
     expect(res.status).toBe(404);
     expect((await kit.db("invitations").where("id", invitationB).first()).revoked_at).toBeNull();
   });
@@ -61,7 +72,9 @@ describe("cross-program isolation", () => {
   });
 
   it("serves each program its own catalogue", async () => {
-    const apps = await request(kit.app).get("/api/applications").set("Authorization", await as(leadA));
+    const apps = await request(kit.app)
+      .get("/api/applications")
+      .set("Authorization", await as(leadA));
     const ids = apps.body.applications.map((a: { id: string }) => a.id);
     const bIds = (await kit.db("applications").where("program_id", programB).select("id")).map((r) => r.id);
     expect(ids.length).toBeGreaterThan(0);
@@ -71,7 +84,9 @@ describe("cross-program isolation", () => {
   it("binds a token to one program even when the person belongs to two", async () => {
     const both = await makeMember(kit.db, adminA.programId, ["sonographer"]);
     await makeMember(kit.db, programB, ["admin"], { userId: both.id });
-    const res = await request(kit.app).get("/api/users").set("Authorization", await as(both));
+    const res = await request(kit.app)
+      .get("/api/users")
+      .set("Authorization", await as(both));
     expect(res.status).toBe(403);
   });
 });

@@ -20,7 +20,10 @@ describe("invitations", () => {
   it("sends a one-time link that sets the password and joins the program with the roles given", async () => {
     const admin = await makeMember(kit.db, programId, ["admin"]);
     const email = address();
-    const res = await request(kit.app).post("/api/users/invitations").set("Authorization", `Bearer ${await tokenFor(kit, admin)}`).send({ email, roles: ["reviewer", "qa_lead"] });
+    const res = await request(kit.app)
+      .post("/api/users/invitations")
+      .set("Authorization", `Bearer ${await tokenFor(kit, admin)}`)
+      .send({ email, roles: ["reviewer", "qa_lead"] });
     expect(res.status).toBe(201);
     const mail = await waitForMail(email, "invited");
     expect(mail.subject).toContain(programName);
@@ -30,7 +33,7 @@ describe("invitations", () => {
     expect(await kit.db("invitations").where("token_hash", token).first()).toBeUndefined();
 
     const preview = await request(kit.app).get(`/api/auth/invitations/${token}`);
-    expect(preview.body).toEqual({ email, programName, roles: ["reviewer", "qa_lead"], existingUser: false });
+    expect(preview.body).toEqual({ email, programName, roles: ["reviewer", "qa_lead"], existingUser: false, name: null });
 
     const short = await request(kit.app).post("/api/auth/invitations/accept").send({ token, name: "Wren Alder", password: "too-short" });
     expect(short.status).toBe(400);
@@ -49,13 +52,22 @@ describe("invitations", () => {
     const admin = await makeMember(kit.db, programId, ["admin"]);
     const auth = `Bearer ${await tokenFor(kit, admin)}`;
     const email = address();
-    const created = await request(kit.app).post("/api/users/invitations").set("Authorization", auth).send({ email, roles: ["sonographer"] });
+    const created = await request(kit.app)
+      .post("/api/users/invitations")
+      .set("Authorization", auth)
+      .send({ email, roles: ["sonographer"] });
     const token = linkToken(await waitForMail(email, "invited"));
-    await kit.db("invitations").where("id", created.body.invitation.id).update({ expires_at: kit.db.raw("now() - interval '1 minute'") });
+    await kit
+      .db("invitations")
+      .where("id", created.body.invitation.id)
+      .update({ expires_at: kit.db.raw("now() - interval '1 minute'") });
     expect((await request(kit.app).get(`/api/auth/invitations/${token}`)).status).toBe(404);
 
     const email2 = address();
-    const c2 = await request(kit.app).post("/api/users/invitations").set("Authorization", auth).send({ email: email2, roles: ["sonographer"] });
+    const c2 = await request(kit.app)
+      .post("/api/users/invitations")
+      .set("Authorization", auth)
+      .send({ email: email2, roles: ["sonographer"] });
     const token2 = linkToken(await waitForMail(email2, "invited"));
     expect((await request(kit.app).delete(`/api/users/invitations/${c2.body.invitation.id}`).set("Authorization", auth)).status).toBe(204);
     const accept = await request(kit.app).post("/api/auth/invitations/accept").send({ token: token2, name: "Late Comer", password: "a-long-enough-secret" });
@@ -66,7 +78,10 @@ describe("invitations", () => {
     const other = await makeProgram(kit.db);
     const admin = await makeMember(kit.db, other.id, ["admin"]);
     const existing = await makeMember(kit.db, programId, ["sonographer"]);
-    await request(kit.app).post("/api/users/invitations").set("Authorization", `Bearer ${await tokenFor(kit, admin)}`).send({ email: existing.email, roles: ["reviewer"] });
+    await request(kit.app)
+      .post("/api/users/invitations")
+      .set("Authorization", `Bearer ${await tokenFor(kit, admin)}`)
+      .send({ email: existing.email, roles: ["reviewer"] });
     const token = linkToken(await waitForMail(existing.email, "invited"));
     expect((await request(kit.app).get(`/api/auth/invitations/${token}`)).body.existingUser).toBe(true);
     const wrong = await request(kit.app).post("/api/auth/invitations/accept").send({ token, name: "X", password: "not-my-password-at-all" });
@@ -98,7 +113,10 @@ describe("password reset", () => {
     const m = await makeMember(kit.db, programId, ["sonographer"]);
     await request(kit.app).post("/api/auth/password/forgot").send({ email: m.email });
     const token = linkToken(await waitForMail(m.email, "Reset"));
-    await kit.db("password_resets").where("user_id", m.id).update({ expires_at: kit.db.raw("now() - interval '1 minute'") });
+    await kit
+      .db("password_resets")
+      .where("user_id", m.id)
+      .update({ expires_at: kit.db.raw("now() - interval '1 minute'") });
     const res = await request(kit.app).post("/api/auth/password/reset").send({ token, password: "fresh-password-2026" });
     expect(res.status).toBe(400);
     expect((await login(kit, m.email)).status).toBe(200);

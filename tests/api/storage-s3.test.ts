@@ -27,7 +27,14 @@ beforeAll(async () => {
   await s3.run();
   server = s3;
   const s = settings();
-  storage = createS3Storage({ endpoint: s.S3_ENDPOINT, region: "us-east-1", bucket: s.S3_BUCKET, accessKeyId: s.S3_ACCESS_KEY_ID, secretAccessKey: s.S3_SECRET_ACCESS_KEY, forcePathStyle: true });
+  storage = createS3Storage({
+    endpoint: s.S3_ENDPOINT,
+    region: "us-east-1",
+    bucket: s.S3_BUCKET,
+    accessKeyId: s.S3_ACCESS_KEY_ID,
+    secretAccessKey: s.S3_SECRET_ACCESS_KEY,
+    forcePathStyle: true,
+  });
 });
 afterAll(async () => {
   await server.close();
@@ -78,9 +85,15 @@ describe("uploads on S3 storage", () => {
     const p = await makeProgram(kit.db);
     const m = await makeMember(kit.db, p.id, ["sonographer"]);
     const auth = `Bearer ${await tokenFor(kit, m)}`;
-    const exam = await request(kit.app).post("/api/exams").set("Authorization", auth).send({ applicationCode: "efast", performedAt: new Date(Date.now() - 60_000).toISOString(), setting: "simulated", transducer: "curvilinear" });
+    const exam = await request(kit.app)
+      .post("/api/exams")
+      .set("Authorization", auth)
+      .send({ applicationCode: "efast", performedAt: new Date(Date.now() - 60_000).toISOString(), setting: "simulated", transducer: "curvilinear" });
     const f = fixtureDir();
-    const up = await request(kit.app).post(`/api/exams/${exam.body.exam.id}/clips`).set("Authorization", auth).attach("file", await png(f, "s3.png", 21));
+    const up = await request(kit.app)
+      .post(`/api/exams/${exam.body.exam.id}/clips`)
+      .set("Authorization", auth)
+      .attach("file", await png(f, "s3.png", 21));
     expect(up.status).toBe(202);
     let clip: { state: string; media: { image: string } } | undefined;
     for (let i = 0; i < 150 && clip?.state !== "ready"; i++) {

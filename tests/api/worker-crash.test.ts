@@ -19,10 +19,18 @@ describe("worker crash", () => {
     const p = await makeProgram(kit.db);
     const m = await makeMember(kit.db, p.id, ["sonographer"]);
     const auth = `Bearer ${await tokenFor(kit, m)}`;
-    const exam = (await request(kit.app).post("/api/exams").set("Authorization", auth).send({ applicationCode: "efast", performedAt: new Date(Date.now() - 60_000).toISOString(), setting: "simulated", transducer: "curvilinear" })).body.exam;
+    const exam = (
+      await request(kit.app)
+        .post("/api/exams")
+        .set("Authorization", auth)
+        .send({ applicationCode: "efast", performedAt: new Date(Date.now() - 60_000).toISOString(), setting: "simulated", transducer: "curvilinear" })
+    ).body.exam;
     const dir = fixtureDir();
     // Big enough that the transcode is still running when the worker is killed.
-    const up = await request(kit.app).post(`/api/exams/${exam.id}/clips`).set("Authorization", auth).attach("file", mpeg4Avi(dir, "long.avi", { seconds: 12, size: "1280x720" }));
+    const up = await request(kit.app)
+      .post(`/api/exams/${exam.id}/clips`)
+      .set("Authorization", auth)
+      .attach("file", mpeg4Avi(dir, "long.avi", { seconds: 12, size: "1280x720" }));
     expect(up.status).toBe(202);
 
     const child = spawn(process.execPath, ["--import", "tsx", "server/worker.ts"], {

@@ -17,7 +17,13 @@ export function registerAuditRoutes(kit: RouteKit, { db }: RouteContext) {
       const base = db("audit_log as a").where("a.program_id", user.programId);
       if (query.action) base.andWhere("a.action", query.action);
       const [rows, [{ count }]] = await Promise.all([
-        base.clone().leftJoin("users as u", "u.id", "a.actor_user_id").orderBy("a.id", "desc").limit(query.limit).offset(query.offset).select("a.*", "u.name as actor_name"),
+        base
+          .clone()
+          .leftJoin("users as u", "u.id", "a.actor_user_id")
+          .orderBy("a.id", "desc")
+          .limit(query.limit)
+          .offset(query.offset)
+          .select("a.*", "u.name as actor_name"),
         base.clone().count<{ count: string }[]>("* as count"),
       ]);
       return {

@@ -4,9 +4,12 @@ import { rateLimit, ipKeyGenerator } from "express-rate-limit";
 import type { RequestHandler } from "express";
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../app";
-import { HttpError } from "../../http/errors";
+import { HttpError, validationError } from "../../http/errors";
 import {
+  acceptInvitationNewSchema,
   acceptInvitationSchema,
+  myProgramsSchema,
+  programChoiceSchema,
   changePasswordSchema,
   forgotPasswordSchema,
   invitationPreviewSchema,
@@ -87,7 +90,14 @@ export function registerAuthRoutes(kit: RouteKit, { db, config, mailer, log }: R
     handler: async ({ req, res, user }) => {
       await db.transaction(async (trx) => {
         await trx("sessions").where("id", user.sessionId).update({ revoked_at: trx.fn.now(), revoked_reason: "logout" });
-        await audit(trx, { programId: user.programId, actorUserId: user.id, action: "auth.signed_out", entityType: "session", entityId: user.sessionId, ip: req.ip });
+        await audit(trx, {
+          programId: user.programId,
+          actorUserId: user.id,
+          action: "auth.signed_out",
+          entityType: "session",
+          entityId: user.sessionId,
+          ip: req.ip,
+        });
       });
       clearSessionCookie(res, config);
     },
@@ -177,7 +187,49 @@ export function registerAuthRoutes(kit: RouteKit, { db, config, mailer, log }: R
       await db.transaction(async (trx) => {
         await trx("users").where("id", user.id).update({ password_hash: passwordHash, password_changed_at: trx.fn.now() });
         await revokeSessions(trx, { userId: user.id, exceptSessionId: user.sessionId, reason: "password_changed" });
-        await audit(trx, { programId: user.programId, actorUserId: user.id, action: "auth.password_changed", entityType: "user", entityId: user.id, ip: req.ip });
+        await audit(trx, {
+          programId: user.programId,
+          actorUserId: user.id,
+          action: "auth.password_changed",
+          entityType: "user",
+          entityId: user.id,
+          ip: req.ip,
+        });
+      });
+    },
+  });
+
+  defineRoute(kit, {
+    method: "get",
+    path: "/auth/programs",
+    summary: "The programs you belong to, and which one this session is in",
+    tag: "auth",
+    access: "signed_in",
+    responses: { 200: { description: "Programs", schema: myProgramsSchema } },
+    handler: async ({ user }) => ({
+      programs: (await activeMemberships(db, user.id)).map((m) => ({
+        id: m.programId,
+        name: m.programName,
+        roles: m.roles,
+        current: m.programId === user.programId,
+      })),
+    }),
+  });
+
+  defineRoute(kit, {
+    method: "post",
+    path: "/auth/switch-program",
+    summary: "Move your session to another program you belong to (a new token; the old one ends)",
+    tag: "auth",
+    access: "signed_in",
+    body: programChoiceSchema,
+    responses: { 200: { description: "Signed in to that program", schema: loginResponseSchema }, 404: { description: "Not a member of that program" } },
+    handler: async ({ req, res, user, body }) => {
+      const target = (await activeMemberships(db, user.id)).find((m) => m.programId === body.programId);
+      if (!target) throw new HttpError(404, "not_found", "programId: you are not an active member of that program");
+      return db.transaction(async (trx) => {
+        await trx("sessions").where("id", user.sessionId).update({ revoked_at: trx.fn.now(), revoked_reason: "switched_program" });
+        return openSession(trx, config, req, res, target, "auth.switched_program");
       });
     },
   });
@@ -201,10 +253,10 @@ export function registerAuthRoutes(kit: RouteKit, { db, config, mailer, log }: R
     params: z.object({ token: z.string().min(20).max(200) }),
     responses: { 200: { description: "The invitation", schema: invitationPreviewSchema }, 404: { description: "Not valid" } },
     handler: async ({ params }) => {
-      const inv = await openInvitation(db, params.token).first("i.email", "i.roles", "p.name as program_name");
+      const inv = await openInvitation(db, params.token).first("i.email", "i.roles", "i.name", "p.name as program_name");
       if (!inv) throw invitationNotFound();
       const existing = await db("users").where("email", inv.email).whereNotNull("password_hash").first("id");
-      return { email: inv.email, programName: inv.program_name, roles: inv.roles, existingUser: Boolean(existing) };
+      return { email: inv.email, programName: inv.program_name, roles: inv.roles, existingUser: Boolean(existing), name: inv.name ?? null };
     },
   });
 
@@ -217,6 +269,15 @@ export function registerAuthRoutes(kit: RouteKit, { db, config, mailer, log }: R
     body: acceptInvitationSchema,
     responses: { 200: { description: "Joined and signed in", schema: loginResponseSchema }, 404: { description: "Not valid" } },
     handler: async ({ req, res, body }) => {
+      const existingAccount = await db("users")
+        .where("email", db("invitations").where("token_hash", hashToken(body.token)).select("email").limit(1))
+        .whereNotNull("password_hash")
+        .first("id");
+      if (!existingAccount) {
+        // A new person: the stricter rules of a new account apply.
+        const strict = acceptInvitationNewSchema.safeParse(body);
+        if (!strict.success) throw validationError(strict.error, "body");
+      }
       const passwordHash = await hashPassword(body.password, config.bcryptRounds);
       return db.transaction(async (trx) => {
         const inv = await openInvitation(trx, body.token).forUpdate("i").first("i.*", "p.name as program_name");
@@ -228,9 +289,11 @@ export function registerAuthRoutes(kit: RouteKit, { db, config, mailer, log }: R
             throw new HttpError(400, "wrong_password", "password: you already have an account; enter its current password to join");
           }
         } else if (user) {
-          await trx("users").where("id", user.id).update({ name: body.name, password_hash: passwordHash, password_changed_at: trx.fn.now() });
+          await trx("users").where("id", user.id).update({ name: body.name!, password_hash: passwordHash, password_changed_at: trx.fn.now() });
         } else {
-          [user] = await trx("users").insert({ email: inv.email, name: body.name, password_hash: passwordHash, password_changed_at: trx.fn.now() }).returning(["id", "name", "email"]);
+          [user] = await trx("users")
+            .insert({ email: inv.email, name: body.name!, password_hash: passwordHash, password_changed_at: trx.fn.now() })
+            .returning(["id", "name", "email"]);
         }
         await trx.raw(
           `INSERT INTO memberships (user_id, program_id, roles) VALUES (?, ?, ?)
@@ -238,7 +301,14 @@ export function registerAuthRoutes(kit: RouteKit, { db, config, mailer, log }: R
           [user!.id, inv.program_id, inv.roles],
         );
         await trx("invitations").where("id", inv.id).update({ accepted_at: trx.fn.now() });
-        await audit(trx, { programId: inv.program_id, actorUserId: user!.id, action: "invitation.accepted", entityType: "invitation", entityId: inv.id, ip: req.ip });
+        await audit(trx, {
+          programId: inv.program_id,
+          actorUserId: user!.id,
+          action: "invitation.accepted",
+          entityType: "invitation",
+          entityId: inv.id,
+          ip: req.ip,
+        });
         const me = (await activeMemberships(trx, user!.id)).find((m) => m.programId === inv.program_id)!;
         return openSession(trx, config, req, res, me, "auth.signed_in");
       });

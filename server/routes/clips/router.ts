@@ -26,7 +26,12 @@ const VARIANTS = ["video", "image", "poster", "strip", "thumb"] as const;
 export function cleanFileName(name: string): string {
   const base = name.split(/[\\/]/).pop() ?? "";
   // eslint-disable-next-line no-control-regex
-  return base.replace(/[\u0000-\u001f\u007f]/g, "").replace(/^\.+/, "").slice(0, 200) || "upload";
+  return (
+    base
+      .replace(/[\u0000-\u001f\u007f]/g, "")
+      .replace(/^\.+/, "")
+      .slice(0, 200) || "upload"
+  );
 }
 
 async function sha256(file: string): Promise<string> {
@@ -107,7 +112,11 @@ export function registerClipRoutes(kit: RouteKit, { db, storage, config, jobs }:
         const view = typeof req.body?.view === "string" && req.body.view.trim() ? req.body.view.trim().slice(0, 60) : null;
         const media = await detectMedia(file.path);
         if (!media.kind) {
-          throw new HttpError(415, "unsupported_media_type", `file: found ${media.found}; upload MP4, MOV, M4V, AVI, WebM or MKV video, or a JPEG or PNG still`);
+          throw new HttpError(
+            415,
+            "unsupported_media_type",
+            `file: found ${media.found}; upload MP4, MOV, M4V, AVI, WebM or MKV video, or a JPEG or PNG still`,
+          );
         }
         const digest = await sha256(file.path);
         const clipId = crypto.randomUUID();
@@ -137,7 +146,15 @@ export function registerClipRoutes(kit: RouteKit, { db, storage, config, jobs }:
               })
               .returning("*");
             await trx("exams").where("id", exam.id).update({ updated_at: trx.fn.now() });
-            await audit(trx, { programId: user.programId, actorUserId: user.id, action: "clip.uploaded", entityType: "clip", entityId: clipId, ip: req.ip, details: { examId: exam.id, sha256: digest, bytes: file.size } });
+            await audit(trx, {
+              programId: user.programId,
+              actorUserId: user.id,
+              action: "clip.uploaded",
+              entityType: "clip",
+              entityId: clipId,
+              ip: req.ip,
+              details: { examId: exam.id, sha256: digest, bytes: file.size },
+            });
             return r;
           });
         } catch (err) {
@@ -183,7 +200,15 @@ export function registerClipRoutes(kit: RouteKit, { db, storage, config, jobs }:
           Object.assign(changes, { redactions: JSON.stringify(body.redactions), process_version: clip.process_version + 1, state: "queued", error: null });
         }
         const [row] = await trx("clips").where("id", clip.id).update(changes).returning("*");
-        await audit(trx, { programId: user.programId, actorUserId: user.id, action: reprocess ? "clip.redacted" : "clip.updated", entityType: "clip", entityId: clip.id, ip: req.ip, details: reprocess ? { boxes: body.redactions!.length } : undefined });
+        await audit(trx, {
+          programId: user.programId,
+          actorUserId: user.id,
+          action: reprocess ? "clip.redacted" : "clip.updated",
+          entityType: "clip",
+          entityId: clip.id,
+          ip: req.ip,
+          details: reprocess ? { boxes: body.redactions!.length } : undefined,
+        });
         return { row: row as ClipRow & { process_version: number }, reprocess };
       });
       if (reprocess) await jobs.enqueueClip({ clipId: row.id, version: row.process_version }).catch(() => undefined);
@@ -203,7 +228,10 @@ export function registerClipRoutes(kit: RouteKit, { db, storage, config, jobs }:
       const row = await db.transaction(async (trx) => {
         const clip = await loadOwnClip(user, params.id, true);
         if (clip.state !== "failed") throw new HttpError(409, "not_failed", `The clip is ${clip.state}; only a failed clip can be retried`);
-        const [row] = await trx("clips").where("id", clip.id).update({ state: "queued", error: null, process_version: clip.process_version + 1, updated_at: trx.fn.now() }).returning("*");
+        const [row] = await trx("clips")
+          .where("id", clip.id)
+          .update({ state: "queued", error: null, process_version: clip.process_version + 1, updated_at: trx.fn.now() })
+          .returning("*");
         await audit(trx, { programId: user.programId, actorUserId: user.id, action: "clip.retried", entityType: "clip", entityId: clip.id, ip: req.ip });
         return row as ClipRow;
       });
@@ -227,7 +255,11 @@ export function registerClipRoutes(kit: RouteKit, { db, storage, config, jobs }:
         await audit(trx, { programId: user.programId, actorUserId: user.id, action: "clip.removed", entityType: "clip", entityId: clip.id, ip: req.ip });
         return clip;
       });
-      await Promise.all([clip.original_key, clip.output_key, clip.poster_key, clip.strip_key, clip.thumb_key].filter(Boolean).map((k: string) => storage.delete(k).catch(() => undefined)));
+      await Promise.all(
+        [clip.original_key, clip.output_key, clip.poster_key, clip.strip_key, clip.thumb_key]
+          .filter(Boolean)
+          .map((k: string) => storage.delete(k).catch(() => undefined)),
+      );
     },
   });
 
@@ -238,17 +270,27 @@ export function registerClipRoutes(kit: RouteKit, { db, storage, config, jobs }:
     tag: "clips",
     access: "signed_in",
     params: z.object({ id: z.uuid(), variant: z.enum(VARIANTS) }),
-    responses: { 200: { description: "The bytes" }, 206: { description: "Part of the bytes" }, 404: { description: "Not visible to you, or not processed" }, 416: { description: "Range not satisfiable" } },
+    responses: {
+      200: { description: "The bytes" },
+      206: { description: "Part of the bytes" },
+      404: { description: "Not visible to you, or not processed" },
+      416: { description: "Range not satisfiable" },
+    },
     handler: async ({ req, res, user, params }) => {
       const clip = await findClipWithExam(db, user.programId, params.id);
       if (!clip) throw notFound("Clip");
       assertCanView(user, clipAsExam(clip));
       if (clip.state !== "ready") throw notFound("Media");
-      const key = { video: clip.kind === "video" ? clip.output_key : null, image: clip.kind === "still" ? clip.output_key : null, poster: clip.poster_key, strip: clip.strip_key, thumb: clip.thumb_key ?? clip.poster_key }[params.variant];
+      const key = {
+        video: clip.kind === "video" ? clip.output_key : null,
+        image: clip.kind === "still" ? clip.output_key : null,
+        poster: clip.poster_key,
+        strip: clip.strip_key,
+        thumb: clip.thumb_key ?? clip.poster_key,
+      }[params.variant];
       if (!key) throw notFound("Media");
       const type = key.endsWith(".mp4") ? "video/mp4" : key.endsWith(".png") ? "image/png" : "image/jpeg";
       await sendStored(req, res, storage, key, type);
     },
   });
-
 }

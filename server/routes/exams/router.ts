@@ -16,12 +16,17 @@ import type { FindingRead } from "../../../shared/catalogue";
 /** Checks the application and the finding keys against the program's catalogue. */
 async function resolveApplication(db: Knex | Knex.Transaction, programId: string, code: string, findings: { key: string; read: FindingRead }[] | undefined) {
   const app = await db("applications").where({ program_id: programId, code, active: true }).first("id", "code");
-  if (!app) throw new HttpError(400, "validation_failed", `applicationCode: no active application "${code}" in this program`, [{ path: "applicationCode", message: "Unknown application" }]);
+  if (!app)
+    throw new HttpError(400, "validation_failed", `applicationCode: no active application "${code}" in this program`, [
+      { path: "applicationCode", message: "Unknown application" },
+    ]);
   if (findings?.length) {
     const known = new Set((await db("application_findings").where("application_id", app.id).select("key")).map((r) => r.key));
     const bad = findings.findIndex((f) => !known.has(f.key));
     if (bad >= 0) {
-      throw new HttpError(400, "validation_failed", `findings.${bad}.key: "${findings[bad].key}" is not a finding of this application`, [{ path: `findings.${bad}.key`, message: "Unknown finding" }]);
+      throw new HttpError(400, "validation_failed", `findings.${bad}.key: "${findings[bad].key}" is not a finding of this application`, [
+        { path: `findings.${bad}.key`, message: "Unknown finding" },
+      ]);
     }
   }
   return app as { id: string; code: string };
@@ -31,7 +36,10 @@ export function registerExamRoutes(kit: RouteKit, { db, storage, config, log }: 
   const detail = async (user: AuthUser, id: string) => {
     const d = await examDetail(db, user.programId, id);
     assertCanView(user, d?.exam);
-    return presentExam(d!.exam, d!.findings, d!.clips, { identifySonographer: mayIdentifySonographer(user, d!.exam), forOwner: d!.exam.sonographer_id === user.id });
+    return presentExam(d!.exam, d!.findings, d!.clips, {
+      identifySonographer: mayIdentifySonographer(user, d!.exam),
+      forOwner: d!.exam.sonographer_id === user.id,
+    });
   };
 
   defineRoute(kit, {
@@ -113,14 +121,23 @@ export function registerExamRoutes(kit: RouteKit, { db, storage, config, log }: 
         const currentCode = body.applicationCode ?? (await trx("applications").where("id", exam.application_id).first("code")).code;
         const app = await resolveApplication(trx, user.programId, currentCode, body.findings);
         const changes: Record<string, unknown> = { updated_at: trx.fn.now(), application_id: app.id };
-        for (const [field, column] of [["performedAt", "performed_at"], ["setting", "setting"], ["transducer", "transducer"], ["preset", "preset"], ["indication", "indication"]] as const) {
+        for (const [field, column] of [
+          ["performedAt", "performed_at"],
+          ["setting", "setting"],
+          ["transducer", "transducer"],
+          ["preset", "preset"],
+          ["indication", "indication"],
+        ] as const) {
           if (body[field] !== undefined) changes[column] = body[field];
         }
         await trx("exams").where("id", exam.id).update(changes);
         if (body.findings) await replaceFindings(trx, exam.id, body.findings);
         else if (body.applicationCode) {
           // Findings of another application do not carry over.
-          await trx("exam_findings").where("exam_id", exam.id).whereNotIn("finding_key", trx("application_findings").where("application_id", app.id).select("key")).delete();
+          await trx("exam_findings")
+            .where("exam_id", exam.id)
+            .whereNotIn("finding_key", trx("application_findings").where("application_id", app.id).select("key"))
+            .delete();
         }
         await audit(trx, { programId: user.programId, actorUserId: user.id, action: "exam.updated", entityType: "exam", entityId: exam.id, ip: req.ip });
       });
@@ -145,10 +162,25 @@ export function registerExamRoutes(kit: RouteKit, { db, storage, config, log }: 
         if (!clips.some((c) => c.state === "ready")) throw new HttpError(409, "no_ready_clip", "Add at least one clip and wait until it is processed");
         const waiting = clips.filter((c) => c.state !== "ready");
         if (waiting.length) {
-          throw new HttpError(409, "clips_not_ready", `${waiting.length} clip(s) are still processing or failed: retry or remove them first`, waiting.map((c) => ({ clipId: c.id, state: c.state })));
+          throw new HttpError(
+            409,
+            "clips_not_ready",
+            `${waiting.length} clip(s) are still processing or failed: retry or remove them first`,
+            waiting.map((c) => ({ clipId: c.id, state: c.state })),
+          );
         }
-        await trx("exams").where("id", exam.id).update({ status: "submitted", submitted_at: trx.fn.now(), attested_at: trx.fn.now(), updated_at: trx.fn.now() });
-        await audit(trx, { programId: user.programId, actorUserId: user.id, action: "exam.submitted", entityType: "exam", entityId: exam.id, ip: req.ip, details: { attestNoIdentifiers: true } });
+        await trx("exams")
+          .where("id", exam.id)
+          .update({ status: "submitted", submitted_at: trx.fn.now(), attested_at: trx.fn.now(), updated_at: trx.fn.now() });
+        await audit(trx, {
+          programId: user.programId,
+          actorUserId: user.id,
+          action: "exam.submitted",
+          entityType: "exam",
+          entityId: exam.id,
+          ip: req.ip,
+          details: { attestNoIdentifiers: true },
+        });
         if (config.originalRetention === "delete_on_submit") {
           await trx("clips").where("exam_id", exam.id).update({ original_key: null });
           return clips.map((c) => c.original_key).filter(Boolean) as string[];
@@ -181,5 +213,4 @@ export function registerExamRoutes(kit: RouteKit, { db, storage, config, log }: 
       await Promise.all([...new Set(keys)].map((k) => storage.delete(k).catch(log)));
     },
   });
-
 }

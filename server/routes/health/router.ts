@@ -15,7 +15,10 @@ export function registerHealthRoutes(kit: RouteKit, { db }: RouteContext) {
     responses: { 200: { description: "Up", schema: healthSchema }, 503: { description: "Database down", schema: healthSchema } },
     handler: async ({ res }) => {
       const up = await Promise.race([
-        db.raw("select 1").then(() => true, () => false),
+        db.raw("select 1").then(
+          () => true,
+          () => false,
+        ),
         new Promise<boolean>((r) => setTimeout(() => r(false), 3000).unref()),
       ]);
       res.status(up ? 200 : 503).json({ ok: up, db: up ? "up" : "down" });

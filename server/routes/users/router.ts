@@ -17,7 +17,14 @@ import type { Role } from "../../../shared/roles";
 const INVITATION_HOURS = 72;
 
 const presentInvitation = (r: {
-  id: string; email: string; roles: Role[]; inviter_name: string | null; created_at: Date; expires_at: Date; accepted_at: Date | null; revoked_at: Date | null;
+  id: string;
+  email: string;
+  roles: Role[];
+  inviter_name: string | null;
+  created_at: Date;
+  expires_at: Date;
+  accepted_at: Date | null;
+  revoked_at: Date | null;
 }) => ({
   id: r.id,
   email: r.email,
@@ -62,14 +69,21 @@ export function registerUserRoutes(kit: RouteKit, { db, config, mailer }: RouteC
     body: inviteSchema,
     responses: { 201: { description: "Invited", schema: z.object({ invitation: invitationSchema }) }, 409: { description: "Already a member" } },
     handler: async ({ req, res, user, body }) => {
-      const existing = await db("memberships as m").join("users as u", "u.id", "m.user_id").where({ "u.email": body.email, "m.program_id": user.programId }).first("m.deactivated_at");
+      const existing = await db("memberships as m")
+        .join("users as u", "u.id", "m.user_id")
+        .where({ "u.email": body.email, "m.program_id": user.programId })
+        .first("m.deactivated_at");
       if (existing && existing.deactivated_at === null) {
         throw new HttpError(409, "already_member", `email: ${body.email} is already a member of this program`);
       }
       const { token, hash } = newEmailToken();
       // The e-mail goes out inside the transaction: if it cannot be sent, no invitation is left behind.
       const invitation = await db.transaction(async (trx) => {
-        await trx("invitations").where({ program_id: user.programId, email: body.email }).whereNull("accepted_at").whereNull("revoked_at").update({ revoked_at: trx.fn.now() });
+        await trx("invitations")
+          .where({ program_id: user.programId, email: body.email })
+          .whereNull("accepted_at")
+          .whereNull("revoked_at")
+          .update({ revoked_at: trx.fn.now() });
         const [row] = await trx("invitations")
           .insert({
             program_id: user.programId,
@@ -81,9 +95,24 @@ export function registerUserRoutes(kit: RouteKit, { db, config, mailer }: RouteC
             expires_at: trx.raw(`now() + make_interval(hours => ?)`, [INVITATION_HOURS]),
           })
           .returning("*");
-        await audit(trx, { programId: user.programId, actorUserId: user.id, action: "invitation.created", entityType: "invitation", entityId: row.id, ip: req.ip, details: { email: body.email, roles: body.roles } });
+        await audit(trx, {
+          programId: user.programId,
+          actorUserId: user.id,
+          action: "invitation.created",
+          entityType: "invitation",
+          entityId: row.id,
+          ip: req.ip,
+          details: { email: body.email, roles: body.roles },
+        });
         await mailer.send(
-          invitationMail({ to: body.email, programName: user.programName, roles: body.roles, inviter: user.name, link: `${config.appUrl}/invitation?token=${token}`, expiresHours: INVITATION_HOURS }),
+          invitationMail({
+            to: body.email,
+            programName: user.programName,
+            roles: body.roles,
+            inviter: user.name,
+            link: `${config.appUrl}/invitation?token=${token}`,
+            expiresHours: INVITATION_HOURS,
+          }),
         );
         return { ...row, inviter_name: user.name };
       });
@@ -101,9 +130,20 @@ export function registerUserRoutes(kit: RouteKit, { db, config, mailer }: RouteC
     responses: { 204: { description: "Revoked" }, 404: { description: "No open invitation with this id in the program" } },
     handler: async ({ req, user, params }) => {
       await db.transaction(async (trx) => {
-        const n = await trx("invitations").where({ id: params.id, program_id: user.programId }).whereNull("accepted_at").whereNull("revoked_at").update({ revoked_at: trx.fn.now() });
+        const n = await trx("invitations")
+          .where({ id: params.id, program_id: user.programId })
+          .whereNull("accepted_at")
+          .whereNull("revoked_at")
+          .update({ revoked_at: trx.fn.now() });
         if (n === 0) throw notFound("Invitation");
-        await audit(trx, { programId: user.programId, actorUserId: user.id, action: "invitation.revoked", entityType: "invitation", entityId: params.id, ip: req.ip });
+        await audit(trx, {
+          programId: user.programId,
+          actorUserId: user.id,
+          action: "invitation.revoked",
+          entityType: "invitation",
+          entityId: params.id,
+          ip: req.ip,
+        });
       });
     },
   });
@@ -116,7 +156,11 @@ export function registerUserRoutes(kit: RouteKit, { db, config, mailer }: RouteC
     access: ["admin"],
     params: idParamsSchema,
     body: updateRolesSchema,
-    responses: { 200: { description: "Updated", schema: z.object({ member: memberSchema }) }, 404: { description: "Not a member" }, 409: { description: "Would leave no admin" } },
+    responses: {
+      200: { description: "Updated", schema: z.object({ member: memberSchema }) },
+      404: { description: "Not a member" },
+      409: { description: "Would leave no admin" },
+    },
     handler: async ({ req, user, params, body }) =>
       db.transaction(async (trx) => {
         const target = await findMember(trx, user.programId, params.id, true);
@@ -127,7 +171,15 @@ export function registerUserRoutes(kit: RouteKit, { db, config, mailer }: RouteC
         if (losesARole(target.roles, body.roles)) {
           await revokeSessions(trx, { userId: params.id, programId: user.programId, reason: "roles_changed" });
         }
-        await audit(trx, { programId: user.programId, actorUserId: user.id, action: "member.roles_changed", entityType: "user", entityId: params.id, ip: req.ip, details: { from: target.roles, to: body.roles } });
+        await audit(trx, {
+          programId: user.programId,
+          actorUserId: user.id,
+          action: "member.roles_changed",
+          entityType: "user",
+          entityId: params.id,
+          ip: req.ip,
+          details: { from: target.roles, to: body.roles },
+        });
         return { member: presentMember({ ...target, roles: body.roles }) };
       }),
   });
@@ -140,7 +192,11 @@ export function registerUserRoutes(kit: RouteKit, { db, config, mailer }: RouteC
       tag: "people",
       access: ["admin"],
       params: idParamsSchema,
-      responses: { 200: { description: "Done", schema: z.object({ member: memberSchema }) }, 404: { description: "Not a member" }, 409: { description: "Not allowed for this member" } },
+      responses: {
+        200: { description: "Done", schema: z.object({ member: memberSchema }) },
+        404: { description: "Not a member" },
+        409: { description: "Not allowed for this member" },
+      },
       handler: async ({ req, user, params }) =>
         db.transaction(async (trx) => {
           const target = await findMember(trx, user.programId, params.id, true);
@@ -152,7 +208,14 @@ export function registerUserRoutes(kit: RouteKit, { db, config, mailer }: RouteC
           }
           const deactivatedAt = action === "deactivate" ? (target.deactivated_at ?? new Date()) : null;
           await trx("memberships").where({ user_id: params.id, program_id: user.programId }).update({ deactivated_at: deactivatedAt });
-          await audit(trx, { programId: user.programId, actorUserId: user.id, action: `member.${action}d`, entityType: "user", entityId: params.id, ip: req.ip });
+          await audit(trx, {
+            programId: user.programId,
+            actorUserId: user.id,
+            action: `member.${action}d`,
+            entityType: "user",
+            entityId: params.id,
+            ip: req.ip,
+          });
           return { member: presentMember({ ...target, deactivated_at: deactivatedAt }) };
         }),
     });

@@ -12,6 +12,8 @@ export interface InvitationPreview {
   programName: string;
   roles: Role[];
   existingUser: boolean;
+  /** The name the inviter typed, if any. */
+  name: string | null;
 }
 
 /** Signs in and stores the user as the session, so guards see it without another request. */

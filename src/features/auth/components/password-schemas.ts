@@ -1,6 +1,6 @@
 // The shared password schemas plus a "type it again" field, checked only in the browser.
 import { z } from "zod";
-import { acceptInvitationSchema, changePasswordSchema, resetPasswordSchema } from "../../../../shared/schemas/auth";
+import { acceptInvitationExistingSchema, acceptInvitationNewSchema, changePasswordSchema, resetPasswordSchema } from "../../../../shared/schemas/auth";
 
 const MISMATCH = "The two passwords do not match";
 
@@ -17,8 +17,9 @@ export const changePasswordFormSchema = changePasswordSchema
  * existing account proves itself with its current password, so there is nothing to repeat.
  */
 export const acceptInvitationFormSchema = (existingUser: boolean) =>
-  acceptInvitationSchema.extend({ confirmPassword: z.string() }).superRefine((v, ctx) => {
-    if (existingUser) return;
-    if (!v.confirmPassword) ctx.addIssue({ code: "custom", path: ["confirmPassword"], message: "Type the password again" });
-    else if (v.password !== v.confirmPassword) ctx.addIssue({ code: "custom", path: ["confirmPassword"], message: MISMATCH });
-  });
+  existingUser
+    ? acceptInvitationExistingSchema.extend({ name: z.string(), confirmPassword: z.string() })
+    : acceptInvitationNewSchema.extend({ confirmPassword: z.string() }).superRefine((v, ctx) => {
+        if (!v.confirmPassword) ctx.addIssue({ code: "custom", path: ["confirmPassword"], message: "Type the password again" });
+        else if (v.password !== v.confirmPassword) ctx.addIssue({ code: "custom", path: ["confirmPassword"], message: MISMATCH });
+      });

@@ -55,7 +55,7 @@ function AcceptForm({ token, invitation }: { token: string; invitation: Invitati
     formState: { errors },
   } = useForm({
     resolver: zodResolver(acceptInvitationFormSchema(invitation.existingUser)),
-    defaultValues: { token, name: "", password: "", confirmPassword: "" },
+    defaultValues: { token, name: invitation.name ?? "", password: "", confirmPassword: "" },
   });
 
   if (dead || errors.token) return <DeadInvitation />;
@@ -98,7 +98,7 @@ function AcceptForm({ token, invitation }: { token: string; invitation: Invitati
       ) : null}
       <form onSubmit={onSubmit} noValidate className="space-y-4">
         <FormMessage message={formError} />
-        <TextField label="Your name" autoComplete="name" error={errors.name?.message} {...register("name")} />
+        {invitation.existingUser ? null : <TextField label="Your name" autoComplete="name" error={errors.name?.message} {...register("name")} />}
         {invitation.existingUser ? (
           <TextField label="Current password" type="password" autoComplete="current-password" error={errors.password?.message} {...register("password")} />
         ) : (
