@@ -25,13 +25,9 @@ const VARIANTS = ["video", "image", "poster", "strip", "thumb"] as const;
 /** Keeps a display name only: no folders, no control characters, bounded length. */
 export function cleanFileName(name: string): string {
   const base = name.split(/[\\/]/).pop() ?? "";
-  // eslint-disable-next-line no-control-regex
-  return (
-    base
-      .replace(/[\u0000-\u001f\u007f]/g, "")
-      .replace(/^\.+/, "")
-      .slice(0, 200) || "upload"
-  );
+  // Control characters (U+0000–U+001F, U+007F) never belong in a displayed name.
+  const printable = [...base].filter((ch) => ch.charCodeAt(0) > 0x1f && ch.charCodeAt(0) !== 0x7f).join("");
+  return printable.replace(/^\.+/, "").slice(0, 200) || "upload";
 }
 
 async function sha256(file: string): Promise<string> {
