@@ -74,6 +74,22 @@ export const router = createBrowserRouter([
                 loader: requireRoles(["admin"]),
                 lazy: page(() => import("../features/audit/routes/audit-log")),
               },
+              {
+                path: "exams",
+                loader: requireRoles(["sonographer"]),
+                lazy: page(() => import("../features/exams/routes/my-exams")),
+              },
+              {
+                path: "exams/new",
+                loader: requireRoles(["sonographer"]),
+                lazy: page(() => import("../features/exams/routes/new-exam")),
+              },
+              {
+                path: "exams/:id/edit",
+                loader: requireRoles(["sonographer"]),
+                lazy: page(() => import("../features/exams/routes/edit-exam")),
+              },
+              { path: "exams/:id", lazy: page(() => import("../features/exams/routes/exam-page")) },
               { path: "setup/applications", lazy: page(() => import("../features/applications/routes/applications")) },
               { path: "account/password", lazy: page(() => import("../features/auth/routes/change-password")) },
               { path: "*", lazy: page(() => import("./not-found-page")) },

@@ -1,5 +1,5 @@
 // Navigation by role (PRODUCT.md section 9). Only screens that exist are listed; areas such as
-// Submit, Queue and Oversight join here when they are built. Hiding a link is convenience;
+// Queue and Oversight join here when they are built. Hiding a link is convenience;
 // the server still decides access.
 import type { Role } from "../../../shared/roles";
 
@@ -18,6 +18,13 @@ export interface NavGroup {
 
 export const NAV_GROUPS: NavGroup[] = [
   { label: null, items: [{ to: "/", label: "Home", end: true }] },
+  {
+    label: "Scanning",
+    items: [
+      { to: "/exams/new", label: "Submit", roles: ["sonographer"] },
+      { to: "/exams", label: "My exams", roles: ["sonographer"], end: true },
+    ],
+  },
   {
     label: "Setup",
     items: [

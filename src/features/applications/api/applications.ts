@@ -1,13 +1,7 @@
-// The program's application catalogue (exam types), read-only for now.
-import { queryOptions, useQuery } from "@tanstack/react-query";
-import type { Application } from "../../../../shared/schemas/applications";
-import { api } from "../../../lib/api-client";
-
-export const applicationsQuery = queryOptions({
-  queryKey: ["applications", "list"],
-  queryFn: ({ signal }) => api<{ applications: Application[] }>("/applications", { signal }),
-  staleTime: 5 * 60_000,
-});
+// The program's application catalogue (exam types), read-only for now. The query itself
+// lives in lib/ because the exam form builds on the same catalogue.
+import { useQuery } from "@tanstack/react-query";
+import { applicationsQuery } from "../../../lib/catalogue";
 
 export function useApplications() {
   return useQuery(applicationsQuery);

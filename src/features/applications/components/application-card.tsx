@@ -1,14 +1,7 @@
 // One application of the catalogue: its transducers, typical depth, views and findings.
 import type { Application } from "../../../../shared/schemas/applications";
-import type { Transducer } from "../../../../shared/catalogue";
 import { StatusTag } from "../../../components/ui/status-tag";
-
-const TRANSDUCER_LABELS: Record<Transducer, string> = {
-  linear: "Linear",
-  curvilinear: "Curvilinear",
-  phased: "Phased array",
-  endocavitary: "Endocavitary",
-};
+import { TRANSDUCER_LABELS } from "../../../lib/catalogue";
 
 function LabelList({ items }: { items: { key: string; label: string }[] }) {
   if (items.length === 0) return <p className="text-sm text-slate-600">None listed</p>;

@@ -1,0 +1,142 @@
+// One exam: its details, the sonographer's reads and every clip with its player and live
+// processing state. A draft can still be labelled, redacted and fixed here; a submitted
+// exam is read-only.
+import { useEffect } from "react";
+import { Link, useLocation, useParams } from "react-router-dom";
+import { useQuery } from "@tanstack/react-query";
+import { buttonClasses } from "../../../components/ui/button";
+import { FormMessage } from "../../../components/ui/form-message";
+import { PageHeader } from "../../../components/ui/page-header";
+import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
+import { isApiError } from "../../../lib/api-client";
+import { READ_LABELS, SETTING_LABELS, TRANSDUCER_LABELS, applicationsQuery } from "../../../lib/catalogue";
+import { formatDateTime } from "../../../lib/format";
+import { isProcessing, useExam } from "../api/exams";
+import { ClipPanel } from "../components/clip-panel";
+import { DiscardDraftButton } from "../components/discard-draft-button";
+import { ExamStatusTag } from "../components/exam-status-tag";
+
+export default function ExamPage() {
+  const { id = "" } = useParams();
+  const location = useLocation();
+  const notice = (location.state as { notice?: string } | null)?.notice ?? null;
+  const query = useExam(id);
+  const apps = useQuery(applicationsQuery);
+  const exam = query.data;
+  const application = apps.data?.applications.find((a) => a.code === exam?.application.code);
+  const editable = exam?.status === "draft";
+
+  // A link to one clip (#clip-…) scrolls to it once the exam is there.
+  const loaded = !!exam;
+  useEffect(() => {
+    if (loaded && location.hash) document.getElementById(location.hash.slice(1))?.scrollIntoView();
+  }, [loaded, location.hash]);
+
+  return (
+    <div>
+      <PageHeader
+        eyebrow="My exams"
+        title={exam ? `Exam ${exam.code}` : "Exam"}
+        actions={
+          exam && editable ? (
+            <>
+              <Link to={`/exams/${exam.id}/edit`} className={buttonClasses("primary")}>
+                Continue editing
+              </Link>
+              <DiscardDraftButton exam={exam} />
+            </>
+          ) : undefined
+        }
+      />
+      {notice ? (
+        <div className="mb-4">
+          <FormMessage tone="success" message={notice} />
+        </div>
+      ) : null}
+      {query.isPending ? (
+        <LoadingState label="Loading the exam…" />
+      ) : query.isError ? (
+        isApiError(query.error, 404) || isApiError(query.error, 400) ? (
+          <ErrorState title="No such exam" error={new Error("This exam does not exist or is not visible to you.")} />
+        ) : (
+          <ErrorState error={query.error} onRetry={() => void query.refetch()} retrying={query.isFetching} />
+        )
+      ) : (
+        <div className="space-y-6">
+          <section aria-labelledby="summary-heading" className="rounded-lg border border-slate-200 bg-white p-5">
+            <div className="flex flex-wrap items-center gap-3">
+              <h2 id="summary-heading" className="text-lg font-semibold text-ink-950">
+                {query.data.application.name}
+              </h2>
+              <ExamStatusTag status={query.data.status} />
+              {editable ? <span className="text-sm text-slate-600">Not yet sent for review.</span> : null}
+            </div>
+            <dl className="mt-4 grid gap-x-6 gap-y-2 text-sm sm:grid-cols-[10rem_1fr]">
+              <dt className="font-semibold text-slate-700">Performed</dt>
+              <dd className="tabular-nums text-ink-900">{formatDateTime(query.data.performedAt)}</dd>
+              <dt className="font-semibold text-slate-700">Setting</dt>
+              <dd className="text-ink-900">{SETTING_LABELS[query.data.setting]}</dd>
+              <dt className="font-semibold text-slate-700">Transducer</dt>
+              <dd className="text-ink-900">{TRANSDUCER_LABELS[query.data.transducer]}</dd>
+              <dt className="font-semibold text-slate-700">Preset</dt>
+              <dd className="text-ink-900">{query.data.preset || "—"}</dd>
+              <dt className="font-semibold text-slate-700">Indication</dt>
+              <dd className="whitespace-pre-line text-ink-900">{query.data.indication || "—"}</dd>
+              <dt className="font-semibold text-slate-700">Submitted</dt>
+              <dd className="tabular-nums text-ink-900">{query.data.submittedAt ? formatDateTime(query.data.submittedAt) : "Not yet"}</dd>
+            </dl>
+          </section>
+
+          <section aria-labelledby="reads-heading" className="rounded-lg border border-slate-200 bg-white p-5">
+            <h2 id="reads-heading" className="text-lg font-semibold text-ink-950">
+              Your reads
+            </h2>
+            {query.data.findings.length === 0 ? (
+              <p className="mt-2 text-sm text-slate-600">No findings read yet.</p>
+            ) : (
+              <dl className="mt-3 grid gap-x-6 gap-y-1.5 text-sm sm:grid-cols-[minmax(0,20rem)_1fr]">
+                {query.data.findings.map((f) => (
+                  <div key={f.key} className="contents">
+                    <dt className="text-ink-900">{application?.findings.find((x) => x.key === f.key)?.label ?? f.key}</dt>
+                    <dd className="font-semibold text-ink-950">{READ_LABELS[f.read]}</dd>
+                  </div>
+                ))}
+              </dl>
+            )}
+          </section>
+
+          <section aria-labelledby="clips-heading">
+            <div className="mb-3 flex flex-wrap items-center gap-3">
+              <h2 id="clips-heading" className="text-lg font-semibold text-ink-950">
+                Clips
+              </h2>
+              {isProcessing(query.data) ? (
+                <span role="status" className="text-sm text-slate-600">
+                  Processing — this page updates by itself.
+                </span>
+              ) : null}
+            </div>
+            {query.data.clips.length === 0 ? (
+              <EmptyState
+                title="No clips yet"
+                action={
+                  editable ? (
+                    <Link to={`/exams/${query.data.id}/edit`} className={buttonClasses("primary")}>
+                      Add clips
+                    </Link>
+                  ) : undefined
+                }
+              />
+            ) : (
+              <div className="space-y-4">
+                {query.data.clips.map((clip, i) => (
+                  <ClipPanel key={clip.id} examId={query.data.id} clip={clip} index={i} views={application?.views ?? []} editable={editable} />
+                ))}
+              </div>
+            )}
+          </section>
+        </div>
+      )}
+    </div>
+  );
+}
