@@ -7,6 +7,7 @@ import { fileURLToPath } from "node:url";
 import { loadConfig } from "../server/config";
 import { createRuntime } from "../server/runtime";
 import { seedDemoIfEmpty, DEMO_PASSWORD, DEMO_PROGRAMS } from "../seeds/demo";
+import { seedDemoExams } from "../seeds/demo-exams";
 import { clusterDir, freePort, portInUse, startCluster, type Cluster } from "./lib/postgres";
 import { startFakeMail, type FakeMail } from "./lib/mail-server";
 
@@ -56,6 +57,9 @@ try {
   const runtime = await createRuntime(config, { worker: config.jobs.runWorker });
   cleanups.push(() => runtime.close());
   if (await seedDemoIfEmpty(runtime.db)) console.log("Seeded the demo programs.");
+  if (env.SEED_DEMO_EXAMS !== "false") {
+    await seedDemoExams({ db: runtime.db, storage: runtime.storage, jobs: runtime.queue }, { libraryDir: path.join(root, ".data", "demo-clips"), log: (s) => console.log(s) });
+  }
 
   console.log("Building the client…");
   const build = spawnSync(process.execPath, [path.join(root, "node_modules/vite/bin/vite.js"), "build", "--logLevel", "warn"], { cwd: root, stdio: "inherit" });

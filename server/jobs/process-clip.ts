@@ -17,6 +17,8 @@ import type { RedactionBox } from "../../shared/schemas/exams";
 export interface ClipJobContext {
   db: Db;
   storage: Storage;
+  /** When "delete_on_submit", an original is dropped once its exam is submitted and the clip is done. */
+  originalRetention?: "delete_on_submit" | "keep";
   log?: (e: unknown) => void;
 }
 
@@ -32,6 +34,19 @@ export function describeFailure(err: unknown): string {
   // Paths of temporary files mean nothing to the reader and reveal the server's layout.
   if (err instanceof MediaError) return err.message.replace(/(?:\/[\w.@-]+){2,}/g, "the upload");
   return "Processing failed because of a server problem; try again, and tell your program lead if it keeps failing";
+}
+
+/** Same retention rule as at submission, for clips finished after their exam was sent (imports, the demo). */
+async function dropOriginalIfSubmitted(ctx: ClipJobContext, clipId: string) {
+  const [row] = await ctx.db("clips as c")
+    .join("exams as e", "e.id", "c.exam_id")
+    .where("c.id", clipId)
+    .whereNot("e.status", "draft")
+    .whereNotNull("c.original_key")
+    .select("c.original_key");
+  if (!row) return;
+  await ctx.db("clips").where("id", clipId).update({ original_key: null });
+  await ctx.storage.delete(row.original_key).catch(() => undefined);
 }
 
 /** Processes one clip at one version. Throws on failure (after recording the last one). */
@@ -99,6 +114,7 @@ export async function processClipJob(ctx: ClipJobContext, job: ClipJob, attempt:
       .update({ ...update, state: "ready", error: null, processed_version: job.version, processed_at: ctx.db.fn.now(), updated_at: ctx.db.fn.now() });
     // Outputs of earlier versions are superseded; a newer version's job cleans up after itself.
     if (n > 0) await Promise.all(previous.filter((k) => !Object.values(update).includes(k)).map((k) => ctx.storage.delete(k).catch(() => undefined)));
+    if (n > 0 && ctx.originalRetention === "delete_on_submit") await dropOriginalIfSubmitted(ctx, clip.id);
     return "done";
   } catch (err) {
     const last = attempt.retryCount >= attempt.retryLimit;

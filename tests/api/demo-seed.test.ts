@@ -1,0 +1,55 @@
+// The demo exam seed: invented clips generated with ffmpeg, stored, sent through the real
+// queue and pipeline; drafts and submitted exams; one clip that fails; seeded only once.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { makeKit, makeMember, makeProgram, type TestKit } from "./helpers";
+import { seedDemoExams } from "../../seeds/demo-exams";
+import { startMediaWorker, type MediaWorker } from "../../server/jobs/worker";
+import { insertCatalogue } from "../../server/repositories/applications";
+import { DEFAULT_CATALOGUE } from "../../shared/catalogue";
+
+let kit: TestKit;
+let worker: MediaWorker;
+let dir: string;
+beforeAll(async () => {
+  kit = makeKit({ JOB_SCHEMA: "pgboss_demotest", JOB_RETRY_LIMIT: "0" });
+  worker = await startMediaWorker({ db: kit.db, storage: kit.storage, config: kit.config, queue: await kit.queue(), log: () => {} });
+  dir = fs.mkdtempSync(path.join(os.tmpdir(), "soundings-demo-lib-"));
+});
+afterAll(async () => {
+  await worker.stop();
+  await kit.close();
+  fs.rmSync(dir, { recursive: true, force: true });
+});
+
+describe("demo exam seed", () => {
+  it("seeds drafts and submitted exams whose clips end ready, with one failed clip, and only once", async () => {
+    const p = await makeProgram(kit.db);
+    await kit.db("applications").where("program_id", p.id).delete();
+    await insertCatalogue(kit.db, p.id, DEFAULT_CATALOGUE.filter((a) => ["dvt", "soft_tissue"].includes(a.code)));
+    await makeMember(kit.db, p.id, ["sonographer"]);
+    await makeMember(kit.db, p.id, ["sonographer", "reviewer"]);
+    const deps = { db: kit.db, storage: kit.storage, jobs: await kit.queue() };
+    const n = await seedDemoExams(deps, { libraryDir: dir, programId: p.id, apps: ["dvt", "soft_tissue"], count: 12 });
+    expect(n).toBe(12);
+    expect(await seedDemoExams(deps, { libraryDir: dir, programId: p.id, apps: ["dvt", "soft_tissue"], count: 12 })).toBe(0);
+
+    const exams = await kit.db("exams").where("program_id", p.id);
+    expect(exams.filter((e) => e.status === "draft")).toHaveLength(10);
+    expect(exams.filter((e) => e.status === "submitted")).toHaveLength(2);
+    expect(new Set(exams.map((e) => e.sonographer_id)).size).toBe(2);
+
+    const settled = async () => kit.db("clips").where("program_id", p.id).whereIn("state", ["queued", "processing"]).count<{ c: string }[]>("* as c");
+    for (let i = 0; i < 300 && Number((await settled())[0].c) > 0; i++) await new Promise((r) => setTimeout(r, 200));
+    const clips = await kit.db("clips").where("program_id", p.id);
+    expect(clips.filter((c) => c.state === "failed")).toHaveLength(1);
+    expect(clips.filter((c) => c.state === "ready").length).toBe(clips.length - 1);
+    const stills = clips.filter((c) => c.kind === "still" && c.state === "ready");
+    expect(stills.length).toBeGreaterThan(0);
+    // Submitted exams keep no originals once their clips are done.
+    const submittedIds = new Set(exams.filter((e) => e.status === "submitted").map((e) => e.id));
+    expect(clips.filter((c) => submittedIds.has(c.exam_id)).every((c) => c.original_key === null)).toBe(true);
+  }, 120_000);
+});
