@@ -35,6 +35,8 @@ export interface DemoClipOptions extends DemoImageOptions {
   audio?: boolean;
   /** Container metadata to write (to prove the pipeline strips it). */
   metadata?: Record<string, string>;
+  /** Force a keyframe every this many seconds (default: the encoder's own choice). */
+  keyframeEvery?: number;
 }
 
 /** Gain multipliers of the synthetic picture (balanced gives a mean luma of about 80 in the imaging area). */
@@ -150,7 +152,10 @@ async function layers(o: DemoImageOptions, dir: string, moving: boolean) {
   const raw = (w: number, h: number) => ({ raw: { width: w, height: h, channels: 1 as const } });
   await Promise.all([
     sharp(footprintMask(o), raw(o.width, o.height)).png({ compressionLevel: 1 }).toFile(maskPath),
-    sharp(tissueTexture(o, texW, texH), raw(texW, texH)).blur(0.6).png({ compressionLevel: 1 }).toFile(texPath),
+    sharp(tissueTexture(o, texW, texH), raw(texW, texH))
+      .blur(0.6)
+      .png({ compressionLevel: 1 })
+      .toFile(texPath),
   ]);
   const gain = GAIN[o.gain ?? "balanced"];
   const drift = moving ? { x: `${PAD}+${PAD - 2}*sin(t*0.9)`, y: `${PAD}+${PAD - 2}*sin(t*0.6+1)` } : { x: String(PAD), y: String(PAD) };
@@ -160,7 +165,11 @@ async function layers(o: DemoImageOptions, dir: string, moving: boolean) {
   const text = font
     ? `drawtext=fontfile=${filterQuote(font)}:text=${filterQuote(label)}:fontcolor=0xd8d8d8:fontsize=${fs_}:x=${Math.round(o.width * 0.03)}:y=${Math.round(o.height * 0.02)}`
     : // No font on this machine: stand-in boxes where the text would be.
-      Array.from({ length: 6 }, (_, i) => `drawbox=x=${Math.round(o.width * (0.03 + i * 0.05))}:y=${Math.round(o.height * 0.025)}:w=${Math.round(o.width * 0.035)}:h=${fs_}:color=0xd8d8d8:t=fill`).join(",");
+      Array.from(
+        { length: 6 },
+        (_, i) =>
+          `drawbox=x=${Math.round(o.width * (0.03 + i * 0.05))}:y=${Math.round(o.height * 0.025)}:w=${Math.round(o.width * 0.035)}:h=${fs_}:color=0xd8d8d8:t=fill`,
+      ).join(",");
   const graph = [
     `[0:v]crop=${o.width}:${o.height}:x='${drift.x}':y='${drift.y}',format=gray[tex]`,
     `[1:v]format=gray[mask]`,
@@ -199,17 +208,35 @@ export async function generateDemoClip(outPath: string, o: DemoClipOptions): Pro
     const container = o.container ?? "mp4";
     const codec = o.codec ?? DEFAULT_CODEC[container];
     const args = [
-      "-framerate", String(o.fps), "-loop", "1", "-i", fileUrl(texPath),
-      "-framerate", String(o.fps), "-loop", "1", "-i", fileUrl(maskPath),
+      "-framerate",
+      String(o.fps),
+      "-loop",
+      "1",
+      "-i",
+      fileUrl(texPath),
+      "-framerate",
+      String(o.fps),
+      "-loop",
+      "1",
+      "-i",
+      fileUrl(maskPath),
       ...(o.audio ? ["-f", "lavfi", "-i", "sine=frequency=440:sample_rate=48000"] : []),
-      "-filter_complex", `${graph};[v]format=${o.pixFmt ?? "yuv420p"}[out]`,
-      "-map", "[out]",
+      "-filter_complex",
+      `${graph};[v]format=${o.pixFmt ?? "yuv420p"}[out]`,
+      "-map",
+      "[out]",
       ...(o.audio ? ["-map", "2:a", ...AUDIO[container]] : []),
       ...ENCODER[codec],
+      ...(o.keyframeEvery ? ["-force_key_frames", `expr:gte(t,n_forced*${o.keyframeEvery})`] : []),
       ...Object.entries(o.metadata ?? {}).flatMap(([k, v]) => ["-metadata", `${k}=${v}`]),
-      "-t", String(o.seconds),
-      "-r", String(o.fps),
-      "-f", MUXER[container], "-y", fileUrl(outPath),
+      "-t",
+      String(o.seconds),
+      "-r",
+      String(o.fps),
+      "-f",
+      MUXER[container],
+      "-y",
+      fileUrl(outPath),
     ];
     await ffmpeg(args, "The demo clip could not be generated");
   } finally {

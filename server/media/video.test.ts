@@ -9,7 +9,7 @@ import sharp from "sharp";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { generateDemoClip } from "../../seeds/clips/generate";
 import { MediaError } from "./exec";
-import { processVideo, STRIP_FRAMES, STRIP_HEIGHT, type ProcessedVideo } from "./video";
+import { posterTime, processVideo, STRIP_FRAMES, STRIP_HEIGHT, stripTimes, type ProcessedVideo } from "./video";
 
 const run = promisify(execFile);
 const W = 320;
@@ -42,6 +42,7 @@ const IDENTIFYING = [
 let dir: string;
 const inputs: Record<string, string> = {};
 const outputs: Record<string, ProcessedVideo> = {};
+let keyedOut: ProcessedVideo;
 
 async function ffprobeJson(file: string) {
   const { stdout } = await run("ffprobe", ["-v", "error", "-print_format", "json", "-show_format", "-show_streams", file]);
@@ -107,7 +108,10 @@ beforeAll(async () => {
   inputs.h264 = path.join(dir, "in-h264.mp4");
   inputs.avi = path.join(dir, "in-mpeg4.avi");
   inputs.webm = path.join(dir, "in-vp9.webm");
+  inputs.keyed = path.join(dir, "in-keyed.mp4");
   await Promise.all([
+    // 10 s with a keyframe every second: the copy's poster and strip come from keyframes only.
+    generateDemoClip(inputs.keyed, { footprint: "linear", seconds: 10, fps: 5, width: 160, height: 120, keyframeEvery: 1 }),
     generateDemoClip(inputs.h264, { ...base, container: "mp4", codec: "h264" }),
     generateDemoClip(inputs.avi, { ...base, container: "avi", codec: "mpeg4" }),
     generateDemoClip(inputs.webm, { ...base, container: "webm", codec: "vp9" }),
@@ -116,13 +120,15 @@ beforeAll(async () => {
   const whole = await fs.readFile(inputs.h264);
   inputs.truncated = path.join(dir, "truncated.mp4");
   await fs.writeFile(inputs.truncated, whole.subarray(0, whole.length >> 1));
-  const [copy, avi, webm, redacted] = await Promise.all([
+  const [keyed, copy, avi, webm, redacted] = await Promise.all([
+    processVideo(inputs.keyed, path.join(dir, "out-keyed")),
     processVideo(inputs.h264, path.join(dir, "out-copy")),
     processVideo(inputs.avi, path.join(dir, "out-avi")),
     processVideo(inputs.webm, path.join(dir, "out-webm")),
     processVideo(inputs.h264, path.join(dir, "out-redacted"), { redactions: [REDACT] }),
   ]);
   Object.assign(outputs, { copy, avi, webm, redacted });
+  keyedOut = keyed;
 }, 120_000);
 
 afterAll(async () => {
@@ -239,5 +245,58 @@ describe("processVideo", () => {
     expect(err).toBeInstanceOf(MediaError);
     expect((err as Error).message).toMatch(/^The file could not be read as video: .*moov atom not found/);
     await expect(fs.readdir(outDir).catch(() => [])).resolves.toEqual([]);
+  });
+});
+
+describe("poster and strip timing", () => {
+  it("takes the poster at 10% (or 0.5 s in a short clip) and spreads the strip from there", () => {
+    expect(posterTime(20)).toBeCloseTo(2);
+    expect(posterTime(3)).toBe(0.5);
+    expect(posterTime(0.4)).toBeCloseTo(0.2);
+    const t = stripTimes(20);
+    expect(t).toHaveLength(STRIP_FRAMES);
+    expect(t[0]).toBeCloseTo(2);
+    expect(t[7]).toBeCloseTo(2 + (7 * 18) / 8);
+  });
+
+  it("cuts a stream copy's strip from keyframes at different times", async () => {
+    expect(keyedOut.plan.video).toBe("copy");
+    const { data, info } = await sharp(keyedOut.stripPath).raw().toBuffer({ resolveWithObject: true });
+    const tileW = info.width / STRIP_FRAMES;
+    const tile = (i: number) => {
+      const px: number[] = [];
+      for (let y = 0; y < info.height; y++) for (let x = 0; x < tileW; x++) px.push(data[(y * info.width + i * tileW + x) * info.channels]);
+      return px;
+    };
+    // The speckle drifts over time, so tiles from different seconds differ clearly.
+    const diff = (a: number[], b: number[]) => a.reduce((s, v, i) => s + Math.abs(v - b[i]), 0) / a.length;
+    const tiles = Array.from({ length: STRIP_FRAMES }, (_, i) => tile(i));
+    for (let i = 1; i < STRIP_FRAMES; i++) expect(diff(tiles[i - 1], tiles[i]), `tile ${i}`).toBeGreaterThan(5);
+    expect(keyedOut.frames).toBe(50);
+    // Tile 1 wants t = 2.125 s: a keyframe-only decode gives the keyframe at 3.0 s, a full decode the
+    // frame at 2.2 s. Compare it with both, decoded by ffmpeg at the tile's size.
+    const at = async (t: number) => {
+      const { stdout } = await run(
+        "ffmpeg",
+        [
+          "-v",
+          "error",
+          "-i",
+          inputs.keyed,
+          "-vf",
+          `select='gte(t\\,${t})',scale=${tileW}:${info.height}`,
+          "-frames:v",
+          "1",
+          "-f",
+          "rawvideo",
+          "-pix_fmt",
+          "rgb24",
+          "-",
+        ],
+        { encoding: "buffer" },
+      );
+      return Array.from({ length: tileW * info.height }, (_, i) => (stdout as unknown as Buffer)[i * 3]);
+    };
+    expect(diff(tiles[1], await at(3))).toBeLessThan(diff(tiles[1], await at(2.2)));
   });
 });

@@ -109,7 +109,8 @@ export async function processVideo(input: string, outDir: string, opts: { redact
     let frames = splitFrames(out, width, height);
     // Keyframes too sparse for a full strip: decode the whole output instead.
     if (frames.length < Math.min(STRIP_FRAMES, tap.times.length) && plan.video === "copy") frames = await framesAt(videoPath, tap.times, width, height);
-    const [result] = await Promise.all([probe(videoPath), writePosterAndStrip(frames, width, height, posterPath, stripPath)]);
+    // A copy's video stream is the source's, so the source's reading stands; a transcode is read back.
+    const [result] = await Promise.all([plan.video === "copy" ? source : probe(videoPath), writePosterAndStrip(frames, width, height, posterPath, stripPath)]);
     if (!result.video?.width || !result.video.height) throw new MediaError("The converted video has no picture");
     return { videoPath, posterPath, stripPath, plan, ...displaySize(result.video), ...clipTiming(result) };
   } catch (err) {
