@@ -43,9 +43,14 @@ for (const demo of DEMO) {
     await expect(nav.getByRole("link", { name: "People" })).toHaveCount(demo.seesPeople ? 1 : 0);
     await expect(nav.getByRole("link", { name: "Audit log" })).toHaveCount(demo.seesAudit ? 1 : 0);
 
-    if (demo.role === "sonographer" || demo.role === "reviewer") {
-      // Nothing is built yet for these roles to wait on: the page says so instead of inventing work.
+    if (demo.role === "reviewer") {
+      // Nothing is built yet for reviewers to wait on: the page says so instead of inventing work.
       await expect(main.getByText("Nothing is waiting for you here right now.")).toBeVisible();
+    } else if (demo.role === "sonographer") {
+      // The sonographer's counts lead to My exams, already filtered (other tests may have added exams).
+      const drafts = main.getByRole("link", { name: /Drafts not yet submitted/ });
+      await expect(drafts).toHaveAttribute("href", "/exams?status=draft");
+      await expect(main.getByRole("link", { name: /Submitted, waiting for review/ })).toHaveAttribute("href", "/exams?status=submitted");
     } else {
       // Real counts link to where the work is.
       const firstCard = main.getByRole("list").first().getByRole("link").first();

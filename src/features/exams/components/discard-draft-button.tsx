@@ -24,9 +24,11 @@ export function DiscardDraftButton({ exam }: { exam: Exam }) {
         error={discard.isError ? discard.error.message : null}
         onClose={() => setOpen(false)}
         onConfirm={() =>
-          discard.mutate(exam.id, {
-            onSuccess: () => navigate("/exams", { replace: true, state: { notice: `Draft ${exam.code} was discarded.` } }),
-          })
+          // Awaited, not an onSuccess option: the removed exam may unmount this button first.
+          void discard
+            .mutateAsync(exam.id)
+            .then(() => navigate("/exams", { replace: true, state: { notice: `Draft ${exam.code} was discarded.` } }))
+            .catch(() => undefined)
         }
       >
         The details and its {exam.clips.length === 1 ? "clip" : `${exam.clips.length} clips`} are removed. This cannot be undone.

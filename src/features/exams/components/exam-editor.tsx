@@ -114,9 +114,14 @@ export function ExamEditor({ exam, applications }: { exam?: Exam; applications: 
       })();
       if (!ok) return;
     }
-    submitExam.mutate(exam.id, {
-      onSuccess: (result) => navigate(`/exams/${result.id}`, { state: { notice: "Submitted for review. The exam is now read-only." } }),
-    });
+    // Awaited rather than an onSuccess option: the cached exam turns "submitted" first, which
+    // unmounts this editor, and per-call callbacks of an unmounted observer never run.
+    try {
+      const result = await submitExam.mutateAsync(exam.id);
+      navigate(`/exams/${result.id}`, { state: { notice: "Submitted for review. The exam is now read-only." } });
+    } catch {
+      // Shown by the panel from the mutation's error.
+    }
   };
 
   const appCode = useWatch({ control, name: "applicationCode" });

@@ -10,7 +10,7 @@ import { formatDateTime } from "../../../lib/format";
 import { SETTING_LABELS } from "../../../lib/catalogue";
 import { ExamStatusTag } from "./exam-status-tag";
 
-/** Columns the server can sort by, keyed by column id. */
+/** Columns the server can sort by, keyed by column id (TanStack sorts only columns with an accessor). */
 export const SORTABLE = ["performedAt", "application", "status"] as const;
 
 const columns: ColumnDef<ExamListItem>[] = [
@@ -42,9 +42,10 @@ const columns: ColumnDef<ExamListItem>[] = [
       </Link>
     ),
   },
-  { id: "application", header: "Application", cell: ({ row }) => row.original.application.name },
+  { id: "application", accessorFn: (row) => row.application.name, header: "Application", cell: ({ row }) => row.original.application.name },
   {
     id: "performedAt",
+    accessorFn: (row) => row.performedAt,
     header: "Performed",
     cell: ({ row }) => <span className="whitespace-nowrap tabular-nums">{formatDateTime(row.original.performedAt)}</span>,
   },
@@ -74,7 +75,7 @@ const columns: ColumnDef<ExamListItem>[] = [
       );
     },
   },
-  { id: "status", header: "Status", cell: ({ row }) => <ExamStatusTag status={row.original.status} /> },
+  { id: "status", accessorFn: (row) => row.status, header: "Status", cell: ({ row }) => <ExamStatusTag status={row.original.status} /> },
   {
     id: "updatedAt",
     header: "Updated",

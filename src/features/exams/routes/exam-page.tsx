@@ -16,6 +16,15 @@ import { ClipPanel } from "../components/clip-panel";
 import { DiscardDraftButton } from "../components/discard-draft-button";
 import { ExamStatusTag } from "../components/exam-status-tag";
 
+/** The reads in the application's own order of findings (the server's order is by key). */
+function orderedReads<T extends { key: string }>(reads: T[], findings: { key: string }[]): T[] {
+  const at = (key: string) => {
+    const i = findings.findIndex((f) => f.key === key);
+    return i < 0 ? findings.length : i;
+  };
+  return [...reads].sort((a, b) => at(a.key) - at(b.key));
+}
+
 export default function ExamPage() {
   const { id = "" } = useParams();
   const location = useLocation();
@@ -95,7 +104,7 @@ export default function ExamPage() {
               <p className="mt-2 text-sm text-slate-600">No findings read yet.</p>
             ) : (
               <dl className="mt-3 grid gap-x-6 gap-y-1.5 text-sm sm:grid-cols-[minmax(0,20rem)_1fr]">
-                {query.data.findings.map((f) => (
+                {orderedReads(query.data.findings, application?.findings ?? []).map((f) => (
                   <div key={f.key} className="contents">
                     <dt className="text-ink-900">{application?.findings.find((x) => x.key === f.key)?.label ?? f.key}</dt>
                     <dd className="font-semibold text-ink-950">{READ_LABELS[f.read]}</dd>

@@ -1,0 +1,159 @@
+// A sonographer submits an exam with two clips through the browser: the form, uploads with
+// progress, processing to ready, posters, view labels, attestation and submission, then My
+// exams. Also: a text file named .mp4 is refused with the server's own words.
+import fs from "node:fs";
+import path from "node:path";
+import { expect, test, type Page, type TestInfo } from "@playwright/test";
+import { fixtureDir, h264Mp4, textFile } from "../api/media-fixtures";
+
+const PASSWORD = "soundings-demo";
+const SONOGRAPHER = "sonographer@cedarhollow.example";
+
+async function signIn(page: Page) {
+  await page.goto("/sign-in");
+  await page.getByLabel("E-mail").fill(SONOGRAPHER);
+  await page.getByLabel("Password").fill(PASSWORD);
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await expect(page.getByRole("heading", { level: 1, name: "Home" })).toBeVisible();
+}
+
+async function shot(page: Page, testInfo: TestInfo, name: string) {
+  const file = path.join(testInfo.project.outputDir, `${name}.png`);
+  await page.screenshot({ path: file, fullPage: true });
+  await testInfo.attach(name, { path: file, contentType: "image/png" });
+}
+
+/** Fills the details of a focused cardiac exam, reading every finding as negative. */
+async function fillCardiacDetails(page: Page) {
+  const main = page.getByRole("main");
+  await main.getByLabel("Application").selectOption({ label: "Focused cardiac" });
+  await expect(main.getByLabel("Performed at")).not.toHaveValue("");
+  await main.getByRole("radio", { name: "Educational" }).check();
+  await expect(main.getByText("Usual for this application: Phased array.")).toBeVisible();
+  await main.getByLabel("Transducer").selectOption("phased");
+  await main.getByLabel("Preset").fill("Cardiac");
+  await main.getByLabel("Indication").fill("Teaching scan on a volunteer");
+  const findings = main.getByRole("group").filter({ has: page.getByRole("radio", { name: "Indeterminate" }) });
+  const count = await findings.count();
+  expect(count).toBeGreaterThan(0);
+  for (let i = 0; i < count; i++) await findings.nth(i).getByRole("radio", { name: "Negative" }).check();
+}
+
+test("a sonographer submits an exam with two clips and finds it submitted in My exams", async ({ page }, testInfo) => {
+  test.setTimeout(60_000);
+  const dir = fixtureDir();
+  const first = h264Mp4(dir, "plax-sweep.mp4", { seconds: 2, seed: 11 });
+  const second = h264Mp4(dir, "a4c-sweep.mp4", { seconds: 2, seed: 97 });
+
+  await signIn(page);
+  await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Submit" }).click();
+  await expect(page.getByRole("heading", { level: 1, name: "New exam" })).toBeVisible();
+
+  // The future is refused next to the field before anything is sent.
+  await fillCardiacDetails(page);
+  await page.getByLabel("Performed at").fill("2099-01-01T10:00");
+  await page.getByRole("button", { name: "Save draft" }).click();
+  await expect(page.getByText("The scan cannot be in the future")).toBeVisible();
+  const earlier = new Date(Date.now() - 30 * 60_000);
+  const local = new Date(earlier.getTime() - earlier.getTimezoneOffset() * 60_000).toISOString().slice(0, 16);
+  await page.getByLabel("Performed at").fill(local);
+
+  await page.getByRole("button", { name: "Save draft" }).click();
+  await expect(page).toHaveURL(/\/exams\/[0-9a-f-]{36}\/edit$/);
+  await expect(page.getByText("Draft saved. Now add the clips.")).toBeVisible();
+  const submit = page.getByRole("button", { name: "Submit for review" });
+  await expect(submit).toBeDisabled();
+  await expect(page.getByText("Add at least one clip.")).toBeVisible();
+
+  // Slow the upload down so each file's progress bar can be seen moving.
+  const cdp = await page.context().newCDPSession(page);
+  await cdp.send("Network.enable");
+  await cdp.send("Network.emulateNetworkConditions", { offline: false, latency: 20, downloadThroughput: -1, uploadThroughput: 150 * 1024 });
+  await page.getByLabel("Choose files").setInputFiles([first, second]);
+  for (const name of ["plax-sweep.mp4", "a4c-sweep.mp4"]) {
+    await expect(page.getByRole("progressbar", { name: `Uploading ${name}` })).toBeVisible();
+  }
+  await shot(page, testInfo, "exams-uploading");
+  await cdp.send("Network.emulateNetworkConditions", { offline: false, latency: 0, downloadThroughput: -1, uploadThroughput: -1 });
+
+  // Each clip goes through processing to ready, and its poster is a real image.
+  for (const name of ["plax-sweep.mp4", "a4c-sweep.mp4"]) {
+    const row = page.getByRole("listitem", { name: `Clip ${name}` });
+    await expect(row).toBeVisible({ timeout: 20_000 });
+    await expect(row.getByText("Ready", { exact: true })).toBeVisible({ timeout: 30_000 });
+    const poster = row.getByRole("img", { name: `Poster of ${name}` });
+    await expect(poster).toBeVisible();
+    await expect.poll(() => poster.evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth), { timeout: 10_000 }).toBeGreaterThan(0);
+  }
+
+  // View labels are saved as they are chosen.
+  for (const [name, view] of [
+    ["plax-sweep.mp4", "Parasternal long axis"],
+    ["a4c-sweep.mp4", "Apical four-chamber"],
+  ]) {
+    const saved = page.waitForResponse((r) => r.url().includes("/api/clips/") && r.request().method() === "PATCH" && r.ok());
+    await page.getByLabel(`View of ${name}`).selectOption({ label: view });
+    await saved;
+  }
+
+  // Submitting asks for the attestation first.
+  await expect(submit).toBeEnabled();
+  await submit.click();
+  await expect(page.getByText("Confirm that no patient identifiers are visible in any clip")).toBeVisible();
+  await page.getByLabel(/No patient identifiers are visible in any clip/).check();
+  await shot(page, testInfo, "exams-ready-to-submit");
+  await submit.click();
+
+  await expect(page).toHaveURL(/\/exams\/[0-9a-f-]{36}$/);
+  await expect(page.getByText("Submitted for review. The exam is now read-only.")).toBeVisible();
+  const heading = await page.getByRole("heading", { level: 1 }).textContent();
+  const code = heading!.replace(/^Exam /, "").trim();
+  const main = page.getByRole("main");
+  await expect(main.getByText("Submitted", { exact: true }).first()).toBeVisible();
+  await expect(main.getByRole("heading", { name: "Clip 1: Parasternal long axis" })).toBeVisible();
+  await expect(main.getByRole("heading", { name: "Clip 2: Apical four-chamber" })).toBeVisible();
+  // Read-only: no editing, no view select, no redaction.
+  await expect(main.getByRole("link", { name: "Continue editing" })).toHaveCount(0);
+  await expect(main.getByRole("combobox")).toHaveCount(0);
+  const video = main.locator("video").first();
+  await expect(video).toHaveAttribute("loop", "");
+  await expect.poll(() => video.evaluate((v: HTMLVideoElement) => v.readyState), { timeout: 10_000 }).toBeGreaterThan(0);
+  await shot(page, testInfo, "exams-submitted-exam");
+
+  await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "My exams" }).click();
+  await expect(page.getByRole("heading", { level: 1, name: "My exams" })).toBeVisible();
+  const row = page.getByRole("row").filter({ has: page.getByRole("link", { name: code }) });
+  await expect(row).toContainText("Submitted");
+  await expect(row).toContainText("Focused cardiac");
+  await expect(row).toContainText("2/2 ready");
+  await page.getByLabel("Status").selectOption("submitted");
+  await expect(page).toHaveURL(/status=submitted/);
+  await expect(row).toBeVisible();
+  await shot(page, testInfo, "exams-my-exams");
+
+  fs.rmSync(dir, { recursive: true, force: true });
+});
+
+test("a text file named .mp4 is refused with the reason from the server", async ({ page }, testInfo) => {
+  const dir = fixtureDir();
+  const fake = textFile(dir, "not-a-scan.mp4");
+  await signIn(page);
+  await page.goto("/exams/new");
+  await fillCardiacDetails(page);
+  // Dropping the first file on a new exam saves the draft by itself, then uploads.
+  await page.getByLabel("Choose files").setInputFiles(fake);
+  await expect(page).toHaveURL(/\/exams\/[0-9a-f-]{36}\/edit$/);
+  const upload = page.getByRole("listitem", { name: "Upload of not-a-scan.mp4" });
+  await expect(upload.getByRole("alert")).toContainText(/file: found .+; upload MP4, MOV, M4V, AVI, WebM or MKV video/);
+  await expect(upload.getByText("Not uploaded")).toBeVisible();
+  await expect(page.getByRole("button", { name: "Submit for review" })).toBeDisabled();
+  await shot(page, testInfo, "exams-refused-upload");
+
+  // The home card for drafts leads to My exams filtered to drafts.
+  await page.getByRole("link", { name: "Soundings home" }).click();
+  await page.getByRole("link", { name: /Drafts not yet submitted/ }).click();
+  await expect(page).toHaveURL(/\/exams\?status=draft$/);
+  await expect(page.getByLabel("Status")).toHaveValue("draft");
+  await expect(page.getByRole("table")).toContainText("Draft");
+  fs.rmSync(dir, { recursive: true, force: true });
+});
