@@ -12,8 +12,11 @@ export const FFMPEG = process.env.FFMPEG_PATH ?? "ffmpeg";
 export const FFPROBE = process.env.FFPROBE_PATH ?? "ffprobe";
 
 /** Keeps the useful tail of a tool's stderr: the last few distinct lines, at most ~300 characters. */
-export function trimReason(stderr: string): string {
-  const lines = stderr
+export function trimReason(stderr: string, args: readonly string[] = []): string {
+  // Storage paths mean nothing to the person reading the error (and reveal the server's layout).
+  let text = stderr;
+  for (const a of args) if (a.startsWith("file:")) text = text.split(`${a}: `).join("").split(a).join("the file");
+  const lines = text
     .split(/\r?\n/)
     .map((l) => l.trim())
     .filter(Boolean);
@@ -41,7 +44,7 @@ export async function ffmpeg(args: string[], what: string, opts: { maxBuffer?: n
   } catch (err) {
     const e = err as NodeJS.ErrnoException & { stderrText?: string };
     if (e.code === "ENOENT") throw new MediaError("ffmpeg is not installed on this server");
-    throw new MediaError(`${what}: ${trimReason(e.stderrText ?? e.message)}`);
+    throw new MediaError(`${what}: ${trimReason(e.stderrText ?? e.message, args)}`);
   }
 }
 

@@ -81,12 +81,13 @@ export function parseProbe(json: string): ProbeResult {
 /** ffprobe's reading of a file. Throws MediaError ("The file could not be read as video: ...") on failure. */
 export async function probe(filePath: string): Promise<ProbeResult> {
   let out: Buffer;
+  const args = ["-v", "error", "-print_format", "json", "-show_format", "-show_streams", fileUrl(filePath)];
   try {
-    out = await runTool(FFPROBE, ["-v", "error", "-print_format", "json", "-show_format", "-show_streams", fileUrl(filePath)]);
+    out = await runTool(FFPROBE, args);
   } catch (err) {
     const e = err as NodeJS.ErrnoException & { stderrText?: string };
     if (e.code === "ENOENT") throw new MediaError("ffprobe is not installed on this server");
-    throw new MediaError(`The file could not be read as video: ${trimReason(e.stderrText ?? e.message)}`);
+    throw new MediaError(`The file could not be read as video: ${trimReason(e.stderrText ?? e.message, args)}`);
   }
   return parseProbe(out.toString("utf8"));
 }

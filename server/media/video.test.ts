@@ -244,6 +244,7 @@ describe("processVideo", () => {
     const err = await processVideo(inputs.truncated, outDir).catch((e: unknown) => e);
     expect(err).toBeInstanceOf(MediaError);
     expect((err as Error).message).toMatch(/^The file could not be read as video: .*moov atom not found/);
+    expect((err as Error).message).not.toContain(dir); // no storage paths in what people read
     await expect(fs.readdir(outDir).catch(() => [])).resolves.toEqual([]);
   });
 });
