@@ -1,5 +1,6 @@
 // Turns an uploaded video into what a reviewer plays: a web-playable H.264 MP4 without audio or
-// metadata (stream copy when possible), plus a poster frame and a frame strip made from that output.
+// metadata (stream copy when possible), plus a poster frame and a frame strip of that same picture
+// (taken after redaction in a transcode; from the unchanged video packets in a copy).
 import fs from "node:fs/promises";
 import path from "node:path";
 import sharp from "sharp";
