@@ -4,6 +4,7 @@
 import type { Db } from "../server/db/knex";
 import { hashPassword } from "../server/auth/passwords";
 import { insertCatalogue } from "../server/repositories/applications";
+import { ensureDefaultRubric } from "../server/repositories/rubrics";
 import { DEFAULT_CATALOGUE } from "../shared/catalogue";
 import type { Role } from "../shared/roles";
 
@@ -52,6 +53,7 @@ export async function seedDemoIfEmpty(db: Db, bcryptRounds = 10): Promise<boolea
     for (const p of DEMO_PROGRAMS) {
       const [program] = await trx("programs").insert({ name: p.name, slug: p.slug }).returning("id");
       await insertCatalogue(trx, program.id, DEFAULT_CATALOGUE);
+      await ensureDefaultRubric(trx, program.id);
       for (const u of p.users) {
         const [user] = await trx("users").insert({ email: u.email, name: u.name, password_hash: hash, password_changed_at: trx.fn.now() }).returning("id");
         await trx("memberships").insert({ user_id: user.id, program_id: program.id, roles: u.roles });

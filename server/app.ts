@@ -21,6 +21,10 @@ import { registerHomeRoutes } from "./routes/home/router";
 import { registerAuditRoutes } from "./routes/audit/router";
 import { registerExamRoutes } from "./routes/exams/router";
 import { registerClipRoutes } from "./routes/clips/router";
+import { registerQueueRoutes } from "./routes/queue/router";
+import { registerOversightRoutes } from "./routes/oversight/router";
+import { registerRubricRoutes } from "./routes/rubrics/router";
+import { registerFeedbackRoutes } from "./routes/feedback/router";
 import type { Storage } from "./storage/types";
 import type { JobQueue } from "./jobs/queue";
 
@@ -70,6 +74,10 @@ export function buildApp(deps: AppDeps) {
   registerAuditRoutes(kit, ctx);
   registerExamRoutes(kit, ctx);
   registerClipRoutes(kit, ctx);
+  registerQueueRoutes(kit, ctx);
+  registerOversightRoutes(kit, ctx);
+  registerRubricRoutes(kit, ctx);
+  registerFeedbackRoutes(kit, ctx);
 
   let openapi: unknown;
   kit.router.get("/openapi.json", (_req, res) => {

@@ -26,3 +26,20 @@ export function passwordResetMail(p: { to: string; link: string; expiresMinutes:
   const text = `Someone asked to reset the Soundings password for this address.\n\nChoose a new password here (the link works once and expires in ${p.expiresMinutes} minutes):\n${p.link}\n\nIf it was not you, ignore this e-mail: your password stays as it is.\n\n${footer}`;
   return { to: p.to, subject: "Reset your Soundings password", text, html: htmlOf(text) };
 }
+
+export function feedbackReadyMail(p: { to: string; name: string; application: string; code: string; link: string }): MailMessage {
+  const text = `Hello ${p.name},\n\nThe review of your ${p.application} exam ${p.code} is complete. Read your feedback here:\n${p.link}\n\n${footer}`;
+  return { to: p.to, subject: `Feedback on your ${p.application} exam ${p.code}`, text, html: htmlOf(text) };
+}
+
+export function replyMail(p: { to: string; name: string; code: string; body: string; link: string }): MailMessage {
+  const text = `Hello ${p.name},\n\nThe sonographer of exam ${p.code} replied to your feedback:\n\n${p.body}\n\nAnswer here:\n${p.link}\n\n${footer}`;
+  return { to: p.to, subject: `A question about exam ${p.code}`, text, html: htmlOf(text) };
+}
+
+export function overdueDigestMail(p: { to: string; name: string; programName: string; hours: number; rows: { application: string; count: number }[]; link: string }): MailMessage {
+  const total = p.rows.reduce((s, r) => s + r.count, 0);
+  const lines = p.rows.map((r) => `  ${r.application}: ${r.count}`).join("\n");
+  const text = `Hello ${p.name},\n\n${total} exam read(s) in ${p.programName} have waited longer than the program's turnaround target of ${p.hours} hours:\n${lines}\n\nOpen the queue:\n${p.link}\n\n${footer}`;
+  return { to: p.to, subject: `${total} exam read(s) waiting past the turnaround target`, text, html: htmlOf(text) };
+}

@@ -50,7 +50,8 @@ const SORTS: Record<string, [string, "asc" | "desc"]> = {
 /** One page of a sonographer's own exams with clip counts, and the total for paging. */
 export async function listOwnExams(db: Q, programId: string, userId: string, q: z.output<typeof examListQuerySchema>) {
   const base = db("exams as e").join("applications as a", "a.id", "e.application_id").where({ "e.program_id": programId, "e.sonographer_id": userId });
-  if (q.status) base.andWhere("e.status", q.status);
+  if (q.status === "submitted") base.whereIn("e.status", ["submitted", "in_review", "adjudication"]);
+  else if (q.status) base.andWhere("e.status", q.status);
   if (q.application) base.andWhere("a.code", q.application);
   if (q.from) base.andWhere("e.performed_at", ">=", q.from);
   if (q.to) base.andWhere("e.performed_at", "<", db.raw(`?::date + 1`, [q.to]));
@@ -98,3 +99,29 @@ export const findClipWithExam = (db: Q, programId: string, clipId: string) =>
     .join("exams as e", "e.id", "c.exam_id")
     .where({ "c.id": clipId, "c.program_id": programId })
     .first("c.*", "e.sonographer_id", "e.status as exam_status", "e.program_id as exam_program_id");
+
+/** What the scoring rules need to know about an exam. */
+export async function examContext(db: Q, programId: string, examId: string) {
+  const e = await db("exams as e")
+    .join("applications as a", "a.id", "e.application_id")
+    .where({ "e.id": examId, "e.program_id": programId })
+    .first("e.id", "e.program_id", "e.sonographer_id", "e.setting", "e.code", "e.double_read", "e.status", "e.application_id", "a.code as application_code");
+  if (!e) return undefined;
+  const [findingKeys, sonographerReads] = await Promise.all([
+    db("application_findings").where("application_id", e.application_id).orderBy("position").pluck("key"),
+    db("exam_findings").where("exam_id", examId).select("finding_key as key", "read"),
+  ]);
+  return { ...e, findingKeys, sonographerReads } as {
+    id: string;
+    program_id: string;
+    sonographer_id: string;
+    setting: string;
+    code: string;
+    double_read: boolean;
+    status: string;
+    application_id: string;
+    application_code: string;
+    findingKeys: string[];
+    sonographerReads: { key: string; read: FindingRead }[];
+  };
+}

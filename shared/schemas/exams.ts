@@ -2,7 +2,10 @@
 import { z } from "zod";
 import { FINDING_READS, SETTINGS, TRANSDUCERS } from "../catalogue";
 
-export const EXAM_STATUSES = ["draft", "submitted"] as const;
+/** draft → submitted → in_review (→ adjudication) → reviewed. */
+export const EXAM_STATUSES = ["draft", "submitted", "in_review", "adjudication", "reviewed"] as const;
+/** What the sonographer filters by: drafts, sent and waiting (any stage of review), reviewed. */
+export const EXAM_STATUS_FILTERS = ["draft", "submitted", "reviewed"] as const;
 export const CLIP_STATES = ["queued", "processing", "ready", "failed"] as const;
 
 /** Accepts an ISO date-time; refuses the future (with a minute's grace for clock skew). */
@@ -94,7 +97,7 @@ export const examSchema = z.object({
 export type Exam = z.infer<typeof examSchema>;
 
 export const examListQuerySchema = z.object({
-  status: z.enum(EXAM_STATUSES).optional(),
+  status: z.enum(EXAM_STATUS_FILTERS).optional(),
   application: z.string().max(40).optional(),
   from: z.iso.date().optional(),
   to: z.iso.date().optional(),

@@ -5,6 +5,8 @@ import request from "supertest";
 import { makeClip, makeExam, makeKit, makeMember, makeProgram, tokenFor, type TestKit, type TestMember } from "./helpers";
 import { ROLES, type Role } from "../../shared/roles";
 import { newEmailToken } from "../../server/auth/tokens";
+import { insertRubric } from "../../server/repositories/rubrics";
+import { DEFAULT_CRITERIA } from "../../shared/rubric/default-rubric";
 
 type Who = "anonymous" | Role;
 const WHO: Who[] = ["anonymous", ...ROLES];
@@ -59,6 +61,22 @@ const examBody = () => ({
   transducer: "curvilinear",
   findings: [],
 });
+const claimed = async (state: "open" | "claimed" = "claimed") => {
+  const exam = await makeExam(kit.db, programId, members.sonographer.id, { status: "submitted" });
+  const rubric = await kit.db("rubrics").where({ program_id: programId, status: "published" }).first("id");
+  const [a] = await kit.db("assignments")
+    .insert({ program_id: programId, exam_id: exam.id, kind: "primary", state, due_at: new Date(), rubric_id: rubric.id, ...(state === "claimed" ? { reviewer_id: members.reviewer.id, claimed_at: new Date(), lease_expires_at: new Date(Date.now() + 600_000) } : {}) })
+    .returning("id");
+  return { examId: exam.id, id: a.id as string };
+};
+const draftRubric = async () => kit.db.transaction((trx) => insertRubric(trx, { programId, version: 1, name: "Matrix draft", status: "draft", criteria: DEFAULT_CRITERIA.slice(0, 2) }));
+const rubricBody = { name: "Matrix rubric", criteria: DEFAULT_CRITERIA.slice(0, 2) };
+const followUp = async () => {
+  const exam = await makeExam(kit.db, programId, members.sonographer.id, { status: "submitted" });
+  const [f] = await kit.db("follow_ups").insert({ program_id: programId, exam_id: exam.id, reason: "matrix" }).returning("id");
+  return f.id as string;
+};
+const snippet = async () => (await kit.db("snippets").insert({ program_id: programId, text: "Matrix snippet" }).returning("id"))[0].id as string;
 const ownerOr = (owner: number, leadStatus: number, others: number): Record<Who, number> => ({
   anonymous: 401,
   sonographer: owner,
@@ -136,8 +154,39 @@ const MATRIX: Row[] = [
     call: async () => ({ path: `/api/clips/${(await ownClip("ready")).id}/media/video` }),
     expect: ownerOr(200, 200, 404),
   },
+  { route: "GET /queue", call: fixed("/api/queue"), expect: only(["reviewer"], 200) },
+  // The matrix program has nothing submitted for this reviewer to claim.
+  { route: "POST /queue/next", call: fixed("/api/queue/next", {}), expect: only(["reviewer"], 204) },
+  { route: "GET /assignments/:id", call: async () => ({ path: `/api/assignments/${(await claimed()).id}` }), expect: only(["reviewer"], 200) },
+  { route: "PUT /assignments/:id/draft", call: async () => ({ path: `/api/assignments/${(await claimed()).id}/draft`, body: { scores: { quality: "3" } } }), expect: only(["reviewer"], 200) },
+  { route: "POST /assignments/:id/release", call: async () => ({ path: `/api/assignments/${(await claimed()).id}/release` }), expect: only(["reviewer"], 204) },
+  // Empty scores: the holder of the claim gets as far as validation.
+  { route: "POST /assignments/:id/review", call: async () => ({ path: `/api/assignments/${(await claimed()).id}/review`, body: { scores: {} } }), expect: only(["reviewer"], 400) },
+  { route: "POST /assignments/:id/reassign", call: async () => ({ path: `/api/assignments/${(await claimed("open")).id}/reassign`, body: { reviewerId: members.reviewer.id } }), expect: only(["qa_lead"], 200) },
+  { route: "GET /adjudications", call: fixed("/api/adjudications"), expect: only(["qa_lead", "reviewer"], 200) },
+  { route: "POST /exams/:id/adjudicate", call: async () => ({ path: `/api/exams/${(await claimed("open")).examId}/adjudicate`, body: { scores: {} } }), expect: only(["qa_lead", "reviewer"], 409) },
+  { route: "GET /follow-ups", call: fixed("/api/follow-ups"), expect: only(["qa_lead"], 200) },
+  { route: "PATCH /follow-ups/:id", call: async () => ({ path: `/api/follow-ups/${await followUp()}`, body: { status: "in_progress" } }), expect: only(["qa_lead"], 200) },
+  { route: "GET /snippets", call: fixed("/api/snippets"), expect: only(["qa_lead", "reviewer"], 200) },
+  { route: "POST /snippets", call: fixed("/api/snippets", { text: "Fill the screen with the target." }), expect: only(["qa_lead"], 201) },
+  { route: "DELETE /snippets/:id", call: async () => ({ path: `/api/snippets/${await snippet()}` }), expect: only(["qa_lead"], 204) },
+  { route: "GET /settings", call: fixed("/api/settings"), expect: only(["qa_lead", "admin"], 200) },
+  { route: "PATCH /settings", call: fixed("/api/settings", { turnaroundHours: 48 }), expect: only(["qa_lead", "admin"], 200) },
+  { route: "GET /rubrics", call: fixed("/api/rubrics"), expect: only(["qa_lead", "reviewer"], 200) },
+  { route: "GET /rubrics/:id", call: async () => ({ path: `/api/rubrics/${await draftRubric()}` }), expect: only(["qa_lead", "reviewer"], 200) },
+  { route: "POST /rubrics", call: fixed("/api/rubrics", rubricBody), expect: only(["qa_lead"], 201) },
+  { route: "PUT /rubrics/:id", call: async () => ({ path: `/api/rubrics/${await draftRubric()}`, body: rubricBody }), expect: only(["qa_lead"], 200) },
+  { route: "POST /rubrics/:id/publish", call: async () => ({ path: `/api/rubrics/${await draftRubric()}/publish` }), expect: only(["qa_lead"], 200) },
+  { route: "POST /rubrics/:id/archive", call: async () => ({ path: `/api/rubrics/${await draftRubric()}/archive` }), expect: only(["qa_lead"], 200) },
+  { route: "GET /me/feedback", call: fixed("/api/me/feedback"), expect: only(["sonographer"], 200) },
+  // A draft has no feedback yet.
+  { route: "GET /me/feedback/:id", call: async () => ({ path: `/api/me/feedback/${(await ownExam()).id}` }), expect: only(["sonographer"], 404) },
+  { route: "POST /exams/:id/acknowledge", call: async () => ({ path: `/api/exams/${(await ownExam()).id}/acknowledge` }), expect: only(["sonographer"], 404) },
+  // Questions open once feedback is final: those who may see the exam meet 409, others 404.
+  { route: "POST /exams/:id/messages", call: async () => ({ path: `/api/exams/${(await ownExam()).id}/messages`, body: { body: "Why?" } }), expect: ownerOr(409, 409, 404) },
+  { route: "GET /notifications", call: fixed("/api/notifications"), expect: signedIn(200) },
+  { route: "POST /notifications/read", call: fixed("/api/notifications/read", {}), expect: signedIn(204) },
 ];
-
 describe("role-by-route matrix", () => {
   it("has a row for every route the app serves, and no row for a route it does not", () => {
     const served = kit.routes.map((r) => `${r.method} ${r.path}`).sort();

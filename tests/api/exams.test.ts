@@ -334,7 +334,7 @@ describe("submitting", () => {
     expect(await kit.storage.size(originalKey)).toBeGreaterThan(0);
     const ok = await request(kit.app).post(`/api/exams/${exam.id}/submit`).set("Authorization", auth).send({ attestNoIdentifiers: true });
     expect(ok.status).toBe(200);
-    expect(ok.body.exam.status).toBe("submitted");
+    expect(ok.body.exam.status).toBe("in_review");
     expect(await kit.storage.size(originalKey)).toBeNull();
     expect((await kit.db("clips").where("id", up.body.id).first()).original_key).toBeNull();
     const edit = await request(kit.app).patch(`/api/exams/${exam.id}`).set("Authorization", auth).send({ indication: "changed" });

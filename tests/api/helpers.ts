@@ -12,6 +12,7 @@ import { hashPassword } from "../../server/auth/passwords";
 import { createSession } from "../../server/repositories/sessions";
 import { signSessionToken } from "../../server/auth/tokens";
 import { insertCatalogue } from "../../server/repositories/applications";
+import { ensureDefaultRubric } from "../../server/repositories/rubrics";
 import { DEFAULT_CATALOGUE } from "../../shared/catalogue";
 import { createStorage } from "../../server/storage";
 import { createJobQueue, type JobQueue } from "../../server/jobs/queue";
@@ -64,6 +65,7 @@ export async function makeProgram(db: Db, name = `Test Program ${uid()}`) {
     .insert({ name, slug: `test-${uid()}` })
     .returning(["id", "name"]);
   await insertCatalogue(db, p.id, DEFAULT_CATALOGUE.slice(0, 3));
+  await db.transaction((trx) => ensureDefaultRubric(trx, p.id));
   return p as { id: string; name: string };
 }
 

@@ -275,7 +275,7 @@ export function registerClipRoutes(kit: RouteKit, { db, storage, config, jobs }:
     handler: async ({ req, res, user, params }) => {
       const clip = await findClipWithExam(db, user.programId, params.id);
       if (!clip) throw notFound("Clip");
-      assertCanView(user, clipAsExam(clip));
+      await assertCanView(db, user, clipAsExam(clip));
       if (clip.state !== "ready") throw notFound("Media");
       const key = {
         video: clip.kind === "video" ? clip.output_key : null,

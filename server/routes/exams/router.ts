@@ -8,8 +8,10 @@ import { idParamsSchema } from "../../../shared/schemas/common";
 import { examCreateSchema, examListItemSchema, examListQuerySchema, examSchema, examUpdateSchema, submitExamSchema } from "../../../shared/schemas/exams";
 import { examDetail, findExam, listOwnExams, newExamCode, replaceFindings } from "../../repositories/exams";
 import { presentExam, presentExamListItem } from "../../presenters/exam";
-import { assertCanEdit, assertCanView, mayIdentifySonographer } from "../../policies/exam";
+import { assertCanEdit, assertCanView } from "../../policies/exam";
+import { getSettings } from "../../repositories/settings";
 import { audit } from "../../repositories/audit";
+import { queueSubmittedExam } from "../../services/queue";
 import type { AuthUser } from "../../auth/types";
 import type { FindingRead } from "../../../shared/catalogue";
 
@@ -33,13 +35,16 @@ async function resolveApplication(db: Knex | Knex.Transaction, programId: string
 }
 
 export function registerExamRoutes(kit: RouteKit, { db, storage, config, log }: RouteContext) {
+  // The one place that decides what each viewer sees of an exam (blinding for reviewers).
   const detail = async (user: AuthUser, id: string) => {
     const d = await examDetail(db, user.programId, id);
-    assertCanView(user, d?.exam);
-    return presentExam(d!.exam, d!.findings, d!.clips, {
-      identifySonographer: mayIdentifySonographer(user, d!.exam),
-      forOwner: d!.exam.sonographer_id === user.id,
-    });
+    const access = await assertCanView(db, user, d?.exam);
+    const { exam, findings, clips } = d!;
+    if (access !== "reviewer") return presentExam(exam, findings, clips, { identifySonographer: true, forOwner: access === "owner" });
+    const settings = await getSettings(db, user.programId);
+    const readDone = await db("reviews").where({ exam_id: exam.id, reviewer_id: user.id }).first("id");
+    // Before their own read is in, a reviewer sees neither who scanned nor what they read.
+    return presentExam(exam, readDone ? findings : [], clips, { identifySonographer: !settings.blindSonographer, forOwner: false });
   };
 
   defineRoute(kit, {
@@ -172,6 +177,8 @@ export function registerExamRoutes(kit: RouteKit, { db, storage, config, log }: 
         await trx("exams")
           .where("id", exam.id)
           .update({ status: "submitted", submitted_at: trx.fn.now(), attested_at: trx.fn.now(), updated_at: trx.fn.now() });
+        const settings = await getSettings(trx, user.programId);
+        const { double } = await queueSubmittedExam(trx, { id: exam.id, program_id: exam.program_id, setting: (await trx("exams").where("id", exam.id).first("setting")).setting }, settings.doubleReadShare);
         await audit(trx, {
           programId: user.programId,
           actorUserId: user.id,
@@ -179,7 +186,7 @@ export function registerExamRoutes(kit: RouteKit, { db, storage, config, log }: 
           entityType: "exam",
           entityId: exam.id,
           ip: req.ip,
-          details: { attestNoIdentifiers: true },
+          details: { attestNoIdentifiers: true, secondRead: double },
         });
         if (config.originalRetention === "delete_on_submit") {
           await trx("clips").where("exam_id", exam.id).update({ original_key: null });

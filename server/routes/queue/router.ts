@@ -1,0 +1,241 @@
+// The reviewer's work: what waits, claiming the next exam, the scoring workspace's data,
+// autosaved drafts, releasing a claim, submitting a review; and a QA lead's reassignment.
+import type { Knex } from "knex";
+import { defineRoute, type RouteKit } from "../../http/route";
+import type { RouteContext } from "../../app";
+import { HttpError, notFound } from "../../http/errors";
+import { idParamsSchema } from "../../../shared/schemas/common";
+import { queueNextSchema, reassignSchema, reviewDraftSchema, submitReviewSchema } from "../../../shared/schemas/reviews";
+import { claimNext } from "../../services/queue";
+import { assertValidReview, assessRead, resolveAfterRead } from "../../services/reviews";
+import { feedbackReady, runAfterCommit, type AfterCommit } from "../../services/notify";
+import { examContext, examDetail } from "../../repositories/exams";
+import { getRubric } from "../../repositories/rubrics";
+import { getSettings } from "../../repositories/settings";
+import { audit } from "../../repositories/audit";
+import { presentAssignment, presentBlindedExam, presentRubricFor, type AssignmentRow } from "../../presenters/assignment";
+import type { AuthUser } from "../../auth/types";
+import type { Db } from "../../db/knex";
+
+/** The caller's own claim on an assignment (or 404/403/409 saying why not). */
+async function ownClaim(db: Db | Knex.Transaction, user: AuthUser, id: string, lock = false) {
+  const q = db("assignments").where({ id, program_id: user.programId }).first();
+  if (lock) q.forUpdate();
+  const a = await q;
+  if (!a || (a.reviewer_id !== user.id && a.assigned_to !== user.id)) throw notFound("Assignment");
+  if (a.state === "submitted") throw new HttpError(409, "already_submitted", "This review has already been submitted");
+  if (a.state !== "claimed" || a.reviewer_id !== user.id) throw new HttpError(409, "not_claimed", "You no longer hold this exam: the claim expired and it went back to the queue");
+  return a;
+}
+
+export function registerQueueRoutes(kit: RouteKit, { db, config, mailer, log }: RouteContext) {
+  /** Everything the scoring workspace needs for one assignment. */
+  async function workspace(user: AuthUser, assignmentId: string) {
+    const a = await db("assignments").where({ id: assignmentId, program_id: user.programId }).first();
+    if (!a || a.reviewer_id !== user.id) throw notFound("Assignment");
+    const d = await examDetail(db, user.programId, a.exam_id);
+    const [settings, rubric, views, findings, draft, snippets] = await Promise.all([
+      getSettings(db, user.programId),
+      a.rubric_id ? getRubric(db, user.programId, a.rubric_id) : undefined,
+      db("application_views as v").join("exams as e", "e.application_id", "v.application_id").where("e.id", a.exam_id).orderBy("v.position").select("v.key", "v.label"),
+      db("application_findings as f").join("exams as e", "e.application_id", "f.application_id").where("e.id", a.exam_id).orderBy("f.position").select("f.key", "f.label"),
+      db("review_drafts").where("assignment_id", a.id).first("data", "updated_at"),
+      db("snippets").where("program_id", user.programId).orderBy("created_at").select("id", "criterion_key as criterionKey", "text"),
+    ]);
+    if (!rubric) throw new HttpError(409, "no_rubric", "The program has no published rubric; ask your QA lead to publish one");
+    const exam = d!.exam as unknown as Parameters<typeof presentBlindedExam>[0]["exam"];
+    return {
+      assignment: presentAssignment(a as AssignmentRow),
+      exam: presentBlindedExam({ exam, clips: d!.clips, views, findings, blindSonographer: settings.blindSonographer }),
+      rubric: presentRubricFor(rubric, d!.exam.app_code),
+      draft: draft ? { ...reviewDraftSchema.parse(draft.data), savedAt: draft.updated_at.toISOString() } : null,
+      snippets,
+    };
+  }
+
+  defineRoute(kit, {
+    method: "get",
+    path: "/queue",
+    summary: "What waits in the review queue (by application and setting) and what I hold",
+    tag: "queue",
+    access: ["reviewer"],
+    responses: { 200: { description: "Queue overview" } },
+    handler: async ({ user }) => {
+      const waitingBase = db("assignments as a")
+        .join("exams as e", "e.id", "a.exam_id")
+        .join("applications as ap", "ap.id", "e.application_id")
+        .where("a.program_id", user.programId)
+        .whereIn("a.kind", ["primary", "second"])
+        .where((q) => q.where("a.state", "open").orWhere((q2) => q2.where("a.state", "claimed").andWhere("a.lease_expires_at", "<=", db.fn.now())))
+        .where((q) => q.whereNull("a.assigned_to").orWhere("a.assigned_to", user.id))
+        .whereNot("e.sonographer_id", user.id)
+        .whereNotExists(function () {
+          this.from("assignments as b").whereRaw("b.exam_id = a.exam_id").andWhere("b.reviewer_id", user.id).whereNot("b.state", "cancelled").whereRaw("b.id <> a.id");
+        });
+      const [waiting, held] = await Promise.all([
+        waitingBase
+          .clone()
+          .groupBy("ap.code", "ap.name", "e.setting")
+          .select("ap.code", "ap.name", "e.setting", db.raw("count(*)::int as count"), db.raw("extract(epoch from now() - min(a.due_at))::int as oldest_seconds")),
+        db("assignments as a")
+          .join("exams as e", "e.id", "a.exam_id")
+          .join("applications as ap", "ap.id", "e.application_id")
+          .where({ "a.program_id": user.programId, "a.reviewer_id": user.id, "a.state": "claimed" })
+          .andWhere("a.lease_expires_at", ">", db.fn.now())
+          .select("a.id", "a.kind", "a.claimed_at", "a.lease_expires_at", "a.due_at", "e.code", "ap.name as application"),
+      ]);
+      return {
+        waiting: waiting.map((w) => ({ application: { code: w.code, name: w.name }, setting: w.setting, count: w.count, oldestWaitingSeconds: w.oldest_seconds })),
+        held: held.map((h) => ({ ...presentAssignment(h as AssignmentRow), examCode: h.code, application: h.application })),
+      };
+    },
+  });
+
+  defineRoute(kit, {
+    method: "post",
+    path: "/queue/next",
+    summary: "Claim the next due exam (oldest first, clinical before educational); 204 when none is waiting",
+    tag: "queue",
+    access: ["reviewer"],
+    body: queueNextSchema,
+    responses: { 200: { description: "The claimed assignment and its blinded exam" }, 204: { description: "Nothing waiting" } },
+    handler: async ({ req, res, user, body }) => {
+      const settings = await getSettings(db, user.programId);
+      const claimed = await claimNext(db, { programId: user.programId, reviewerId: user.id, leaseMinutes: settings.leaseMinutes, application: body.application });
+      if (!claimed) return void res.status(204).end();
+      await audit(db, { programId: user.programId, actorUserId: user.id, action: "assignment.claimed", entityType: "assignment", entityId: claimed.id, ip: req.ip });
+      return workspace(user, claimed.id);
+    },
+  });
+
+  defineRoute(kit, {
+    method: "get",
+    path: "/assignments/:id",
+    summary: "The scoring workspace's data for an assignment I hold (blinded exam, rubric, my draft, snippets)",
+    tag: "queue",
+    access: ["reviewer"],
+    params: idParamsSchema,
+    responses: { 200: { description: "Workspace" } },
+    handler: ({ user, params }) => workspace(user, params.id),
+  });
+
+  defineRoute(kit, {
+    method: "put",
+    path: "/assignments/:id/draft",
+    summary: "Autosave my scores so far; also extends the claim",
+    tag: "queue",
+    access: ["reviewer"],
+    params: idParamsSchema,
+    body: reviewDraftSchema,
+    responses: { 200: { description: "Saved" } },
+    handler: async ({ user, params, body }) =>
+      db.transaction(async (trx) => {
+        await ownClaim(trx, user, params.id, true);
+        const settings = await getSettings(trx, user.programId);
+        await trx("review_drafts")
+          .insert({ assignment_id: params.id, data: JSON.stringify({ ...body, reviewerId: user.id }), updated_at: trx.fn.now() })
+          .onConflict("assignment_id")
+          .merge();
+        const [a] = await trx("assignments").where("id", params.id).update({ lease_expires_at: trx.raw(`now() + make_interval(mins => ?)`, [settings.leaseMinutes]) }).returning("lease_expires_at");
+        return { savedAt: new Date().toISOString(), leaseExpiresAt: a.lease_expires_at.toISOString() };
+      }),
+  });
+
+  defineRoute(kit, {
+    method: "post",
+    path: "/assignments/:id/release",
+    summary: "Give the exam back to the queue",
+    tag: "queue",
+    access: ["reviewer"],
+    params: idParamsSchema,
+    responses: { 204: { description: "Released" } },
+    handler: async ({ req, user, params }) => {
+      await db.transaction(async (trx) => {
+        await ownClaim(trx, user, params.id, true);
+        await trx("assignments").where("id", params.id).update({ state: "open", reviewer_id: null, claimed_at: null, lease_expires_at: null });
+        await trx("review_drafts").where("assignment_id", params.id).delete();
+        await audit(trx, { programId: user.programId, actorUserId: user.id, action: "assignment.released", entityType: "assignment", entityId: params.id, ip: req.ip });
+      });
+    },
+  });
+
+  defineRoute(kit, {
+    method: "post",
+    path: "/assignments/:id/review",
+    summary: "Submit my scores, my own read of each finding and feedback",
+    tag: "queue",
+    access: ["reviewer"],
+    params: idParamsSchema,
+    body: submitReviewSchema,
+    responses: { 201: { description: "Submitted; the exam's state after it" }, 409: { description: "Already submitted or no longer held" } },
+    handler: async ({ req, res, user, params, body }) => {
+      const after: AfterCommit[] = [];
+      const result = await db.transaction(async (trx) => {
+        const a = await ownClaim(trx, user, params.id, true);
+        if (a.kind === "adjudication") throw new HttpError(409, "use_adjudication", "Set the final scores of an adjudication from the adjudication screen");
+        const exam = await examContext(trx, user.programId, a.exam_id);
+        if (!exam) throw notFound("Exam");
+        if (exam.sonographer_id === user.id) throw new HttpError(403, "own_exam", "You cannot review your own exam");
+        const rubric = await getRubric(trx, user.programId, a.rubric_id);
+        if (!rubric) throw new HttpError(409, "no_rubric", "The rubric of this assignment is missing");
+        if (body.rubricId && body.rubricId !== rubric.id) {
+          throw new HttpError(400, "validation_failed", `rubricId: these scores were made under another rubric version; this exam is scored under version ${rubric.version}`, [{ path: "rubricId", message: "Another rubric version" }]);
+        }
+        assertValidReview(rubric, exam, body.scores, body.reads);
+        const settings = await getSettings(trx, user.programId);
+        const { credit, significant } = assessRead(rubric, exam, body.scores, body.reads, settings);
+        const [review] = await trx("reviews")
+          .insert({
+            program_id: user.programId,
+            assignment_id: a.id,
+            exam_id: exam.id,
+            reviewer_id: user.id,
+            rubric_id: rubric.id,
+            scores: JSON.stringify(body.scores),
+            reads: JSON.stringify(body.reads),
+            feedback: body.feedback,
+            time_spent_seconds: body.timeSpentSeconds,
+            credit,
+            significant_disagreement: significant.length > 0,
+          })
+          .returning(["id", "submitted_at"]);
+        await trx("assignments").where("id", a.id).update({ state: "submitted", submitted_at: trx.fn.now(), lease_expires_at: null });
+        await trx("review_drafts").where("assignment_id", a.id).delete();
+        await audit(trx, { programId: user.programId, actorUserId: user.id, action: "review.submitted", entityType: "review", entityId: review.id, ip: req.ip, details: { examId: exam.id, assignment: a.kind, rubricVersion: rubric.version, scores: body.scores } });
+        const examState = await resolveAfterRead(trx, rubric, exam, settings);
+        if (examState === "final") after.push(await feedbackReady(trx, mailer, config.appUrl, exam));
+        return { review: { id: review.id, submittedAt: review.submitted_at.toISOString(), credit }, examState };
+      });
+      await runAfterCommit(after, log);
+      res.status(201).json(result);
+    },
+  });
+
+  defineRoute(kit, {
+    method: "post",
+    path: "/assignments/:id/reassign",
+    summary: "Give an unsubmitted read to a chosen reviewer (QA lead)",
+    tag: "queue",
+    access: ["qa_lead"],
+    params: idParamsSchema,
+    body: reassignSchema,
+    responses: { 200: { description: "Reassigned" } },
+    handler: async ({ req, user, params, body }) =>
+      db.transaction(async (trx) => {
+        const a = await trx("assignments").where({ id: params.id, program_id: user.programId }).forUpdate().first();
+        if (!a) throw notFound("Assignment");
+        if (a.state === "submitted" || a.state === "cancelled") throw new HttpError(409, "not_open", `This read is ${a.state}`);
+        const reviewer = await trx("memberships").where({ user_id: body.reviewerId, program_id: user.programId }).whereNull("deactivated_at").whereRaw(`'reviewer' = ANY(roles)`).first("user_id");
+        if (!reviewer) throw new HttpError(400, "validation_failed", "reviewerId: not an active reviewer of this program");
+        const exam = await trx("exams").where("id", a.exam_id).first("sonographer_id");
+        if (exam.sonographer_id === body.reviewerId) throw new HttpError(409, "own_exam", "reviewerId: a reviewer never reads their own exam");
+        const other = await trx("assignments").where("exam_id", a.exam_id).whereNot("id", a.id).whereNot("state", "cancelled").where((q) => q.where("reviewer_id", body.reviewerId).orWhere("assigned_to", body.reviewerId)).first("id");
+        if (other) throw new HttpError(409, "already_reading", "reviewerId: this reviewer already reads this exam; reads must be independent");
+        await trx("assignments").where("id", a.id).update({ state: "open", reviewer_id: null, claimed_at: null, lease_expires_at: null, assigned_to: body.reviewerId });
+        await trx("review_drafts").where("assignment_id", a.id).delete();
+        await audit(trx, { programId: user.programId, actorUserId: user.id, action: "assignment.reassigned", entityType: "assignment", entityId: a.id, ip: req.ip, details: { from: a.reviewer_id ?? a.assigned_to, to: body.reviewerId } });
+        return { id: a.id, assignedTo: body.reviewerId };
+      }),
+  });
+
+}

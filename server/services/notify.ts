@@ -1,0 +1,58 @@
+// Telling people: in-app notifications (written in the caller's transaction) and e-mails
+// (sent after commit, so a rolled-back change never mails anyone).
+import type { Knex } from "knex";
+import type { Db } from "../db/knex";
+import type { Mailer } from "../mail/mailer";
+import { feedbackReadyMail, overdueDigestMail, replyMail } from "../mail/templates";
+
+export type AfterCommit = () => Promise<void>;
+
+/** The sonographer's feedback is final: a notification now, an e-mail after commit. */
+export async function feedbackReady(trx: Knex.Transaction, mailer: Mailer, appUrl: string, exam: { id: string; program_id: string; sonographer_id: string; code: string }): Promise<AfterCommit> {
+  const app = await trx("exams as e").join("applications as a", "a.id", "e.application_id").where("e.id", exam.id).first("a.name");
+  const user = await trx("users").where("id", exam.sonographer_id).first("email", "name");
+  await trx("notifications").insert({ program_id: exam.program_id, user_id: exam.sonographer_id, kind: "feedback_ready", exam_id: exam.id, body: `Feedback on your ${app.name} exam ${exam.code} is ready.` });
+  return () => mailer.send(feedbackReadyMail({ to: user.email, name: user.name, application: app.name, code: exam.code, link: `${appUrl}/feedback/${exam.id}` }));
+}
+
+/** A sonographer's question reaches every reviewer who read the exam. */
+export async function replyPosted(trx: Knex.Transaction, mailer: Mailer, appUrl: string, exam: { id: string; program_id: string; code: string }, body: string): Promise<AfterCommit> {
+  const reviewers = await trx("reviews as r").join("users as u", "u.id", "r.reviewer_id").where("r.exam_id", exam.id).distinct("u.id", "u.email", "u.name");
+  if (reviewers.length) {
+    await trx("notifications").insert(reviewers.map((r) => ({ program_id: exam.program_id, user_id: r.id, kind: "feedback_reply", exam_id: exam.id, body: `A question about exam ${exam.code}.` })));
+  }
+  return async () => {
+    await Promise.all(reviewers.map((r) => mailer.send(replyMail({ to: r.email, name: r.name, code: exam.code, body, link: `${appUrl}/reviews/exams/${exam.id}` }))));
+  };
+}
+
+/** E-mails each reviewer of each program a digest of primary/second reads waiting past the turnaround target. */
+export async function sendOverdueDigests(db: Db, mailer: Mailer, appUrl: string): Promise<number> {
+  const programs = await db("programs").select("id", "name", "settings");
+  let sent = 0;
+  for (const p of programs) {
+    const hours = Number(p.settings?.turnaroundHours ?? 72);
+    const overdue = await db("assignments as a")
+      .join("exams as e", "e.id", "a.exam_id")
+      .join("applications as ap", "ap.id", "e.application_id")
+      .where("a.program_id", p.id)
+      .whereIn("a.kind", ["primary", "second"])
+      .where((q) => q.where("a.state", "open").orWhere((q2) => q2.where("a.state", "claimed").andWhere("a.lease_expires_at", "<=", db.fn.now())))
+      .andWhere("a.due_at", "<", db.raw(`now() - make_interval(hours => ?)`, [hours]))
+      .groupBy("ap.name")
+      .select("ap.name")
+      .count<{ name: string; count: string }[]>("* as count");
+    if (overdue.length === 0) continue;
+    const reviewers = await db("memberships as m").join("users as u", "u.id", "m.user_id").where("m.program_id", p.id).whereNull("m.deactivated_at").whereRaw(`'reviewer' = ANY(m.roles)`).select("u.email", "u.name");
+    for (const r of reviewers) {
+      await mailer.send(overdueDigestMail({ to: r.email, name: r.name, programName: p.name, hours, rows: overdue.map((o) => ({ application: o.name, count: Number(o.count) })), link: `${appUrl}/queue` }));
+      sent++;
+    }
+  }
+  return sent;
+}
+
+/** Runs the after-commit e-mails; a mail failure is logged, never undoes the saved change. */
+export async function runAfterCommit(tasks: AfterCommit[], log: (e: unknown) => void) {
+  for (const t of tasks) await t().catch(log);
+}

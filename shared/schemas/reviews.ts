@@ -1,0 +1,64 @@
+// The review queue, scoring, adjudication, feedback and program settings.
+import { z } from "zod";
+import { FINDING_READS } from "../catalogue";
+
+export const scoreValueSchema = z.union([z.string().min(1).max(40), z.number()]);
+
+export const readSchema = z.object({ key: z.string().min(1).max(60), read: z.enum(FINDING_READS) });
+
+export const submitReviewSchema = z.object({
+  /** The rubric version the scores were made under; must be the assignment's. */
+  rubricId: z.uuid().optional(),
+  scores: z.record(z.string().max(40), scoreValueSchema),
+  reads: z.array(readSchema).max(50).default([]),
+  feedback: z.string().max(5000).default(""),
+  timeSpentSeconds: z.number().int().min(0).max(24 * 3600).default(0),
+});
+export type SubmitReviewInput = z.input<typeof submitReviewSchema>;
+
+export const reviewDraftSchema = z.object({
+  scores: z.record(z.string().max(40), scoreValueSchema).default({}),
+  reads: z.array(readSchema).max(50).default([]),
+  feedback: z.string().max(5000).default(""),
+  timeSpentSeconds: z.number().int().min(0).max(24 * 3600).default(0),
+});
+
+export const queueNextSchema = z.object({ application: z.string().max(40).optional() });
+
+export const reassignSchema = z.object({ reviewerId: z.uuid() });
+
+export const adjudicateSchema = z.object({
+  scores: z.record(z.string().max(40), scoreValueSchema),
+  reads: z.array(readSchema).max(50).default([]),
+  note: z.string().max(2000).default(""),
+});
+
+export const snippetInputSchema = z.object({
+  criterionKey: z.string().max(40).nullable().default(null),
+  text: z.string().trim().min(1, "Write the snippet").max(1000),
+});
+
+export const messageInputSchema = z.object({ body: z.string().trim().min(1, "Write your question").max(4000) });
+
+export const followUpUpdateSchema = z.object({
+  status: z.enum(["open", "in_progress", "closed"]),
+  note: z.string().max(2000).optional(),
+});
+
+export const programSettingsSchema = z.object({
+  /** Share of exams sampled for an independent second read. */
+  doubleReadShare: z.number().min(0).max(1).default(0.2),
+  /** Reviewers see an exam code, never the sonographer. */
+  blindSonographer: z.boolean().default(true),
+  /** Sonographers see the reviewer's name on their feedback. */
+  showReviewerName: z.boolean().default(true),
+  /** Work waiting longer than this is overdue (reviewer digest). */
+  turnaroundHours: z.number().int().min(1).max(24 * 60).default(72),
+  /** How long a claim lasts before the exam returns to the queue. */
+  leaseMinutes: z.number().int().min(1).max(24 * 60).default(30),
+  minQualityForCredit: z.number().int().min(1).max(5).default(3),
+  /** Credited exams needed per application (demo default 25). */
+  credentialingThreshold: z.number().int().min(1).max(1000).default(25),
+});
+export type ProgramSettings = z.infer<typeof programSettingsSchema>;
+export const programSettingsUpdateSchema = programSettingsSchema.partial();
