@@ -31,7 +31,8 @@ export function ExamListFilters({ filters, applications, onChange, onClear }: Pr
       >
         <option value="">All</option>
         <option value="draft">Draft</option>
-        <option value="submitted">Submitted</option>
+        <option value="submitted">Submitted, waiting for review</option>
+        <option value="reviewed">Reviewed</option>
       </SelectField>
       <SelectField
         label="Application"

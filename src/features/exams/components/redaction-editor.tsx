@@ -39,6 +39,7 @@ export function RedactionEditor({ clip, label, saving, error, onSave, onCancel }
   const [draft, setDraft] = useState<{ x0: number; y0: number; x1: number; y1: number } | null>(null);
   const changed = JSON.stringify(boxes) !== JSON.stringify(clip.redactions);
   const full = boxes.length >= MAX_BOXES;
+  const aspect = clip.width && clip.height ? clip.width / clip.height : 4 / 3;
 
   const point = (e: PointerEvent) => {
     const r = surface.current!.getBoundingClientRect();
@@ -102,8 +103,10 @@ export function RedactionEditor({ clip, label, saving, error, onSave, onCancel }
         and remove it with Delete. Saving makes a new copy of the clip with the boxes filled black.
       </p>
       <div className="rounded-md bg-ink-950 p-2">
-        <div className="relative mx-auto w-fit max-w-full select-none">
-          <img src={clip.media.poster ?? undefined} alt={`Poster of ${label}, for redaction`} draggable={false} className="block max-h-[60vh] max-w-full" />
+        {/* As wide as the panel allows but never taller than 60% of the screen; the overlay
+            matches the image exactly, so box coordinates are relative to the image. */}
+        <div className="relative mx-auto w-full select-none" style={{ maxWidth: `calc(60vh * ${aspect})` }}>
+          <img src={clip.media.poster ?? undefined} alt={`Poster of ${label}, for redaction`} draggable={false} className="block h-auto w-full" />
           <div
             ref={surface}
             aria-describedby={helpId}

@@ -5,12 +5,12 @@ import { buttonClasses } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { PageHeader } from "../../../components/ui/page-header";
 import { ErrorState, LoadingState } from "../../../components/ui/states";
-import { StatusTag } from "../../../components/ui/status-tag";
 import { isApiError } from "../../../lib/api-client";
 import { applicationsQuery } from "../../../lib/catalogue";
 import { useExam } from "../api/exams";
 import { DiscardDraftButton } from "../components/discard-draft-button";
 import { ExamEditor } from "../components/exam-editor";
+import { ExamStatusTag } from "../components/exam-status-tag";
 
 export default function EditExamPage() {
   const { id = "" } = useParams();
@@ -55,7 +55,7 @@ export default function EditExamPage() {
       ) : exam.data.status !== "draft" ? (
         <div className="rounded-lg border border-slate-200 bg-white p-5">
           <p className="flex items-center gap-2 text-ink-900">
-            <StatusTag tone="good">Submitted</StatusTag> This exam was submitted and can no longer be changed.
+            <ExamStatusTag status={exam.data.status} /> This exam was submitted and can no longer be changed.
           </p>
           <Link to={`/exams/${id}`} className={buttonClasses("primary", "md", "mt-4")}>
             Open the exam
