@@ -90,6 +90,16 @@ export const router = createBrowserRouter([
                 lazy: page(() => import("../features/exams/routes/edit-exam")),
               },
               { path: "exams/:id", lazy: page(() => import("../features/exams/routes/exam-page")) },
+              {
+                path: "queue",
+                loader: requireRoles(["reviewer"]),
+                lazy: page(() => import("../features/queue/routes/queue")),
+              },
+              {
+                path: "queue/:assignmentId",
+                loader: requireRoles(["reviewer"]),
+                lazy: page(() => import("../features/scoring/routes/scoring-workspace")),
+              },
               { path: "setup/applications", lazy: page(() => import("../features/applications/routes/applications")) },
               { path: "account/password", lazy: page(() => import("../features/auth/routes/change-password")) },
               { path: "*", lazy: page(() => import("./not-found-page")) },

@@ -26,6 +26,10 @@ export const NAV_GROUPS: NavGroup[] = [
     ],
   },
   {
+    label: "Reviewing",
+    items: [{ to: "/queue", label: "Queue", roles: ["reviewer"] }],
+  },
+  {
     label: "Setup",
     items: [
       { to: "/setup/people", label: "People", roles: ["admin", "qa_lead"] },
