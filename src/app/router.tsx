@@ -100,6 +100,31 @@ export const router = createBrowserRouter([
                 loader: requireRoles(["reviewer"]),
                 lazy: page(() => import("../features/scoring/routes/scoring-workspace")),
               },
+              {
+                path: "feedback",
+                loader: requireRoles(["sonographer"]),
+                lazy: page(() => import("../features/feedback/routes/feedback-list")),
+              },
+              {
+                path: "feedback/:examId",
+                loader: requireRoles(["sonographer"]),
+                lazy: page(() => import("../features/feedback/routes/feedback-detail")),
+              },
+              {
+                path: "oversight/adjudication",
+                loader: requireRoles(["qa_lead", "reviewer"]),
+                lazy: page(() => import("../features/oversight/routes/adjudications")),
+              },
+              {
+                path: "oversight/adjudication/:examId",
+                loader: requireRoles(["qa_lead", "reviewer"]),
+                lazy: page(() => import("../features/oversight/routes/adjudication")),
+              },
+              {
+                path: "oversight/follow-ups",
+                loader: requireRoles(["qa_lead"]),
+                lazy: page(() => import("../features/oversight/routes/follow-ups")),
+              },
               { path: "setup/applications", lazy: page(() => import("../features/applications/routes/applications")) },
               { path: "account/password", lazy: page(() => import("../features/auth/routes/change-password")) },
               { path: "*", lazy: page(() => import("./not-found-page")) },

@@ -11,6 +11,7 @@ import { SideNav } from "./side-nav";
 import { SkipLink } from "./skip-link";
 import { UserMenu } from "./user-menu";
 import { RouteProgress } from "./route-progress";
+import { NotificationsBell } from "../../features/notifications/components/notifications-bell";
 
 export function AppLayout() {
   const { data: user } = useQuery(sessionQuery);
@@ -41,7 +42,10 @@ export function AppLayout() {
           </Link>
           <span className="hidden truncate border-l border-slate-300 pl-4 text-sm text-slate-600 sm:inline">{user.programName}</span>
         </div>
-        <UserMenu user={user} />
+        <div className="flex items-center gap-1">
+          <NotificationsBell />
+          <UserMenu user={user} />
+        </div>
       </header>
       <div className="flex flex-1 flex-col md:flex-row">
         <SideNav roles={user.roles} />

@@ -23,11 +23,19 @@ export const NAV_GROUPS: NavGroup[] = [
     items: [
       { to: "/exams/new", label: "Submit", roles: ["sonographer"] },
       { to: "/exams", label: "My exams", roles: ["sonographer"], end: true },
+      { to: "/feedback", label: "Feedback", roles: ["sonographer"] },
     ],
   },
   {
     label: "Reviewing",
     items: [{ to: "/queue", label: "Queue", roles: ["reviewer"] }],
+  },
+  {
+    label: "Oversight",
+    items: [
+      { to: "/oversight/adjudication", label: "Adjudication", roles: ["qa_lead"] },
+      { to: "/oversight/follow-ups", label: "Follow-ups", roles: ["qa_lead"] },
+    ],
   },
   {
     label: "Setup",

@@ -1,0 +1,123 @@
+// The signed-in sonographer's feedback: reviewed exams (newest first), one exam's feedback,
+// acknowledging it and asking a question. Every change invalidates the ["feedback"] prefix
+// and the notifications, since reading feedback marks its notification read.
+import { useEffect } from "react";
+import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import type { ExamSetting, FindingRead } from "../../../../shared/catalogue";
+import { api } from "../../../lib/api-client";
+
+export type Outcome = "TP" | "FP" | "TN" | "FN" | "indeterminate";
+
+export interface FeedbackCriterion {
+  key: string;
+  label: string;
+  value: string | number | null;
+  level: { label: string; anchor: string; ideal: boolean; fails: boolean } | null;
+  nextSteps: string[];
+}
+
+export interface Feedback {
+  examId: string;
+  code: string;
+  application: { code: string; name: string };
+  performedAt: string;
+  setting: ExamSetting;
+  reviewedAt: string;
+  source: "single_read" | "double_read_agreed" | "adjudicated";
+  credit: boolean;
+  rubricVersion: number | null;
+  criteria: FeedbackCriterion[];
+  findings: { key: string; label: string; yourRead: FindingRead; referenceRead: FindingRead; outcome: Outcome }[];
+  comments: { reviewer: string | null; text: string; at: string }[];
+  adjudicationNote: string | null;
+  acknowledgedAt: string | null;
+  messages: { id: string; body: string; at: string; author: string }[];
+}
+
+export type FeedbackListItem = Feedback & { unread: boolean };
+
+export const feedbackKeys = {
+  all: ["feedback"] as const,
+  list: () => ["feedback", "list"] as const,
+  detail: (examId: string) => ["feedback", "detail", examId] as const,
+};
+
+export const feedbackListQuery = queryOptions({
+  queryKey: feedbackKeys.list(),
+  queryFn: ({ signal }) => api<{ items: FeedbackListItem[] }>("/me/feedback", { signal }),
+});
+
+export const feedbackQuery = (examId: string) =>
+  queryOptions({
+    queryKey: feedbackKeys.detail(examId),
+    queryFn: ({ signal }) => api<Feedback>(`/me/feedback/${examId}`, { signal }),
+  });
+
+export function useFeedbackList() {
+  return useQuery(feedbackListQuery);
+}
+
+/** One exam's feedback. Reading it marks its notification read, so the bell is refreshed once it arrives. */
+export function useFeedback(examId: string) {
+  const queryClient = useQueryClient();
+  const query = useQuery(feedbackQuery(examId));
+  const loadedAt = query.dataUpdatedAt;
+  useEffect(() => {
+    if (loadedAt) void queryClient.invalidateQueries({ queryKey: ["notifications"] });
+  }, [loadedAt, queryClient]);
+  return query;
+}
+
+function useFeedbackMutation<TVars, TResult>(fn: (vars: TVars) => Promise<TResult>) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: fn,
+    onSettled: () =>
+      Promise.all([
+        queryClient.invalidateQueries({ queryKey: feedbackKeys.all }),
+        queryClient.invalidateQueries({ queryKey: ["notifications"] }),
+        queryClient.invalidateQueries({ queryKey: ["home"] }),
+      ]),
+  });
+}
+
+export function useAcknowledge() {
+  return useFeedbackMutation((examId: string) => api<{ acknowledgedAt: string }>(`/exams/${examId}/acknowledge`, { method: "POST" }));
+}
+
+export function usePostQuestion() {
+  return useFeedbackMutation(({ examId, body }: { examId: string; body: string }) =>
+    api<{ id: string }>(`/exams/${examId}/messages`, { method: "POST", body: { body } }),
+  );
+}
+
+/** The outcome of a finding in plain words. */
+export const OUTCOME_WORDS: Record<Outcome, string> = {
+  TP: "True positive",
+  FP: "False positive",
+  TN: "True negative",
+  FN: "False negative",
+  indeterminate: "Indeterminate",
+};
+
+/** How the final result came about, in plain words. */
+export const SOURCE_WORDS: Record<Feedback["source"], string> = {
+  single_read: "One reviewer's read",
+  double_read_agreed: "Two independent reads that agreed",
+  adjudicated: "Two reads that differed, settled by adjudication",
+};
+
+/**
+ * Why an exam earned no credit, as far as the feedback shows it: a failing level, a
+ * definite disagreement on a clinical exam, or (otherwise) the image quality rule.
+ */
+export function noCreditReasons(fb: Feedback): string[] {
+  const reasons: string[] = [];
+  for (const c of fb.criteria) if (c.level?.fails) reasons.push(`${c.label}: ${c.level.label}`);
+  const missed = fb.findings.filter((f) => f.outcome === "FN" || f.outcome === "FP");
+  if (fb.setting === "clinical" && missed.length) reasons.push(`The interpretation differs on a clinical exam (${missed.map((f) => f.label).join(", ")})`);
+  const quality = fb.criteria.find((c) => c.key === "quality");
+  if (!reasons.length && quality?.level) reasons.push(`Overall image quality "${quality.level.label}" is below the program's minimum for credit`);
+  if (!reasons.length) reasons.push("The program's credit rule was not met");
+  return reasons;
+}

@@ -1,0 +1,48 @@
+// In-app notifications of the signed-in user, polled every minute for the header bell.
+import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { api } from "../../../lib/api-client";
+
+export interface AppNotification {
+  id: string;
+  kind: string;
+  examId: string | null;
+  body: string;
+  read: boolean;
+  createdAt: string;
+}
+
+/** How often the bell asks for new notifications. */
+export const NOTIFICATIONS_POLL_MS = 60_000;
+
+export const notificationKeys = {
+  all: ["notifications"] as const,
+  list: () => ["notifications", "list"] as const,
+};
+
+export const notificationsQuery = queryOptions({
+  queryKey: notificationKeys.list(),
+  queryFn: ({ signal }) => api<{ items: AppNotification[]; unread: number }>("/notifications", { signal }),
+  refetchInterval: NOTIFICATIONS_POLL_MS,
+  refetchIntervalInBackground: false,
+});
+
+export function useNotifications() {
+  return useQuery(notificationsQuery);
+}
+
+/** Marks the given notifications read, or all of them when no ids are given. */
+export function useMarkRead() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (ids?: string[]) => api<void>("/notifications/read", { method: "POST", body: ids ? { ids } : {} }),
+    onSettled: () =>
+      Promise.all([queryClient.invalidateQueries({ queryKey: notificationKeys.all }), queryClient.invalidateQueries({ queryKey: ["feedback"] })]),
+  });
+}
+
+/** Where a notification leads, or null when it has no screen of its own. */
+export function notificationTarget(n: AppNotification): string | null {
+  if (!n.examId) return null;
+  if (n.kind === "feedback_ready" || n.kind === "feedback_answer") return `/feedback/${n.examId}`;
+  return null;
+}
