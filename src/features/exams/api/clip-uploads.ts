@@ -4,6 +4,7 @@
 import { useCallback, useSyncExternalStore } from "react";
 import { useQueryClient, type QueryClient } from "@tanstack/react-query";
 import type { Clip } from "../../../../shared/schemas/exams";
+import { isApiError } from "../../../lib/api-client";
 import { uploadFile } from "../../../lib/upload";
 import { examKeys, mergeClip } from "./exams";
 
@@ -15,6 +16,8 @@ export interface UploadItem {
   progress: number;
   status: "uploading" | "refused";
   error: string | null;
+  /** Worth sending again (the connection or the server failed), unlike a refused file. */
+  retryable: boolean;
 }
 
 let items: UploadItem[] = [];
@@ -44,7 +47,12 @@ async function run(queryClient: QueryClient, item: UploadItem) {
     emit(items.filter((i) => i.key !== item.key));
     await Promise.all([queryClient.invalidateQueries({ queryKey: examKeys.all }), queryClient.invalidateQueries({ queryKey: ["home"] })]);
   } catch (error) {
-    patch(item.key, { status: "refused", error: error instanceof Error ? error.message : "The upload did not work." });
+    const status = isApiError(error) ? error.status : 0;
+    patch(item.key, {
+      status: "refused",
+      error: error instanceof Error ? error.message : "The upload did not work.",
+      retryable: status === 0 || status >= 500 || status === 429,
+    });
   }
 }
 
@@ -63,6 +71,7 @@ export function useClipUploads(examId: string | undefined) {
         progress: 0,
         status: "uploading",
         error: null,
+        retryable: false,
       }));
       emit([...items, ...added]);
       for (const item of added) void run(queryClient, item);

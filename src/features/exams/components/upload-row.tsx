@@ -32,9 +32,11 @@ export function UploadRow({ item, onRetry, onDismiss }: { item: UploadItem; onRe
           {refused ? (
             <>
               <StatusTag tone="problem">Not uploaded</StatusTag>
-              <Button variant="secondary" size="sm" onClick={onRetry}>
-                Try again
-              </Button>
+              {item.retryable ? (
+                <Button variant="secondary" size="sm" onClick={onRetry}>
+                  Try again
+                </Button>
+              ) : null}
               <Button variant="ghost" size="sm" onClick={onDismiss} aria-label={`Dismiss ${item.file.name}`}>
                 Dismiss
               </Button>

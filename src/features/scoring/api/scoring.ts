@@ -1,0 +1,94 @@
+// The scoring workspace's calls: read the workspace, autosave the draft (which also extends
+// the claim), give the exam back, and submit — after which the next exam is claimed and its
+// media fetched ahead. Every change invalidates the ["queue"] prefix and Home.
+import { useMutation, useQuery, useQueryClient, type QueryClient } from "@tanstack/react-query";
+import type { FindingRead } from "../../../../shared/catalogue";
+import type { Scores } from "../../../../shared/rubric/types";
+import { api } from "../../../lib/api-client";
+import { claimNext, queueKeys, workspaceQuery, type Workspace } from "../../../lib/review-workspace";
+import { prefetchWorkspaceMedia } from "./prefetch-media";
+
+export interface DraftBody {
+  scores: Scores;
+  reads: { key: string; read: FindingRead }[];
+  feedback: string;
+  timeSpentSeconds: number;
+}
+
+export interface SubmitBody extends DraftBody {
+  rubricId: string;
+}
+
+export interface SubmitResult {
+  review: { id: string; submittedAt: string; credit: boolean };
+  examState: "final" | "waiting" | "adjudication";
+}
+
+const invalidateQueue = (qc: QueryClient) => Promise.all([qc.invalidateQueries({ queryKey: queueKeys.overview() }), qc.invalidateQueries({ queryKey: ["home"] })]);
+
+export function useWorkspace(assignmentId: string) {
+  return useQuery(workspaceQuery(assignmentId));
+}
+
+/** PUT /api/assignments/:id/draft. */
+export function saveDraft(assignmentId: string, body: DraftBody) {
+  return api<{ savedAt: string; leaseExpiresAt: string }>(`/assignments/${assignmentId}/draft`, { method: "PUT", body });
+}
+
+/**
+ * Saves the draft while the page is going away (reload, tab closed): a keepalive request
+ * outlives the page, where an ordinary fetch would be cancelled.
+ */
+export function saveDraftOnExit(assignmentId: string, body: DraftBody) {
+  void fetch(`/api/assignments/${assignmentId}/draft`, {
+    method: "PUT",
+    credentials: "include",
+    keepalive: true,
+    headers: { "Content-Type": "application/json", Accept: "application/json" },
+    body: JSON.stringify(body),
+  }).catch(() => undefined);
+}
+
+export function useReleaseAssignment(assignmentId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: () => api<void>(`/assignments/${assignmentId}/release`, { method: "POST" }),
+    onSuccess: () => queryClient.removeQueries({ queryKey: queueKeys.workspace(assignmentId) }),
+    onSettled: () => invalidateQueue(queryClient),
+  });
+}
+
+/** POST …/review; then claims the next exam (same application filter) and warms its media. */
+export function useSubmitAndNext(assignmentId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: async ({ body, application }: { body: SubmitBody; application: string | null }) => {
+      const result = await api<SubmitResult>(`/assignments/${assignmentId}/review`, { method: "POST", body });
+      const next = await claimNext(application);
+      return { result, next };
+    },
+    onSuccess: ({ next }) => {
+      queryClient.removeQueries({ queryKey: queueKeys.workspace(assignmentId) });
+      if (next) {
+        queryClient.setQueryData<Workspace>(queueKeys.workspace(next.assignment.id), next);
+        prefetchWorkspaceMedia(next);
+      }
+    },
+    onSettled: () => invalidateQueue(queryClient),
+  });
+}
+
+/** Claims the next exam without submitting (used when this one turns out to be submitted already). */
+export function useClaimNext() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (application: string | null) => claimNext(application),
+    onSuccess: (next) => {
+      if (next) {
+        queryClient.setQueryData<Workspace>(queueKeys.workspace(next.assignment.id), next);
+        prefetchWorkspaceMedia(next);
+      }
+    },
+    onSettled: () => invalidateQueue(queryClient),
+  });
+}
