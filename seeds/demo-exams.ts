@@ -12,6 +12,13 @@ import type { JobQueue } from "../server/jobs/queue";
 import { generateDemoClip, generateDemoStill, type DemoClipOptions, type DemoImageOptions } from "./clips/generate";
 import { mulberry32 } from "../shared/stats/random";
 import type { FindingRead } from "../shared/catalogue";
+import { queueSubmittedExam } from "../server/services/queue";
+import { recordReview } from "../server/services/reviews";
+import { examContext } from "../server/repositories/exams";
+import { activeRubricFor } from "../server/repositories/rubrics";
+import { getSettings } from "../server/repositories/settings";
+import { criteriaFor } from "../shared/rubric/logic";
+import type { Rubric, Scores } from "../shared/rubric/types";
 
 interface LibraryItem {
   name: string;
@@ -28,11 +35,20 @@ const clip = (name: string, o: Partial<DemoClipOptions> & Pick<DemoClipOptions, 
   mime: file.endsWith(".avi") ? "video/x-msvideo" : "video/mp4",
   make: (out) => generateDemoClip(out, { width: 480, height: 360, seconds: 2, fps: 15, ...o }),
 });
-const still = (name: string, o: DemoImageOptions): LibraryItem => ({ name, file: `${name}.png`, kind: "still", mime: "image/png", make: (out) => generateDemoStill(out, o) });
+const still = (name: string, o: DemoImageOptions): LibraryItem => ({
+  name,
+  file: `${name}.png`,
+  kind: "still",
+  mime: "image/png",
+  make: (out) => generateDemoStill(out, o),
+});
 
 /** The clip library, by application code. */
 const LIBRARY: Record<string, LibraryItem[]> = {
-  efast: [clip("efast-ruq", { footprint: "curvilinear", seed: 1, label: "CEDAR HOLLOW  ABD  16cm" }), clip("efast-pelvis", { footprint: "curvilinear", seed: 2, fluid: false, label: "CEDAR HOLLOW  ABD  14cm" })],
+  efast: [
+    clip("efast-ruq", { footprint: "curvilinear", seed: 1, label: "CEDAR HOLLOW  ABD  16cm" }),
+    clip("efast-pelvis", { footprint: "curvilinear", seed: 2, fluid: false, label: "CEDAR HOLLOW  ABD  14cm" }),
+  ],
   cardiac: [clip("cardiac-plax", { footprint: "phased", seed: 3, label: "CEDAR HOLLOW  CARD  16cm" })],
   aorta: [clip("aorta-deep", { footprint: "curvilinear", seed: 4, unusedDepth: 0.4, fluid: false, label: "CEDAR HOLLOW  ABD  24cm" })],
   biliary: [clip("biliary-bright", { footprint: "curvilinear", seed: 5, gain: "high", label: "CEDAR HOLLOW  ABD  12cm" })],
@@ -72,10 +88,16 @@ async function buildLibrary(dir: string, apps: string[], log: (s: string) => voi
   return files;
 }
 
-const sha256 = async (file: string) => crypto.createHash("sha256").update(await fsp.readFile(file)).digest("hex");
+const sha256 = async (file: string) =>
+  crypto
+    .createHash("sha256")
+    .update(await fsp.readFile(file))
+    .digest("hex");
 
 /** Seeds the demo exams once (when Cedar Hollow has none); clips are processed by the queue. */
-export async function seedDemoExams(deps: { db: Db; storage: Storage; jobs: Pick<JobQueue, "enqueueClip"> }, opts: { libraryDir: string; count?: number; programId?: string; apps?: string[]; log?: (s: string) => void },
+export async function seedDemoExams(
+  deps: { db: Db; storage: Storage; jobs: Pick<JobQueue, "enqueueClip"> },
+  opts: { libraryDir: string; count?: number; programId?: string; apps?: string[]; log?: (s: string) => void },
 ): Promise<number> {
   const { db, storage, jobs } = deps;
   const log = opts.log ?? (() => {});
@@ -92,7 +114,12 @@ export async function seedDemoExams(deps: { db: Db; storage: Storage; jobs: Pick
     .orderBy("u.email")
     .select("u.id", "u.email");
   const apps = await db("applications").where("program_id", program.id).whereIn("code", appCodes).orderBy("position").select("id", "code");
-  const findings = await db("application_findings").whereIn("application_id", apps.map((a) => a.id)).select("application_id", "key");
+  const findings = await db("application_findings")
+    .whereIn(
+      "application_id",
+      apps.map((a) => a.id),
+    )
+    .select("application_id", "key");
   const rand = mulberry32(20261201);
   const pick = <T>(xs: T[]) => xs[Math.floor(rand() * xs.length)];
   const count = opts.count ?? 40;
@@ -100,6 +127,7 @@ export async function seedDemoExams(deps: { db: Db; storage: Storage; jobs: Pick
   const digests = new Map<string, string>();
   for (const [name, file] of library) digests.set(name, await sha256(file));
 
+  const submitted: { id: string; setting: string; performedAt: Date; sonographerId: string }[] = [];
   await db.transaction(async (trx) => {
     for (let i = 0; i < count; i++) {
       const app = apps[i % apps.length];
@@ -125,10 +153,17 @@ export async function seedDemoExams(deps: { db: Db; storage: Storage; jobs: Pick
           created_at: performedAt,
           updated_at: performedAt,
         })
-        .returning(["id"]);
+        .returning(["id", "setting"]);
+      if (!draft) submitted.push({ id: exam.id, setting: exam.setting, performedAt, sonographerId: sono.id });
       const keys = findings.filter((f) => f.application_id === app.id).map((f) => f.key);
       if (keys.length) {
-        await trx("exam_findings").insert(keys.map((key) => ({ exam_id: exam.id, finding_key: key, read: (rand() < 0.2 ? "positive" : rand() < 0.1 ? "indeterminate" : "negative") as FindingRead })));
+        await trx("exam_findings").insert(
+          keys.map((key) => ({
+            exam_id: exam.id,
+            finding_key: key,
+            read: (rand() < 0.2 ? "positive" : rand() < 0.1 ? "indeterminate" : "negative") as FindingRead,
+          })),
+        );
       }
       const items = LIBRARY[app.code];
       const names = items.map((it) => it.name);
@@ -156,7 +191,92 @@ export async function seedDemoExams(deps: { db: Db; storage: Storage; jobs: Pick
       }
     }
   });
+  const reviewed = await reviewSome(db, program.id, submitted, rand);
   for (const j of jobsToSend) await jobs.enqueueClip(j);
-  log(`Seeded ${count} demo exams with ${jobsToSend.length} clips (processing in the background).`);
+  log(`Seeded ${count} demo exams with ${jobsToSend.length} clips (processing in the background); ${reviewed} already reviewed.`);
   return count;
+}
+
+/** Plausible invented scores: mostly at the ideal level, sometimes one step off. */
+function demoScores(rubric: Rubric, applicationCode: string, rand: () => number): Scores {
+  const scores: Scores = {};
+  for (const c of criteriaFor(rubric.criteria, applicationCode)) {
+    if (c.kind === "number") continue;
+    const ideal = c.levels.filter((l) => l.ideal);
+    const other = c.levels.filter((l) => !l.ideal && !l.fails);
+    const roll = rand();
+    const level =
+      roll < 0.7 || other.length === 0
+        ? ideal[Math.floor(rand() * ideal.length)]
+        : roll < 0.95
+          ? other[Math.floor(rand() * other.length)]
+          : c.levels[c.levels.length - 1];
+    scores[c.key] = (level ?? c.levels[0]).value;
+  }
+  return scores;
+}
+
+const DEMO_COMMENTS = [
+  "Good windows. Bring the depth up so the target fills the screen.",
+  "Clear standard views. Label each clip with its view and side.",
+  "Gain is a little high: fluid should be black. Otherwise well done.",
+  "Solid study. Fan through the whole organ before recording.",
+  "Orientation marker flipped on one view; check the screen marker before recording.",
+];
+
+/**
+ * Queues every submitted demo exam and reviews the older half through the same services
+ * the API uses, so the demo starts with feedback, a double read or two, and history.
+ */
+async function reviewSome(
+  db: Db,
+  programId: string,
+  submitted: { id: string; setting: string; performedAt: Date; sonographerId: string }[],
+  rand: () => number,
+): Promise<number> {
+  const reviewers = await db("memberships as m")
+    .join("users as u", "u.id", "m.user_id")
+    .where("m.program_id", programId)
+    .whereRaw(`'reviewer' = ANY(m.roles)`)
+    .orderBy("u.email")
+    .select("u.id");
+  let reviewed = 0;
+  await db.transaction(async (trx) => {
+    const settings = await getSettings(trx, programId);
+    const rubric = (await activeRubricFor(trx, programId))!;
+    const byAge = [...submitted].sort((a, b) => a.performedAt.getTime() - b.performedAt.getTime());
+    for (const [i, s] of byAge.entries()) {
+      await queueSubmittedExam(trx, { id: s.id, program_id: programId, setting: s.setting }, settings.doubleReadShare);
+      if (i >= Math.ceil(byAge.length * 0.6)) continue;
+      const exam = (await examContext(trx, programId, s.id))!;
+      const assignments = await trx("assignments").where("exam_id", s.id).orderBy("kind", "desc").select("id", "kind");
+      const eligible = reviewers.filter((r) => r.id !== s.sonographerId);
+      if (eligible.length < assignments.length) continue;
+      for (const [k, a] of assignments.entries()) {
+        const reviewerId = eligible[(i + k) % eligible.length].id;
+        const reads = exam.sonographerReads.map((r) => ({
+          key: r.key,
+          read: (rand() < 0.9 ? r.read : r.read === "positive" ? "negative" : "positive") as FindingRead,
+        }));
+        const at = new Date(Math.min(Date.now() - 3600_000, s.performedAt.getTime() + (1 + k + rand() * 2) * 86400_000));
+        await trx("assignments").where("id", a.id).update({ rubric_id: rubric.id });
+        await recordReview(trx, {
+          reviewerId,
+          assignment: a,
+          exam,
+          rubric,
+          body: {
+            scores: demoScores(rubric, exam.application_code, rand),
+            reads,
+            feedback: DEMO_COMMENTS[(i + k) % DEMO_COMMENTS.length],
+            timeSpentSeconds: 60 + Math.floor(rand() * 240),
+          },
+          settings,
+          at,
+        });
+      }
+      reviewed++;
+    }
+  });
+  return reviewed;
 }

@@ -38,7 +38,8 @@ export function describeFailure(err: unknown): string {
 
 /** Same retention rule as at submission, for clips finished after their exam was sent (imports, the demo). */
 async function dropOriginalIfSubmitted(ctx: ClipJobContext, clipId: string) {
-  const [row] = await ctx.db("clips as c")
+  const [row] = await ctx
+    .db("clips as c")
     .join("exams as e", "e.id", "c.exam_id")
     .where("c.id", clipId)
     .whereNot("e.status", "draft")

@@ -35,7 +35,10 @@ export async function startMediaWorker(deps: { db: Db; storage: Storage; config:
     { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 },
     async (jobs: PgBoss.JobWithMetadata<ClipJob>[]) => {
       for (const job of jobs) {
-        await processClipJob({ db, storage, log, originalRetention: config.originalRetention }, job.data, { retryCount: job.retryCount, retryLimit: job.retryLimit });
+        await processClipJob({ db, storage, log, originalRetention: config.originalRetention }, job.data, {
+          retryCount: job.retryCount,
+          retryLimit: job.retryLimit,
+        });
       }
     },
   );

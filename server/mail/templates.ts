@@ -37,7 +37,14 @@ export function replyMail(p: { to: string; name: string; code: string; body: str
   return { to: p.to, subject: `A question about exam ${p.code}`, text, html: htmlOf(text) };
 }
 
-export function overdueDigestMail(p: { to: string; name: string; programName: string; hours: number; rows: { application: string; count: number }[]; link: string }): MailMessage {
+export function overdueDigestMail(p: {
+  to: string;
+  name: string;
+  programName: string;
+  hours: number;
+  rows: { application: string; count: number }[];
+  link: string;
+}): MailMessage {
   const total = p.rows.reduce((s, r) => s + r.count, 0);
   const lines = p.rows.map((r) => `  ${r.application}: ${r.count}`).join("\n");
   const text = `Hello ${p.name},\n\n${total} exam read(s) in ${p.programName} have waited longer than the program's turnaround target of ${p.hours} hours:\n${lines}\n\nOpen the queue:\n${p.link}\n\n${footer}`;

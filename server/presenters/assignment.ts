@@ -26,7 +26,18 @@ export function presentAssignment(a: AssignmentRow) {
 }
 
 export function presentBlindedExam(p: {
-  exam: { id: string; code: string; performed_at: Date; setting: string; transducer: string; preset: string; indication: string; app_code: string; app_name: string; sonographer_name: string };
+  exam: {
+    id: string;
+    code: string;
+    performed_at: Date;
+    setting: string;
+    transducer: string;
+    preset: string;
+    indication: string;
+    app_code: string;
+    app_name: string;
+    sonographer_name: string;
+  };
   clips: ClipRow[];
   views: { key: string; label: string }[];
   findings: { key: string; label: string }[];

@@ -54,9 +54,25 @@ export async function getRubric(db: Q, programId: string, id: string): Promise<R
 
 /** Every rubric version of the program, newest first, without criteria. */
 export async function listRubrics(db: Q, programId: string) {
-  const rows = await db("rubrics").where("program_id", programId).orderBy([{ column: "name" }, { column: "version", order: "desc" }]);
-  const counts = await db("rubric_criteria").whereIn("rubric_id", rows.map((r) => r.id)).groupBy("rubric_id").select("rubric_id").count<{ rubric_id: string; count: string }[]>("* as count");
-  const uses = await db("reviews").whereIn("rubric_id", rows.map((r) => r.id)).groupBy("rubric_id").select("rubric_id").count<{ rubric_id: string; count: string }[]>("* as count");
+  const rows = await db("rubrics")
+    .where("program_id", programId)
+    .orderBy([{ column: "name" }, { column: "version", order: "desc" }]);
+  const counts = await db("rubric_criteria")
+    .whereIn(
+      "rubric_id",
+      rows.map((r) => r.id),
+    )
+    .groupBy("rubric_id")
+    .select("rubric_id")
+    .count<{ rubric_id: string; count: string }[]>("* as count");
+  const uses = await db("reviews")
+    .whereIn(
+      "rubric_id",
+      rows.map((r) => r.id),
+    )
+    .groupBy("rubric_id")
+    .select("rubric_id")
+    .count<{ rubric_id: string; count: string }[]>("* as count");
   return rows.map((r: RubricRow) => ({
     ...present(r, []),
     criteriaCount: Number(counts.find((c) => c.rubric_id === r.id)?.count ?? 0),

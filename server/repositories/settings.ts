@@ -11,6 +11,8 @@ export async function getSettings(db: Db | Knex.Transaction, programId: string):
 
 export async function updateSettings(db: Db | Knex.Transaction, programId: string, changes: Partial<ProgramSettings>): Promise<ProgramSettings> {
   const next = programSettingsSchema.parse({ ...(await getSettings(db, programId)), ...changes });
-  await db("programs").where("id", programId).update({ settings: JSON.stringify(next) });
+  await db("programs")
+    .where("id", programId)
+    .update({ settings: JSON.stringify(next) });
   return next;
 }

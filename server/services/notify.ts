@@ -8,21 +8,49 @@ import { feedbackReadyMail, overdueDigestMail, replyMail } from "../mail/templat
 export type AfterCommit = () => Promise<void>;
 
 /** The sonographer's feedback is final: a notification now, an e-mail after commit. */
-export async function feedbackReady(trx: Knex.Transaction, mailer: Mailer, appUrl: string, exam: { id: string; program_id: string; sonographer_id: string; code: string }): Promise<AfterCommit> {
+export async function feedbackReady(
+  trx: Knex.Transaction,
+  mailer: Mailer,
+  appUrl: string,
+  exam: { id: string; program_id: string; sonographer_id: string; code: string },
+): Promise<AfterCommit> {
   const app = await trx("exams as e").join("applications as a", "a.id", "e.application_id").where("e.id", exam.id).first("a.name");
   const user = await trx("users").where("id", exam.sonographer_id).first("email", "name");
-  await trx("notifications").insert({ program_id: exam.program_id, user_id: exam.sonographer_id, kind: "feedback_ready", exam_id: exam.id, body: `Feedback on your ${app.name} exam ${exam.code} is ready.` });
-  return () => mailer.send(feedbackReadyMail({ to: user.email, name: user.name, application: app.name, code: exam.code, link: `${appUrl}/feedback/${exam.id}` }));
+  await trx("notifications").insert({
+    program_id: exam.program_id,
+    user_id: exam.sonographer_id,
+    kind: "feedback_ready",
+    exam_id: exam.id,
+    body: `Feedback on your ${app.name} exam ${exam.code} is ready.`,
+  });
+  return () =>
+    mailer.send(feedbackReadyMail({ to: user.email, name: user.name, application: app.name, code: exam.code, link: `${appUrl}/feedback/${exam.id}` }));
 }
 
 /** A sonographer's question reaches every reviewer who read the exam. */
-export async function replyPosted(trx: Knex.Transaction, mailer: Mailer, appUrl: string, exam: { id: string; program_id: string; code: string }, body: string): Promise<AfterCommit> {
+export async function replyPosted(
+  trx: Knex.Transaction,
+  mailer: Mailer,
+  appUrl: string,
+  exam: { id: string; program_id: string; code: string },
+  body: string,
+): Promise<AfterCommit> {
   const reviewers = await trx("reviews as r").join("users as u", "u.id", "r.reviewer_id").where("r.exam_id", exam.id).distinct("u.id", "u.email", "u.name");
   if (reviewers.length) {
-    await trx("notifications").insert(reviewers.map((r) => ({ program_id: exam.program_id, user_id: r.id, kind: "feedback_reply", exam_id: exam.id, body: `A question about exam ${exam.code}.` })));
+    await trx("notifications").insert(
+      reviewers.map((r) => ({
+        program_id: exam.program_id,
+        user_id: r.id,
+        kind: "feedback_reply",
+        exam_id: exam.id,
+        body: `A question about exam ${exam.code}.`,
+      })),
+    );
   }
   return async () => {
-    await Promise.all(reviewers.map((r) => mailer.send(replyMail({ to: r.email, name: r.name, code: exam.code, body, link: `${appUrl}/reviews/exams/${exam.id}` }))));
+    await Promise.all(
+      reviewers.map((r) => mailer.send(replyMail({ to: r.email, name: r.name, code: exam.code, body, link: `${appUrl}/reviews/exams/${exam.id}` }))),
+    );
   };
 }
 
@@ -43,9 +71,23 @@ export async function sendOverdueDigests(db: Db, mailer: Mailer, appUrl: string)
       .select("ap.name")
       .count<{ name: string; count: string }[]>("* as count");
     if (overdue.length === 0) continue;
-    const reviewers = await db("memberships as m").join("users as u", "u.id", "m.user_id").where("m.program_id", p.id).whereNull("m.deactivated_at").whereRaw(`'reviewer' = ANY(m.roles)`).select("u.email", "u.name");
+    const reviewers = await db("memberships as m")
+      .join("users as u", "u.id", "m.user_id")
+      .where("m.program_id", p.id)
+      .whereNull("m.deactivated_at")
+      .whereRaw(`'reviewer' = ANY(m.roles)`)
+      .select("u.email", "u.name");
     for (const r of reviewers) {
-      await mailer.send(overdueDigestMail({ to: r.email, name: r.name, programName: p.name, hours, rows: overdue.map((o) => ({ application: o.name, count: Number(o.count) })), link: `${appUrl}/queue` }));
+      await mailer.send(
+        overdueDigestMail({
+          to: r.email,
+          name: r.name,
+          programName: p.name,
+          hours,
+          rows: overdue.map((o) => ({ application: o.name, count: Number(o.count) })),
+          link: `${appUrl}/queue`,
+        }),
+      );
       sent++;
     }
   }

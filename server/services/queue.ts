@@ -22,7 +22,14 @@ export const priorityOf = (setting: string) => (setting === "clinical" ? 0 : 1);
 export async function queueSubmittedExam(trx: Knex.Transaction, exam: { id: string; program_id: string; setting: string }, doubleReadShare: number) {
   const double = sampledForSecondRead(exam.id, doubleReadShare);
   const base = { program_id: exam.program_id, exam_id: exam.id, priority: priorityOf(exam.setting), due_at: trx.fn.now() };
-  await trx("assignments").insert(double ? [{ ...base, kind: "primary" }, { ...base, kind: "second" }] : [{ ...base, kind: "primary" }]);
+  await trx("assignments").insert(
+    double
+      ? [
+          { ...base, kind: "primary" },
+          { ...base, kind: "second" },
+        ]
+      : [{ ...base, kind: "primary" }],
+  );
   await trx("exams").where("id", exam.id).update({ status: "in_review", double_read: double });
   return { double };
 }
@@ -57,7 +64,11 @@ export async function claimNext(db: Db, o: ClaimOptions): Promise<{ id: string; 
       .where((q) => q.whereNull("a.assigned_to").orWhere("a.assigned_to", o.reviewerId))
       .whereNot("e.sonographer_id", o.reviewerId)
       .whereNotExists(function () {
-        this.from("assignments as b").whereRaw("b.exam_id = a.exam_id").andWhere("b.reviewer_id", o.reviewerId).whereNot("b.state", "cancelled").whereRaw("b.id <> a.id");
+        this.from("assignments as b")
+          .whereRaw("b.exam_id = a.exam_id")
+          .andWhere("b.reviewer_id", o.reviewerId)
+          .whereNot("b.state", "cancelled")
+          .whereRaw("b.id <> a.id");
       })
       .orderBy([{ column: "a.priority" }, { column: "a.due_at" }, { column: "a.created_at" }, { column: "a.id" }])
       .limit(1)

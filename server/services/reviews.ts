@@ -48,7 +48,14 @@ export async function settleExam(
   trx: Knex.Transaction,
   rubric: Rubric,
   exam: ExamContext,
-  final: { scores: Scores; reads: Read[]; source: "single_read" | "double_read_agreed" | "adjudicated"; decidedBy: string | null; note?: string; reviewId?: string | null },
+  final: {
+    scores: Scores;
+    reads: Read[];
+    source: "single_read" | "double_read_agreed" | "adjudicated";
+    decidedBy: string | null;
+    note?: string;
+    reviewId?: string | null;
+  },
   settings: ProgramSettings,
 ) {
   const { credit, significant } = assessRead(rubric, exam, final.scores, final.reads, settings);
@@ -68,7 +75,15 @@ export async function settleExam(
     .merge();
   const ref = new Map(final.reads.map((r) => [r.key, r.read]));
   await trx("finding_outcomes").where("exam_id", exam.id).delete();
-  const rows = exam.sonographerReads.filter((r) => ref.has(r.key)).map((r) => ({ exam_id: exam.id, finding_key: r.key, sonographer_read: r.read, reference_read: ref.get(r.key)!, outcome: outcome(r.read, ref.get(r.key)!) }));
+  const rows = exam.sonographerReads
+    .filter((r) => ref.has(r.key))
+    .map((r) => ({
+      exam_id: exam.id,
+      finding_key: r.key,
+      sonographer_read: r.read,
+      reference_read: ref.get(r.key)!,
+      outcome: outcome(r.read, ref.get(r.key)!),
+    }));
   if (rows.length) await trx("finding_outcomes").insert(rows);
   if (significant.length) {
     await trx("follow_ups").insert({
@@ -79,7 +94,14 @@ export async function settleExam(
     });
   }
   await trx("exams").where("id", exam.id).update({ status: "reviewed", updated_at: trx.fn.now() });
-  await audit(trx, { programId: exam.program_id, actorUserId: final.decidedBy, action: "exam.result_final", entityType: "exam", entityId: exam.id, details: { source: final.source, credit, significant } });
+  await audit(trx, {
+    programId: exam.program_id,
+    actorUserId: final.decidedBy,
+    action: "exam.result_final",
+    entityType: "exam",
+    entityId: exam.id,
+    details: { source: final.source, credit, significant },
+  });
   return { credit, significant };
 }
 
@@ -88,8 +110,17 @@ export async function settleExam(
  * adjudication. Rule when a double read agrees within every tolerance: the primary read
  * stands as the final (documented in the README).
  */
-export async function resolveAfterRead(trx: Knex.Transaction, rubric: Rubric, exam: ExamContext, settings: ProgramSettings): Promise<"final" | "waiting" | "adjudication"> {
-  const reads = await trx("reviews as r").join("assignments as a", "a.id", "r.assignment_id").where("r.exam_id", exam.id).whereIn("a.kind", ["primary", "second"]).select("r.*", "a.kind");
+export async function resolveAfterRead(
+  trx: Knex.Transaction,
+  rubric: Rubric,
+  exam: ExamContext,
+  settings: ProgramSettings,
+): Promise<"final" | "waiting" | "adjudication"> {
+  const reads = await trx("reviews as r")
+    .join("assignments as a", "a.id", "r.assignment_id")
+    .where("r.exam_id", exam.id)
+    .whereIn("a.kind", ["primary", "second"])
+    .select("r.*", "a.kind");
   if (!exam.double_read) {
     const r = reads[0];
     await settleExam(trx, rubric, exam, { scores: r.scores, reads: r.reads, source: "single_read", decidedBy: null, reviewId: r.id }, settings);
@@ -101,12 +132,79 @@ export async function resolveAfterRead(trx: Knex.Transaction, rubric: Rubric, ex
   // Both reads are compared under the primary's rubric version.
   const diff = disagreements(rubric.criteria, exam.application_code, primary, second);
   if (diff.length === 0) {
-    await settleExam(trx, rubric, exam, { scores: primary.scores, reads: primary.reads, source: "double_read_agreed", decidedBy: null, reviewId: primary.id }, settings);
+    await settleExam(
+      trx,
+      rubric,
+      exam,
+      { scores: primary.scores, reads: primary.reads, source: "double_read_agreed", decidedBy: null, reviewId: primary.id },
+      settings,
+    );
     return "final";
   }
-  await trx("assignments").insert({ program_id: exam.program_id, exam_id: exam.id, kind: "adjudication", priority: 0, due_at: trx.fn.now(), rubric_id: rubric.id });
+  await trx("assignments").insert({
+    program_id: exam.program_id,
+    exam_id: exam.id,
+    kind: "adjudication",
+    priority: 0,
+    due_at: trx.fn.now(),
+    rubric_id: rubric.id,
+  });
   await trx("exams").where("id", exam.id).update({ status: "adjudication", updated_at: trx.fn.now() });
-  await audit(trx, { programId: exam.program_id, actorUserId: null, action: "exam.sent_to_adjudication", entityType: "exam", entityId: exam.id, details: { disagreements: diff.map((d) => d.key) } });
+  await audit(trx, {
+    programId: exam.program_id,
+    actorUserId: null,
+    action: "exam.sent_to_adjudication",
+    entityType: "exam",
+    entityId: exam.id,
+    details: { disagreements: diff.map((d) => d.key) },
+  });
   return "adjudication";
 }
 
+/** Stores a submitted read (already validated), closes its assignment and settles what follows. */
+export async function recordReview(
+  trx: Knex.Transaction,
+  r: {
+    reviewerId: string;
+    assignment: { id: string; kind: string };
+    exam: ExamContext;
+    rubric: Rubric;
+    body: { scores: Scores; reads: Read[]; feedback: string; timeSpentSeconds: number };
+    settings: ProgramSettings;
+    ip?: string;
+    at?: Date;
+  },
+) {
+  const { credit, significant } = assessRead(r.rubric, r.exam, r.body.scores, r.body.reads, r.settings);
+  const [review] = await trx("reviews")
+    .insert({
+      program_id: r.exam.program_id,
+      assignment_id: r.assignment.id,
+      exam_id: r.exam.id,
+      reviewer_id: r.reviewerId,
+      rubric_id: r.rubric.id,
+      scores: JSON.stringify(r.body.scores),
+      reads: JSON.stringify(r.body.reads),
+      feedback: r.body.feedback,
+      time_spent_seconds: r.body.timeSpentSeconds,
+      credit,
+      significant_disagreement: significant.length > 0,
+      ...(r.at ? { submitted_at: r.at } : {}),
+    })
+    .returning(["id", "submitted_at", "credit"]);
+  await trx("assignments")
+    .where("id", r.assignment.id)
+    .update({ state: "submitted", reviewer_id: r.reviewerId, submitted_at: r.at ?? trx.fn.now(), lease_expires_at: null });
+  await trx("review_drafts").where("assignment_id", r.assignment.id).delete();
+  await audit(trx, {
+    programId: r.exam.program_id,
+    actorUserId: r.reviewerId,
+    action: "review.submitted",
+    entityType: "review",
+    entityId: review.id,
+    ip: r.ip,
+    details: { examId: r.exam.id, assignment: r.assignment.kind, rubricVersion: r.rubric.version, scores: r.body.scores },
+  });
+  const examState = await resolveAfterRead(trx, r.rubric, r.exam, r.settings);
+  return { review: review as { id: string; submitted_at: Date; credit: boolean }, examState };
+}

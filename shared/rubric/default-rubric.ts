@@ -32,7 +32,11 @@ export const DEFAULT_CRITERIA: Criterion[] = [
     help: "Does the screen orientation follow the convention for this application?",
     kind: "yes_no",
     levels: [
-      lv("follows", "Follows convention", "The marker matches the screen: patient's right in transverse planes, the head in longitudinal planes (or the application's own convention)."),
+      lv(
+        "follows",
+        "Follows convention",
+        "The marker matches the screen: patient's right in transverse planes, the head in longitudinal planes (or the application's own convention).",
+      ),
       lv("does_not", "Does not follow", "The image is flipped or rotated against the convention.", true),
     ],
     min: null,

@@ -10,7 +10,8 @@ export interface ScoreIssue {
 }
 
 /** The criteria of a rubric that apply to an application, in display order. */
-export const criteriaFor = (criteria: Criterion[], applicationCode: string) => criteria.filter((c) => c.applications.length === 0 || c.applications.includes(applicationCode));
+export const criteriaFor = (criteria: Criterion[], applicationCode: string) =>
+  criteria.filter((c) => c.applications.length === 0 || c.applications.includes(applicationCode));
 
 /** Position of a level value in its criterion (0 = first listed), or -1. */
 export const levelIndex = (c: Criterion, v: ScoreValue | undefined) => c.levels.findIndex((l) => l.value === String(v));
@@ -21,7 +22,8 @@ export function scoreIssues(criteria: Criterion[], applicationCode: string, scor
   const applicable = criteriaFor(criteria, applicationCode);
   const byKey = new Map(applicable.map((c) => [c.key, c]));
   for (const key of Object.keys(scores)) {
-    if (!byKey.has(key)) issues.push({ path: `scores.${key}`, message: `"${key}" is not a criterion of this rubric (version ${rubricVersion}) for this application` });
+    if (!byKey.has(key))
+      issues.push({ path: `scores.${key}`, message: `"${key}" is not a criterion of this rubric (version ${rubricVersion}) for this application` });
   }
   for (const c of applicable) {
     const v = scores[c.key];
@@ -31,7 +33,8 @@ export function scoreIssues(criteria: Criterion[], applicationCode: string, scor
     }
     if (c.kind === "number") {
       if (typeof v !== "number" || !Number.isFinite(v)) issues.push({ path: `scores.${c.key}`, message: `${c.label} must be a number` });
-      else if ((c.min !== null && v < c.min) || (c.max !== null && v > c.max)) issues.push({ path: `scores.${c.key}`, message: `${c.label} must be between ${c.min ?? "-∞"} and ${c.max ?? "∞"}` });
+      else if ((c.min !== null && v < c.min) || (c.max !== null && v > c.max))
+        issues.push({ path: `scores.${c.key}`, message: `${c.label} must be between ${c.min ?? "-∞"} and ${c.max ?? "∞"}` });
     } else if (levelIndex(c, v) < 0) {
       issues.push({ path: `scores.${c.key}`, message: `${c.label}: "${v}" is not one of its levels (${c.levels.map((l) => l.value).join(", ")})` });
     }
@@ -85,7 +88,11 @@ export function outcome(sonographer: FindingRead, reference: FindingRead): Outco
  * the sonographer read definitely the other way from the reference (a false negative — a
  * possibly missed finding — or a false positive). Indeterminate reads are not counted.
  */
-export function significantDisagreement(setting: string, sonographerReads: { key: string; read: FindingRead }[], referenceReads: { key: string; read: FindingRead }[]): string[] {
+export function significantDisagreement(
+  setting: string,
+  sonographerReads: { key: string; read: FindingRead }[],
+  referenceReads: { key: string; read: FindingRead }[],
+): string[] {
   if (setting !== "clinical") return [];
   const ref = new Map(referenceReads.map((r) => [r.key, r.read]));
   return sonographerReads.filter((r) => ref.has(r.key) && ["FP", "FN"].includes(outcome(r.read, ref.get(r.key)!))).map((r) => r.key);
@@ -102,7 +109,13 @@ export const DEFAULT_CREDIT_RULE: CreditRule = { minQuality: 3 };
  * Credentialing credit (PRODUCT.md section 5 default): quality at or above the minimum, no
  * critical criterion at a failing level, and no clinically significant disagreement.
  */
-export function creditFor(criteria: Criterion[], applicationCode: string, scores: Scores, hasSignificantDisagreement: boolean, rule: CreditRule = DEFAULT_CREDIT_RULE): { credit: boolean; reasons: string[] } {
+export function creditFor(
+  criteria: Criterion[],
+  applicationCode: string,
+  scores: Scores,
+  hasSignificantDisagreement: boolean,
+  rule: CreditRule = DEFAULT_CREDIT_RULE,
+): { credit: boolean; reasons: string[] } {
   const reasons: string[] = [];
   const applicable = criteriaFor(criteria, applicationCode);
   const quality = applicable.find((c) => c.key === "quality");

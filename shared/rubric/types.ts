@@ -18,7 +18,10 @@ export type Level = z.infer<typeof levelSchema>;
 
 export const criterionSchema = z
   .object({
-    key: z.string().regex(/^[a-z][a-z0-9_]*$/, "Use lower-case letters, digits and _").max(40),
+    key: z
+      .string()
+      .regex(/^[a-z][a-z0-9_]*$/, "Use lower-case letters, digits and _")
+      .max(40),
     label: z.string().trim().min(1).max(80),
     help: z.string().max(600).default(""),
     kind: z.enum(CRITERION_KINDS),
@@ -36,7 +39,8 @@ export const criterionSchema = z
     if (c.kind !== "number" && c.levels.length < 2) ctx.addIssue({ code: "custom", path: ["levels"], message: "Give at least two levels" });
     if (c.kind === "yes_no" && c.levels.length !== 2) ctx.addIssue({ code: "custom", path: ["levels"], message: "A yes/no criterion has exactly two levels" });
     if (new Set(c.levels.map((l) => l.value)).size !== c.levels.length) ctx.addIssue({ code: "custom", path: ["levels"], message: "Level values must differ" });
-    if (c.kind === "number" && c.min !== null && c.max !== null && c.min > c.max) ctx.addIssue({ code: "custom", path: ["max"], message: "max must be at least min" });
+    if (c.kind === "number" && c.min !== null && c.max !== null && c.min > c.max)
+      ctx.addIssue({ code: "custom", path: ["max"], message: "max must be at least min" });
   });
 export type Criterion = z.infer<typeof criterionSchema>;
 

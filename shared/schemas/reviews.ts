@@ -12,7 +12,12 @@ export const submitReviewSchema = z.object({
   scores: z.record(z.string().max(40), scoreValueSchema),
   reads: z.array(readSchema).max(50).default([]),
   feedback: z.string().max(5000).default(""),
-  timeSpentSeconds: z.number().int().min(0).max(24 * 3600).default(0),
+  timeSpentSeconds: z
+    .number()
+    .int()
+    .min(0)
+    .max(24 * 3600)
+    .default(0),
 });
 export type SubmitReviewInput = z.input<typeof submitReviewSchema>;
 
@@ -20,7 +25,12 @@ export const reviewDraftSchema = z.object({
   scores: z.record(z.string().max(40), scoreValueSchema).default({}),
   reads: z.array(readSchema).max(50).default([]),
   feedback: z.string().max(5000).default(""),
-  timeSpentSeconds: z.number().int().min(0).max(24 * 3600).default(0),
+  timeSpentSeconds: z
+    .number()
+    .int()
+    .min(0)
+    .max(24 * 3600)
+    .default(0),
 });
 
 export const queueNextSchema = z.object({ application: z.string().max(40).optional() });
@@ -53,9 +63,19 @@ export const programSettingsSchema = z.object({
   /** Sonographers see the reviewer's name on their feedback. */
   showReviewerName: z.boolean().default(true),
   /** Work waiting longer than this is overdue (reviewer digest). */
-  turnaroundHours: z.number().int().min(1).max(24 * 60).default(72),
+  turnaroundHours: z
+    .number()
+    .int()
+    .min(1)
+    .max(24 * 60)
+    .default(72),
   /** How long a claim lasts before the exam returns to the queue. */
-  leaseMinutes: z.number().int().min(1).max(24 * 60).default(30),
+  leaseMinutes: z
+    .number()
+    .int()
+    .min(1)
+    .max(24 * 60)
+    .default(30),
   minQualityForCredit: z.number().int().min(1).max(5).default(3),
   /** Credited exams needed per application (demo default 25). */
   credentialingThreshold: z.number().int().min(1).max(1000).default(25),

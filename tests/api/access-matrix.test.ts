@@ -64,12 +64,22 @@ const examBody = () => ({
 const claimed = async (state: "open" | "claimed" = "claimed") => {
   const exam = await makeExam(kit.db, programId, members.sonographer.id, { status: "submitted" });
   const rubric = await kit.db("rubrics").where({ program_id: programId, status: "published" }).first("id");
-  const [a] = await kit.db("assignments")
-    .insert({ program_id: programId, exam_id: exam.id, kind: "primary", state, due_at: new Date(), rubric_id: rubric.id, ...(state === "claimed" ? { reviewer_id: members.reviewer.id, claimed_at: new Date(), lease_expires_at: new Date(Date.now() + 600_000) } : {}) })
+  const [a] = await kit
+    .db("assignments")
+    .insert({
+      program_id: programId,
+      exam_id: exam.id,
+      kind: "primary",
+      state,
+      due_at: new Date(),
+      rubric_id: rubric.id,
+      ...(state === "claimed" ? { reviewer_id: members.reviewer.id, claimed_at: new Date(), lease_expires_at: new Date(Date.now() + 600_000) } : {}),
+    })
     .returning("id");
   return { examId: exam.id, id: a.id as string };
 };
-const draftRubric = async () => kit.db.transaction((trx) => insertRubric(trx, { programId, version: 1, name: "Matrix draft", status: "draft", criteria: DEFAULT_CRITERIA.slice(0, 2) }));
+const draftRubric = async () =>
+  kit.db.transaction((trx) => insertRubric(trx, { programId, version: 1, name: "Matrix draft", status: "draft", criteria: DEFAULT_CRITERIA.slice(0, 2) }));
 const rubricBody = { name: "Matrix rubric", criteria: DEFAULT_CRITERIA.slice(0, 2) };
 const followUp = async () => {
   const exam = await makeExam(kit.db, programId, members.sonographer.id, { status: "submitted" });
@@ -158,15 +168,35 @@ const MATRIX: Row[] = [
   // The matrix program has nothing submitted for this reviewer to claim.
   { route: "POST /queue/next", call: fixed("/api/queue/next", {}), expect: only(["reviewer"], 204) },
   { route: "GET /assignments/:id", call: async () => ({ path: `/api/assignments/${(await claimed()).id}` }), expect: only(["reviewer"], 200) },
-  { route: "PUT /assignments/:id/draft", call: async () => ({ path: `/api/assignments/${(await claimed()).id}/draft`, body: { scores: { quality: "3" } } }), expect: only(["reviewer"], 200) },
+  {
+    route: "PUT /assignments/:id/draft",
+    call: async () => ({ path: `/api/assignments/${(await claimed()).id}/draft`, body: { scores: { quality: "3" } } }),
+    expect: only(["reviewer"], 200),
+  },
   { route: "POST /assignments/:id/release", call: async () => ({ path: `/api/assignments/${(await claimed()).id}/release` }), expect: only(["reviewer"], 204) },
   // Empty scores: the holder of the claim gets as far as validation.
-  { route: "POST /assignments/:id/review", call: async () => ({ path: `/api/assignments/${(await claimed()).id}/review`, body: { scores: {} } }), expect: only(["reviewer"], 400) },
-  { route: "POST /assignments/:id/reassign", call: async () => ({ path: `/api/assignments/${(await claimed("open")).id}/reassign`, body: { reviewerId: members.reviewer.id } }), expect: only(["qa_lead"], 200) },
+  {
+    route: "POST /assignments/:id/review",
+    call: async () => ({ path: `/api/assignments/${(await claimed()).id}/review`, body: { scores: {} } }),
+    expect: only(["reviewer"], 400),
+  },
+  {
+    route: "POST /assignments/:id/reassign",
+    call: async () => ({ path: `/api/assignments/${(await claimed("open")).id}/reassign`, body: { reviewerId: members.reviewer.id } }),
+    expect: only(["qa_lead"], 200),
+  },
   { route: "GET /adjudications", call: fixed("/api/adjudications"), expect: only(["qa_lead", "reviewer"], 200) },
-  { route: "POST /exams/:id/adjudicate", call: async () => ({ path: `/api/exams/${(await claimed("open")).examId}/adjudicate`, body: { scores: {} } }), expect: only(["qa_lead", "reviewer"], 409) },
+  {
+    route: "POST /exams/:id/adjudicate",
+    call: async () => ({ path: `/api/exams/${(await claimed("open")).examId}/adjudicate`, body: { scores: {} } }),
+    expect: only(["qa_lead", "reviewer"], 409),
+  },
   { route: "GET /follow-ups", call: fixed("/api/follow-ups"), expect: only(["qa_lead"], 200) },
-  { route: "PATCH /follow-ups/:id", call: async () => ({ path: `/api/follow-ups/${await followUp()}`, body: { status: "in_progress" } }), expect: only(["qa_lead"], 200) },
+  {
+    route: "PATCH /follow-ups/:id",
+    call: async () => ({ path: `/api/follow-ups/${await followUp()}`, body: { status: "in_progress" } }),
+    expect: only(["qa_lead"], 200),
+  },
   { route: "GET /snippets", call: fixed("/api/snippets"), expect: only(["qa_lead", "reviewer"], 200) },
   { route: "POST /snippets", call: fixed("/api/snippets", { text: "Fill the screen with the target." }), expect: only(["qa_lead"], 201) },
   { route: "DELETE /snippets/:id", call: async () => ({ path: `/api/snippets/${await snippet()}` }), expect: only(["qa_lead"], 204) },
@@ -183,7 +213,11 @@ const MATRIX: Row[] = [
   { route: "GET /me/feedback/:id", call: async () => ({ path: `/api/me/feedback/${(await ownExam()).id}` }), expect: only(["sonographer"], 404) },
   { route: "POST /exams/:id/acknowledge", call: async () => ({ path: `/api/exams/${(await ownExam()).id}/acknowledge` }), expect: only(["sonographer"], 404) },
   // Questions open once feedback is final: those who may see the exam meet 409, others 404.
-  { route: "POST /exams/:id/messages", call: async () => ({ path: `/api/exams/${(await ownExam()).id}/messages`, body: { body: "Why?" } }), expect: ownerOr(409, 409, 404) },
+  {
+    route: "POST /exams/:id/messages",
+    call: async () => ({ path: `/api/exams/${(await ownExam()).id}/messages`, body: { body: "Why?" } }),
+    expect: ownerOr(409, 409, 404),
+  },
   { route: "GET /notifications", call: fixed("/api/notifications"), expect: signedIn(200) },
   { route: "POST /notifications/read", call: fixed("/api/notifications/read", {}), expect: signedIn(204) },
 ];

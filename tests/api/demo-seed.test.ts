@@ -28,9 +28,15 @@ describe("demo exam seed", () => {
   it("seeds drafts and submitted exams whose clips end ready, with one failed clip, and only once", async () => {
     const p = await makeProgram(kit.db);
     await kit.db("applications").where("program_id", p.id).delete();
-    await insertCatalogue(kit.db, p.id, DEFAULT_CATALOGUE.filter((a) => ["dvt", "soft_tissue"].includes(a.code)));
+    await insertCatalogue(
+      kit.db,
+      p.id,
+      DEFAULT_CATALOGUE.filter((a) => ["dvt", "soft_tissue"].includes(a.code)),
+    );
     await makeMember(kit.db, p.id, ["sonographer"]);
     await makeMember(kit.db, p.id, ["sonographer", "reviewer"]);
+    await makeMember(kit.db, p.id, ["reviewer"]);
+    await makeMember(kit.db, p.id, ["reviewer", "qa_lead"]);
     const deps = { db: kit.db, storage: kit.storage, jobs: await kit.queue() };
     const n = await seedDemoExams(deps, { libraryDir: dir, programId: p.id, apps: ["dvt", "soft_tissue"], count: 12 });
     expect(n).toBe(12);
@@ -38,7 +44,20 @@ describe("demo exam seed", () => {
 
     const exams = await kit.db("exams").where("program_id", p.id);
     expect(exams.filter((e) => e.status === "draft")).toHaveLength(10);
-    expect(exams.filter((e) => e.status === "submitted")).toHaveLength(2);
+    const sent = exams.filter((e) => e.status !== "draft");
+    expect(sent).toHaveLength(2);
+    // The older sent exams are already reviewed through the real services (or await adjudication).
+    expect(sent.every((e) => ["reviewed", "adjudication"].includes(e.status))).toBe(true);
+    const results = await kit.db("exam_results").whereIn(
+      "exam_id",
+      sent.map((e) => e.id),
+    );
+    expect(results.length).toBe(sent.filter((e) => e.status === "reviewed").length);
+    const reviews = await kit.db("reviews").whereIn(
+      "exam_id",
+      sent.map((e) => e.id),
+    );
+    expect(reviews.every((r) => r.reviewer_id !== sent.find((e) => e.id === r.exam_id)!.sonographer_id)).toBe(true);
     expect(new Set(exams.map((e) => e.sonographer_id)).size).toBe(2);
 
     const settled = async () => kit.db("clips").where("program_id", p.id).whereIn("state", ["queued", "processing"]).count<{ c: string }[]>("* as c");

@@ -178,7 +178,11 @@ export function registerExamRoutes(kit: RouteKit, { db, storage, config, log }: 
           .where("id", exam.id)
           .update({ status: "submitted", submitted_at: trx.fn.now(), attested_at: trx.fn.now(), updated_at: trx.fn.now() });
         const settings = await getSettings(trx, user.programId);
-        const { double } = await queueSubmittedExam(trx, { id: exam.id, program_id: exam.program_id, setting: (await trx("exams").where("id", exam.id).first("setting")).setting }, settings.doubleReadShare);
+        const { double } = await queueSubmittedExam(
+          trx,
+          { id: exam.id, program_id: exam.program_id, setting: (await trx("exams").where("id", exam.id).first("setting")).setting },
+          settings.doubleReadShare,
+        );
         await audit(trx, {
           programId: user.programId,
           actorUserId: user.id,

@@ -22,24 +22,43 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log 
       .where({ "e.program_id": user.programId, "e.sonographer_id": user.id, "e.status": "reviewed" });
 
   async function feedbackDetail(user: AuthUser, examId: string) {
-    const row = await reviewedOwn(user).where("e.id", examId).first("e.*", "ap.code as app_code", "ap.name as app_name", "r.scores", "r.reads", "r.credit", "r.source", "r.decided_at", "r.rubric_id", "r.note");
+    const row = await reviewedOwn(user)
+      .where("e.id", examId)
+      .first("e.*", "ap.code as app_code", "ap.name as app_name", "r.scores", "r.reads", "r.credit", "r.source", "r.decided_at", "r.rubric_id", "r.note");
     if (!row) throw notFound("Feedback");
     const [rubric, settings, reviews, outcomes, snippets, messages] = await Promise.all([
       getRubric(db, user.programId, row.rubric_id),
       getSettings(db, user.programId),
-      db("reviews as v").join("users as u", "u.id", "v.reviewer_id").where("v.exam_id", examId).orderBy("v.submitted_at").select("u.name", "v.feedback", "v.submitted_at"),
-      db("finding_outcomes as o").join("application_findings as f", function () {
-        this.on("f.key", "=", "o.finding_key").andOnVal("f.application_id", "=", row.application_id);
-      }).where("o.exam_id", examId).select("o.finding_key as key", "f.label", "o.sonographer_read as yourRead", "o.reference_read as referenceRead", "o.outcome"),
+      db("reviews as v")
+        .join("users as u", "u.id", "v.reviewer_id")
+        .where("v.exam_id", examId)
+        .orderBy("v.submitted_at")
+        .select("u.name", "v.feedback", "v.submitted_at"),
+      db("finding_outcomes as o")
+        .join("application_findings as f", function () {
+          this.on("f.key", "=", "o.finding_key").andOnVal("f.application_id", "=", row.application_id);
+        })
+        .where("o.exam_id", examId)
+        .select("o.finding_key as key", "f.label", "o.sonographer_read as yourRead", "o.reference_read as referenceRead", "o.outcome"),
       db("snippets").where("program_id", user.programId).select("criterion_key", "text"),
-      db("feedback_messages as m").join("users as u", "u.id", "m.author_id").where("m.exam_id", examId).orderBy("m.created_at").select("m.id", "m.body", "m.created_at", "u.name", "m.author_id"),
+      db("feedback_messages as m")
+        .join("users as u", "u.id", "m.author_id")
+        .where("m.exam_id", examId)
+        .orderBy("m.created_at")
+        .select("m.id", "m.body", "m.created_at", "u.name", "m.author_id"),
     ]);
     const criteria = rubric ? criteriaFor(rubric.criteria, row.app_code) : [];
     const scored = criteria.map((c) => {
       const value = row.scores[c.key];
       const level = c.levels.find((l) => l.value === String(value));
       const nextSteps = level && !level.ideal ? [c.help, ...snippets.filter((s) => s.criterion_key === c.key).map((s) => s.text)].filter(Boolean) : [];
-      return { key: c.key, label: c.label, value: value ?? null, level: level ? { label: level.label, anchor: level.anchor, ideal: level.ideal, fails: level.fails } : null, nextSteps };
+      return {
+        key: c.key,
+        label: c.label,
+        value: value ?? null,
+        level: level ? { label: level.label, anchor: level.anchor, ideal: level.ideal, fails: level.fails } : null,
+        nextSteps,
+      };
     });
     return {
       examId: row.id,
@@ -53,10 +72,17 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log 
       rubricVersion: rubric?.version ?? null,
       criteria: scored,
       findings: outcomes,
-      comments: reviews.filter((r) => r.feedback).map((r) => ({ reviewer: settings.showReviewerName ? r.name : null, text: r.feedback, at: r.submitted_at.toISOString() })),
+      comments: reviews
+        .filter((r) => r.feedback)
+        .map((r) => ({ reviewer: settings.showReviewerName ? r.name : null, text: r.feedback, at: r.submitted_at.toISOString() })),
       adjudicationNote: row.note || null,
       acknowledgedAt: row.feedback_acknowledged_at?.toISOString() ?? null,
-      messages: messages.map((m) => ({ id: m.id, body: m.body, at: m.created_at.toISOString(), author: m.author_id === user.id ? "you" : settings.showReviewerName ? m.name : "Reviewer" })),
+      messages: messages.map((m) => ({
+        id: m.id,
+        body: m.body,
+        at: m.created_at.toISOString(),
+        author: m.author_id === user.id ? "you" : settings.showReviewerName ? m.name : "Reviewer",
+      })),
     };
   }
 
@@ -125,10 +151,25 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log 
       const access = await assertCanView(db, user, exam);
       if (exam!.status !== "reviewed") throw new HttpError(409, "not_reviewed", "Questions open once the feedback is final");
       const after = await db.transaction(async (trx) => {
-        const [m] = await trx("feedback_messages").insert({ program_id: user.programId, exam_id: exam!.id, author_id: user.id, body: body.body }).returning(["id", "created_at"]);
-        await audit(trx, { programId: user.programId, actorUserId: user.id, action: "feedback.message_posted", entityType: "exam", entityId: exam!.id, ip: req.ip });
+        const [m] = await trx("feedback_messages")
+          .insert({ program_id: user.programId, exam_id: exam!.id, author_id: user.id, body: body.body })
+          .returning(["id", "created_at"]);
+        await audit(trx, {
+          programId: user.programId,
+          actorUserId: user.id,
+          action: "feedback.message_posted",
+          entityType: "exam",
+          entityId: exam!.id,
+          ip: req.ip,
+        });
         if (access === "owner") return { id: m.id, task: await replyPosted(trx, mailer, config.appUrl, exam!, body.body) };
-        await trx("notifications").insert({ program_id: user.programId, user_id: exam!.sonographer_id, kind: "feedback_answer", exam_id: exam!.id, body: `An answer about exam ${exam!.code}.` });
+        await trx("notifications").insert({
+          program_id: user.programId,
+          user_id: exam!.sonographer_id,
+          kind: "feedback_answer",
+          exam_id: exam!.id,
+          body: `An answer about exam ${exam!.code}.`,
+        });
         return { id: m.id, task: null };
       });
       if (after.task) await runAfterCommit([after.task], log);
@@ -144,8 +185,14 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log 
     access: "signed_in",
     responses: { 200: { description: "Notifications" } },
     handler: async ({ user }) => {
-      const rows = await db("notifications").where({ user_id: user.id, program_id: user.programId }).orderByRaw("read_at IS NOT NULL, created_at DESC").limit(100);
-      return { items: rows.map((n) => ({ id: n.id, kind: n.kind, examId: n.exam_id, body: n.body, read: n.read_at !== null, createdAt: n.created_at.toISOString() })), unread: rows.filter((n) => !n.read_at).length };
+      const rows = await db("notifications")
+        .where({ user_id: user.id, program_id: user.programId })
+        .orderByRaw("read_at IS NOT NULL, created_at DESC")
+        .limit(100);
+      return {
+        items: rows.map((n) => ({ id: n.id, kind: n.kind, examId: n.exam_id, body: n.body, read: n.read_at !== null, createdAt: n.created_at.toISOString() })),
+        unread: rows.filter((n) => !n.read_at).length,
+      };
     },
   });
 

@@ -7,7 +7,7 @@ import { HttpError, notFound } from "../../http/errors";
 import { idParamsSchema } from "../../../shared/schemas/common";
 import { queueNextSchema, reassignSchema, reviewDraftSchema, submitReviewSchema } from "../../../shared/schemas/reviews";
 import { claimNext } from "../../services/queue";
-import { assertValidReview, assessRead, resolveAfterRead } from "../../services/reviews";
+import { assertValidReview, recordReview } from "../../services/reviews";
 import { feedbackReady, runAfterCommit, type AfterCommit } from "../../services/notify";
 import { examContext, examDetail } from "../../repositories/exams";
 import { getRubric } from "../../repositories/rubrics";
@@ -24,7 +24,8 @@ async function ownClaim(db: Db | Knex.Transaction, user: AuthUser, id: string, l
   const a = await q;
   if (!a || (a.reviewer_id !== user.id && a.assigned_to !== user.id)) throw notFound("Assignment");
   if (a.state === "submitted") throw new HttpError(409, "already_submitted", "This review has already been submitted");
-  if (a.state !== "claimed" || a.reviewer_id !== user.id) throw new HttpError(409, "not_claimed", "You no longer hold this exam: the claim expired and it went back to the queue");
+  if (a.state !== "claimed" || a.reviewer_id !== user.id)
+    throw new HttpError(409, "not_claimed", "You no longer hold this exam: the claim expired and it went back to the queue");
   return a;
 }
 
@@ -37,8 +38,16 @@ export function registerQueueRoutes(kit: RouteKit, { db, config, mailer, log }: 
     const [settings, rubric, views, findings, draft, snippets] = await Promise.all([
       getSettings(db, user.programId),
       a.rubric_id ? getRubric(db, user.programId, a.rubric_id) : undefined,
-      db("application_views as v").join("exams as e", "e.application_id", "v.application_id").where("e.id", a.exam_id).orderBy("v.position").select("v.key", "v.label"),
-      db("application_findings as f").join("exams as e", "e.application_id", "f.application_id").where("e.id", a.exam_id).orderBy("f.position").select("f.key", "f.label"),
+      db("application_views as v")
+        .join("exams as e", "e.application_id", "v.application_id")
+        .where("e.id", a.exam_id)
+        .orderBy("v.position")
+        .select("v.key", "v.label"),
+      db("application_findings as f")
+        .join("exams as e", "e.application_id", "f.application_id")
+        .where("e.id", a.exam_id)
+        .orderBy("f.position")
+        .select("f.key", "f.label"),
       db("review_drafts").where("assignment_id", a.id).first("data", "updated_at"),
       db("snippets").where("program_id", user.programId).orderBy("created_at").select("id", "criterion_key as criterionKey", "text"),
     ]);
@@ -70,13 +79,23 @@ export function registerQueueRoutes(kit: RouteKit, { db, config, mailer, log }: 
         .where((q) => q.whereNull("a.assigned_to").orWhere("a.assigned_to", user.id))
         .whereNot("e.sonographer_id", user.id)
         .whereNotExists(function () {
-          this.from("assignments as b").whereRaw("b.exam_id = a.exam_id").andWhere("b.reviewer_id", user.id).whereNot("b.state", "cancelled").whereRaw("b.id <> a.id");
+          this.from("assignments as b")
+            .whereRaw("b.exam_id = a.exam_id")
+            .andWhere("b.reviewer_id", user.id)
+            .whereNot("b.state", "cancelled")
+            .whereRaw("b.id <> a.id");
         });
       const [waiting, held] = await Promise.all([
         waitingBase
           .clone()
           .groupBy("ap.code", "ap.name", "e.setting")
-          .select("ap.code", "ap.name", "e.setting", db.raw("count(*)::int as count"), db.raw("extract(epoch from now() - min(a.due_at))::int as oldest_seconds")),
+          .select(
+            "ap.code",
+            "ap.name",
+            "e.setting",
+            db.raw("count(*)::int as count"),
+            db.raw("extract(epoch from now() - min(a.due_at))::int as oldest_seconds"),
+          ),
         db("assignments as a")
           .join("exams as e", "e.id", "a.exam_id")
           .join("applications as ap", "ap.id", "e.application_id")
@@ -85,7 +104,12 @@ export function registerQueueRoutes(kit: RouteKit, { db, config, mailer, log }: 
           .select("a.id", "a.kind", "a.claimed_at", "a.lease_expires_at", "a.due_at", "e.code", "ap.name as application"),
       ]);
       return {
-        waiting: waiting.map((w) => ({ application: { code: w.code, name: w.name }, setting: w.setting, count: w.count, oldestWaitingSeconds: w.oldest_seconds })),
+        waiting: waiting.map((w) => ({
+          application: { code: w.code, name: w.name },
+          setting: w.setting,
+          count: w.count,
+          oldestWaitingSeconds: w.oldest_seconds,
+        })),
         held: held.map((h) => ({ ...presentAssignment(h as AssignmentRow), examCode: h.code, application: h.application })),
       };
     },
@@ -101,9 +125,21 @@ export function registerQueueRoutes(kit: RouteKit, { db, config, mailer, log }: 
     responses: { 200: { description: "The claimed assignment and its blinded exam" }, 204: { description: "Nothing waiting" } },
     handler: async ({ req, res, user, body }) => {
       const settings = await getSettings(db, user.programId);
-      const claimed = await claimNext(db, { programId: user.programId, reviewerId: user.id, leaseMinutes: settings.leaseMinutes, application: body.application });
+      const claimed = await claimNext(db, {
+        programId: user.programId,
+        reviewerId: user.id,
+        leaseMinutes: settings.leaseMinutes,
+        application: body.application,
+      });
       if (!claimed) return void res.status(204).end();
-      await audit(db, { programId: user.programId, actorUserId: user.id, action: "assignment.claimed", entityType: "assignment", entityId: claimed.id, ip: req.ip });
+      await audit(db, {
+        programId: user.programId,
+        actorUserId: user.id,
+        action: "assignment.claimed",
+        entityType: "assignment",
+        entityId: claimed.id,
+        ip: req.ip,
+      });
       return workspace(user, claimed.id);
     },
   });
@@ -136,7 +172,10 @@ export function registerQueueRoutes(kit: RouteKit, { db, config, mailer, log }: 
           .insert({ assignment_id: params.id, data: JSON.stringify({ ...body, reviewerId: user.id }), updated_at: trx.fn.now() })
           .onConflict("assignment_id")
           .merge();
-        const [a] = await trx("assignments").where("id", params.id).update({ lease_expires_at: trx.raw(`now() + make_interval(mins => ?)`, [settings.leaseMinutes]) }).returning("lease_expires_at");
+        const [a] = await trx("assignments")
+          .where("id", params.id)
+          .update({ lease_expires_at: trx.raw(`now() + make_interval(mins => ?)`, [settings.leaseMinutes]) })
+          .returning("lease_expires_at");
         return { savedAt: new Date().toISOString(), leaseExpiresAt: a.lease_expires_at.toISOString() };
       }),
   });
@@ -154,7 +193,14 @@ export function registerQueueRoutes(kit: RouteKit, { db, config, mailer, log }: 
         await ownClaim(trx, user, params.id, true);
         await trx("assignments").where("id", params.id).update({ state: "open", reviewer_id: null, claimed_at: null, lease_expires_at: null });
         await trx("review_drafts").where("assignment_id", params.id).delete();
-        await audit(trx, { programId: user.programId, actorUserId: user.id, action: "assignment.released", entityType: "assignment", entityId: params.id, ip: req.ip });
+        await audit(trx, {
+          programId: user.programId,
+          actorUserId: user.id,
+          action: "assignment.released",
+          entityType: "assignment",
+          entityId: params.id,
+          ip: req.ip,
+        });
       });
     },
   });
@@ -179,32 +225,18 @@ export function registerQueueRoutes(kit: RouteKit, { db, config, mailer, log }: 
         const rubric = await getRubric(trx, user.programId, a.rubric_id);
         if (!rubric) throw new HttpError(409, "no_rubric", "The rubric of this assignment is missing");
         if (body.rubricId && body.rubricId !== rubric.id) {
-          throw new HttpError(400, "validation_failed", `rubricId: these scores were made under another rubric version; this exam is scored under version ${rubric.version}`, [{ path: "rubricId", message: "Another rubric version" }]);
+          throw new HttpError(
+            400,
+            "validation_failed",
+            `rubricId: these scores were made under another rubric version; this exam is scored under version ${rubric.version}`,
+            [{ path: "rubricId", message: "Another rubric version" }],
+          );
         }
         assertValidReview(rubric, exam, body.scores, body.reads);
         const settings = await getSettings(trx, user.programId);
-        const { credit, significant } = assessRead(rubric, exam, body.scores, body.reads, settings);
-        const [review] = await trx("reviews")
-          .insert({
-            program_id: user.programId,
-            assignment_id: a.id,
-            exam_id: exam.id,
-            reviewer_id: user.id,
-            rubric_id: rubric.id,
-            scores: JSON.stringify(body.scores),
-            reads: JSON.stringify(body.reads),
-            feedback: body.feedback,
-            time_spent_seconds: body.timeSpentSeconds,
-            credit,
-            significant_disagreement: significant.length > 0,
-          })
-          .returning(["id", "submitted_at"]);
-        await trx("assignments").where("id", a.id).update({ state: "submitted", submitted_at: trx.fn.now(), lease_expires_at: null });
-        await trx("review_drafts").where("assignment_id", a.id).delete();
-        await audit(trx, { programId: user.programId, actorUserId: user.id, action: "review.submitted", entityType: "review", entityId: review.id, ip: req.ip, details: { examId: exam.id, assignment: a.kind, rubricVersion: rubric.version, scores: body.scores } });
-        const examState = await resolveAfterRead(trx, rubric, exam, settings);
+        const { review, examState } = await recordReview(trx, { reviewerId: user.id, assignment: a, exam, rubric, body, settings, ip: req.ip });
         if (examState === "final") after.push(await feedbackReady(trx, mailer, config.appUrl, exam));
-        return { review: { id: review.id, submittedAt: review.submitted_at.toISOString(), credit }, examState };
+        return { review: { id: review.id, submittedAt: review.submitted_at.toISOString(), credit: review.credit }, examState };
       });
       await runAfterCommit(after, log);
       res.status(201).json(result);
@@ -225,17 +257,35 @@ export function registerQueueRoutes(kit: RouteKit, { db, config, mailer, log }: 
         const a = await trx("assignments").where({ id: params.id, program_id: user.programId }).forUpdate().first();
         if (!a) throw notFound("Assignment");
         if (a.state === "submitted" || a.state === "cancelled") throw new HttpError(409, "not_open", `This read is ${a.state}`);
-        const reviewer = await trx("memberships").where({ user_id: body.reviewerId, program_id: user.programId }).whereNull("deactivated_at").whereRaw(`'reviewer' = ANY(roles)`).first("user_id");
+        const reviewer = await trx("memberships")
+          .where({ user_id: body.reviewerId, program_id: user.programId })
+          .whereNull("deactivated_at")
+          .whereRaw(`'reviewer' = ANY(roles)`)
+          .first("user_id");
         if (!reviewer) throw new HttpError(400, "validation_failed", "reviewerId: not an active reviewer of this program");
         const exam = await trx("exams").where("id", a.exam_id).first("sonographer_id");
         if (exam.sonographer_id === body.reviewerId) throw new HttpError(409, "own_exam", "reviewerId: a reviewer never reads their own exam");
-        const other = await trx("assignments").where("exam_id", a.exam_id).whereNot("id", a.id).whereNot("state", "cancelled").where((q) => q.where("reviewer_id", body.reviewerId).orWhere("assigned_to", body.reviewerId)).first("id");
+        const other = await trx("assignments")
+          .where("exam_id", a.exam_id)
+          .whereNot("id", a.id)
+          .whereNot("state", "cancelled")
+          .where((q) => q.where("reviewer_id", body.reviewerId).orWhere("assigned_to", body.reviewerId))
+          .first("id");
         if (other) throw new HttpError(409, "already_reading", "reviewerId: this reviewer already reads this exam; reads must be independent");
-        await trx("assignments").where("id", a.id).update({ state: "open", reviewer_id: null, claimed_at: null, lease_expires_at: null, assigned_to: body.reviewerId });
+        await trx("assignments")
+          .where("id", a.id)
+          .update({ state: "open", reviewer_id: null, claimed_at: null, lease_expires_at: null, assigned_to: body.reviewerId });
         await trx("review_drafts").where("assignment_id", a.id).delete();
-        await audit(trx, { programId: user.programId, actorUserId: user.id, action: "assignment.reassigned", entityType: "assignment", entityId: a.id, ip: req.ip, details: { from: a.reviewer_id ?? a.assigned_to, to: body.reviewerId } });
+        await audit(trx, {
+          programId: user.programId,
+          actorUserId: user.id,
+          action: "assignment.reassigned",
+          entityType: "assignment",
+          entityId: a.id,
+          ip: req.ip,
+          details: { from: a.reviewer_id ?? a.assigned_to, to: body.reviewerId },
+        });
         return { id: a.id, assignedTo: body.reviewerId };
       }),
   });
-
 }

@@ -46,7 +46,14 @@ export function registerRubricRoutes(kit: RouteKit, { db }: RouteContext) {
     responses: { 201: { description: "Created", schema: z.object({ rubric: rubricSchema }) } },
     handler: async ({ req, res, user, body }) => {
       const id = await db.transaction(async (trx) => {
-        const id = await insertRubric(trx, { programId: user.programId, version: 1, name: body.name, status: "draft", criteria: body.criteria, createdBy: user.id });
+        const id = await insertRubric(trx, {
+          programId: user.programId,
+          version: 1,
+          name: body.name,
+          status: "draft",
+          criteria: body.criteria,
+          createdBy: user.id,
+        });
         await audit(trx, { programId: user.programId, actorUserId: user.id, action: "rubric.created", entityType: "rubric", entityId: id, ip: req.ip });
         return id;
       });
@@ -71,14 +78,38 @@ export function registerRubricRoutes(kit: RouteKit, { db }: RouteContext) {
         if (row.status === "draft") {
           await trx("rubric_criteria").where("rubric_id", row.id).delete();
           await trx("rubrics").where("id", row.id).delete();
-          const id = await insertRubric(trx, { programId: user.programId, familyId: row.family_id, version: row.version, name: body.name, status: "draft", criteria: body.criteria, createdBy: user.id });
+          const id = await insertRubric(trx, {
+            programId: user.programId,
+            familyId: row.family_id,
+            version: row.version,
+            name: body.name,
+            status: "draft",
+            criteria: body.criteria,
+            createdBy: user.id,
+          });
           await audit(trx, { programId: user.programId, actorUserId: user.id, action: "rubric.draft_saved", entityType: "rubric", entityId: id, ip: req.ip });
           return id;
         }
         const [{ max }] = await trx("rubrics").where("family_id", row.family_id).max<{ max: number }[]>("version as max");
         await trx("rubrics").where("id", row.id).update({ status: "archived", archived_at: trx.fn.now() });
-        const id = await insertRubric(trx, { programId: user.programId, familyId: row.family_id, version: max + 1, name: body.name, status: "published", criteria: body.criteria, createdBy: user.id });
-        await audit(trx, { programId: user.programId, actorUserId: user.id, action: "rubric.new_version", entityType: "rubric", entityId: id, ip: req.ip, details: { from: row.version, to: max + 1 } });
+        const id = await insertRubric(trx, {
+          programId: user.programId,
+          familyId: row.family_id,
+          version: max + 1,
+          name: body.name,
+          status: "published",
+          criteria: body.criteria,
+          createdBy: user.id,
+        });
+        await audit(trx, {
+          programId: user.programId,
+          actorUserId: user.id,
+          action: "rubric.new_version",
+          entityType: "rubric",
+          entityId: id,
+          ip: req.ip,
+          details: { from: row.version, to: max + 1 },
+        });
         return id;
       });
       return { rubric: await getRubric(db, user.programId, id) };
@@ -106,7 +137,14 @@ export function registerRubricRoutes(kit: RouteKit, { db }: RouteContext) {
             if (row.status === "archived") throw new HttpError(409, "already_archived", "This version is already archived");
             await trx("rubrics").where("id", row.id).update({ status: "archived", archived_at: trx.fn.now() });
           }
-          await audit(trx, { programId: user.programId, actorUserId: user.id, action: action === "publish" ? "rubric.published" : "rubric.archived", entityType: "rubric", entityId: row.id, ip: req.ip });
+          await audit(trx, {
+            programId: user.programId,
+            actorUserId: user.id,
+            action: action === "publish" ? "rubric.published" : "rubric.archived",
+            entityType: "rubric",
+            entityId: row.id,
+            ip: req.ip,
+          });
         });
         return { rubric: await getRubric(db, user.programId, params.id) };
       },
