@@ -24,7 +24,8 @@ export interface SubmitResult {
   examState: "final" | "waiting" | "adjudication";
 }
 
-const invalidateQueue = (qc: QueryClient) => Promise.all([qc.invalidateQueries({ queryKey: queueKeys.overview() }), qc.invalidateQueries({ queryKey: ["home"] })]);
+const invalidateQueue = (qc: QueryClient) =>
+  Promise.all([qc.invalidateQueries({ queryKey: queueKeys.overview() }), qc.invalidateQueries({ queryKey: ["home"] })]);
 
 export function useWorkspace(assignmentId: string) {
   return useQuery(workspaceQuery(assignmentId));

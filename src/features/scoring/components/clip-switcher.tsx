@@ -9,7 +9,17 @@ export function clipTitle(clip: ReviewClip, index: number, views: { key: string;
   return `Clip ${index + 1}${view ? `: ${view}` : ""}`;
 }
 
-export function ClipSwitcher({ clips, current, views, onSelect }: { clips: ReviewClip[]; current: number; views: { key: string; label: string }[]; onSelect: (i: number) => void }) {
+export function ClipSwitcher({
+  clips,
+  current,
+  views,
+  onSelect,
+}: {
+  clips: ReviewClip[];
+  current: number;
+  views: { key: string; label: string }[];
+  onSelect: (i: number) => void;
+}) {
   if (clips.length < 2) return null;
   return (
     <nav aria-label="Clips of this exam" className="border-t border-ink-800 px-2 py-2">

@@ -91,10 +91,10 @@ export function ClipViewer({ clip, label, handle }: { clip: ReviewClip; label: s
               e.currentTarget.playbackRate = speed;
               if (Number.isFinite(e.currentTarget.duration)) setDuration(e.currentTarget.duration);
             }}
-            className="max-h-[58vh] w-full object-contain"
+            className="max-h-[46vh] w-full object-contain"
           />
         ) : clip.media.image ? (
-          <img src={clip.media.image} alt={label} className="max-h-[58vh] w-full object-contain" />
+          <img src={clip.media.image} alt={label} className="max-h-[46vh] w-full object-contain" />
         ) : (
           <p className="p-6 text-sm text-ink-200">This clip has no playable media.</p>
         )}

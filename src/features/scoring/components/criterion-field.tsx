@@ -141,7 +141,17 @@ export function CriterionField({ criterion: c, position, value, error, onChange,
   );
 }
 
-function NumberInput({ criterion: c, value, labelledBy, onChange }: { criterion: Criterion; value: ScoreValue | undefined; labelledBy: string; onChange: (v: ScoreValue | undefined) => void }) {
+function NumberInput({
+  criterion: c,
+  value,
+  labelledBy,
+  onChange,
+}: {
+  criterion: Criterion;
+  value: ScoreValue | undefined;
+  labelledBy: string;
+  onChange: (v: ScoreValue | undefined) => void;
+}) {
   const range = c.min !== null && c.max !== null ? `${c.min} to ${c.max}` : c.min !== null ? `at least ${c.min}` : c.max !== null ? `at most ${c.max}` : null;
   return (
     <div className="clear-both mt-1 flex items-center gap-2">

@@ -62,7 +62,10 @@ export function FindingReadRow({ finding, value, invalid, onChange, onAdvance }:
             <label
               key={read}
               htmlFor={inputId}
-              className={"inline-flex cursor-pointer items-center gap-1 rounded px-1.5 py-0.5 text-sm " + (checked ? "bg-sea-50 font-semibold text-sea-800 ring-1 ring-sea-600" : "text-ink-900 hover:bg-paper-200")}
+              className={
+                "inline-flex cursor-pointer items-center gap-1 rounded px-1.5 py-0.5 text-sm " +
+                (checked ? "bg-sea-50 font-semibold text-sea-800 ring-1 ring-sea-600" : "text-ink-900 hover:bg-paper-200")
+              }
             >
               <input
                 id={inputId}

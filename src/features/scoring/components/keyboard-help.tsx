@@ -40,7 +40,7 @@ const GROUPS: { title: string; rows: [ReactNode, string][] }[] = [
         <span key="br" className="inline-flex gap-1">
           <Kbd>[</Kbd> <Kbd>]</Kbd>
         </span>,
-        "previous or next clip"
+        "previous or next clip",
       ],
       [
         <span key="sp" className="inline-flex gap-1">

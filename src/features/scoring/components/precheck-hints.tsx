@@ -35,7 +35,11 @@ function hints(p: Precheck, transducer: BlindedExam["transducer"]): string[] {
   if (shape && shape !== "unknown") {
     const match = typeof p.transducerMatch === "boolean" ? p.transducerMatch : shape === transducer;
     const recorded = TRANSDUCER_LABELS[transducer].toLowerCase();
-    out.push(match ? `Footprint ${SHAPE_WORDS[shape] ?? shape} fits the ${recorded} transducer recorded.` : `Footprint looks ${SHAPE_WORDS[shape] ?? shape}, but the exam records a ${recorded} transducer.`);
+    out.push(
+      match
+        ? `Footprint ${SHAPE_WORDS[shape] ?? shape} fits the ${recorded} transducer recorded.`
+        : `Footprint looks ${SHAPE_WORDS[shape] ?? shape}, but the exam records a ${recorded} transducer.`,
+    );
   }
   return out;
 }

@@ -9,7 +9,7 @@ export type SaveState =
   | { kind: "idle"; savedAt: string | null }
   | { kind: "pending" }
   | { kind: "saving" }
-  | { kind: "saved"; savedAt: string }
+  | { kind: "saved"; savedAt: string; leaseExpiresAt: string }
   | { kind: "failed"; message: string }
   | { kind: "lost"; message: string };
 
@@ -39,7 +39,7 @@ export function useDraftAutosave(assignmentId: string, body: () => DraftBody, ve
     setState({ kind: "saving" });
     try {
       const r = await saveDraft(assignmentId, bodyRef.current());
-      if (!stopped.current) setState((s) => (s.kind === "saving" ? { kind: "saved", savedAt: r.savedAt } : s));
+      if (!stopped.current) setState((s) => (s.kind === "saving" ? { kind: "saved", savedAt: r.savedAt, leaseExpiresAt: r.leaseExpiresAt } : s));
     } catch (error) {
       if (stopped.current) return;
       if (isApiError(error, 409) || isApiError(error, 404)) {

@@ -15,8 +15,8 @@ export function useFocusedSeconds(initial: number) {
 }
 
 /** Re-renders every second with the ref's value, for a small readout (keeps the big tree still). */
-export function useTicking(ref: { current: number }): number {
-  const [value, setValue] = useState(ref.current);
+export function useTicking(ref: { current: number }, initial: number): number {
+  const [value, setValue] = useState(initial);
   useEffect(() => {
     const timer = window.setInterval(() => setValue(ref.current), 1000);
     return () => window.clearInterval(timer);
