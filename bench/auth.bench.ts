@@ -21,7 +21,14 @@ const db = createDb(config.databaseUrl);
 try {
   await migrate(db);
   await seedDemoIfEmpty(db, 4);
-  const { app } = buildApp({ db, config, mailer: createMailer(config.smtp), storage: createLocalStorage(os.tmpdir()), jobs: { enqueueClip: async () => {} }, log: () => {} });
+  const { app } = buildApp({
+    db,
+    config,
+    mailer: createMailer(config.smtp),
+    storage: createLocalStorage(os.tmpdir()),
+    jobs: { enqueueClip: async () => {} },
+    log: () => {},
+  });
   const server = app.listen(0, "127.0.0.1");
   await new Promise((r) => server.once("listening", r));
   const port = (server.address() as { port: number }).port;

@@ -24,6 +24,8 @@ export interface Config {
   jsonBodyLimit: string;
   trustProxy: boolean | number;
   bcryptRounds: number;
+  /** When reviewers get the digest of overdue reads (cron, UTC). */
+  digestCron: string;
 }
 
 const DEV_JWT_SECRET = "soundings-development-secret-never-use-in-production";
@@ -103,6 +105,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     },
     jsonBodyLimit: env.JSON_BODY_LIMIT ?? "1mb",
     trustProxy: env.TRUST_PROXY ? (/^\d+$/.test(env.TRUST_PROXY) ? Number(env.TRUST_PROXY) : env.TRUST_PROXY === "true") : false,
+    digestCron: env.DIGEST_CRON ?? "0 7 * * *",
     bcryptRounds: int(env.BCRYPT_ROUNDS, mode === "test" ? 4 : 12, "BCRYPT_ROUNDS"),
   };
 }

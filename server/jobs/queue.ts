@@ -4,6 +4,8 @@ import PgBoss from "pg-boss";
 import type { Config } from "../config";
 
 export const CLIP_QUEUE = "clip-process";
+/** Daily e-mail to reviewers about reads waiting past the program's turnaround target. */
+export const DIGEST_QUEUE = "reviewer-digest";
 
 export interface ClipJob {
   clipId: string;
@@ -18,13 +20,14 @@ export interface JobQueue {
 }
 
 /** Connects to the queue schema (created on first start) and makes sure the queues exist. */
-export async function createJobQueue(config: Config, opts: { supervise?: boolean; log?: (e: unknown) => void } = {}): Promise<JobQueue> {
+export async function createJobQueue(config: Config, opts: { supervise?: boolean; schedule?: boolean; log?: (e: unknown) => void } = {}): Promise<JobQueue> {
   const boss = new PgBoss({
     connectionString: config.databaseUrl,
     application_name: "soundings-jobs",
     schema: config.jobs.schema,
     max: 4,
-    schedule: false,
+    // pg-boss runs each cron once across every worker that shares the queue.
+    schedule: opts.schedule ?? false,
     supervise: opts.supervise ?? true,
     maintenanceIntervalSeconds: 30,
   });
@@ -37,6 +40,7 @@ export async function createJobQueue(config: Config, opts: { supervise?: boolean
     expireInSeconds: config.jobs.expireInSeconds,
   };
   await boss.createQueue(CLIP_QUEUE, { name: CLIP_QUEUE, ...retry });
+  await boss.createQueue(DIGEST_QUEUE, { name: DIGEST_QUEUE, retryLimit: 2, retryDelay: 60 });
   return {
     boss,
     async enqueueClip(job) {

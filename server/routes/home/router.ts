@@ -49,14 +49,70 @@ export function registerHomeRoutes(kit: RouteKit, { db }: RouteContext) {
         });
       }
       if (user.roles.includes("reviewer")) {
-        sections.push({ role: "reviewer", title: "Your reviews", cards: [] });
+        const [[waiting], [held], [handed]] = await Promise.all([
+          db("assignments as a")
+            .join("exams as e", "e.id", "a.exam_id")
+            .where("a.program_id", pid)
+            .whereIn("a.kind", ["primary", "second"])
+            .where((q) => q.where("a.state", "open").orWhere((q2) => q2.where("a.state", "claimed").andWhere("a.lease_expires_at", "<=", db.fn.now())))
+            .where((q) => q.whereNull("a.assigned_to").orWhere("a.assigned_to", user.id))
+            .whereNot("e.sonographer_id", user.id)
+            .whereNotExists(function () {
+              this.from("assignments as b")
+                .whereRaw("b.exam_id = a.exam_id")
+                .andWhere("b.reviewer_id", user.id)
+                .whereNot("b.state", "cancelled")
+                .whereRaw("b.id <> a.id");
+            })
+            .count<{ c: string }[]>("* as c"),
+          db("assignments")
+            .where({ program_id: pid, reviewer_id: user.id, state: "claimed" })
+            .andWhere("lease_expires_at", ">", db.fn.now())
+            .count<{ c: string }[]>("* as c"),
+          db("assignments")
+            .where({ program_id: pid, kind: "adjudication", assigned_to: user.id })
+            .whereIn("state", ["open", "claimed"])
+            .count<{ c: string }[]>("* as c"),
+        ]);
+        sections.push({
+          role: "reviewer",
+          title: "Your reviews",
+          cards: [
+            { key: "queue_waiting", label: "Exams waiting for a read", count: Number(waiting.c), href: "/queue", hint: null },
+            {
+              key: "claims_held",
+              label: "Exams you hold",
+              count: Number(held.c),
+              href: "/queue",
+              hint: Number(held.c) ? "Finish or release them before the claim runs out" : null,
+            },
+            ...(Number(handed.c)
+              ? [{ key: "adjudications_handed", label: "Adjudications handed to you", count: Number(handed.c), href: "/oversight/adjudication", hint: null }]
+              : []),
+          ],
+        });
       }
       if (user.roles.includes("qa_lead")) {
-        const [reviewers, sonographers] = await Promise.all([countRole("reviewer"), countRole("sonographer")]);
+        const [reviewers, sonographers, [adjudications], [followUps], [backlog]] = await Promise.all([
+          countRole("reviewer"),
+          countRole("sonographer"),
+          db("assignments").where({ program_id: pid, kind: "adjudication" }).whereIn("state", ["open", "claimed"]).count<{ c: string }[]>("* as c"),
+          db("follow_ups").where("program_id", pid).whereNot("status", "closed").count<{ c: string }[]>("* as c"),
+          db("exams").where("program_id", pid).whereIn("status", ["submitted", "in_review", "adjudication"]).count<{ c: string }[]>("* as c"),
+        ]);
         sections.push({
           role: "qa_lead",
           title: "Your program",
           cards: [
+            { key: "adjudications", label: "Double reads to adjudicate", count: Number(adjudications.c), href: "/oversight/adjudication", hint: null },
+            {
+              key: "follow_ups",
+              label: "Follow-ups not closed",
+              count: Number(followUps.c),
+              href: "/oversight/follow-ups",
+              hint: Number(followUps.c) ? "Clinically significant disagreements; a patient may need a callback" : null,
+            },
+            { key: "backlog", label: "Exams waiting for their final result", count: Number(backlog.c), href: null, hint: null },
             { key: "reviewers", label: "Active reviewers", count: reviewers, href: "/setup/people", hint: null },
             { key: "sonographers", label: "Active sonographers", count: sonographers, href: "/setup/people", hint: null },
           ],
