@@ -125,6 +125,31 @@ export const router = createBrowserRouter([
                 loader: requireRoles(["qa_lead"]),
                 lazy: page(() => import("../features/oversight/routes/follow-ups")),
               },
+              {
+                path: "setup/rubrics",
+                loader: requireRoles(["qa_lead"]),
+                lazy: page(() => import("../features/rubrics/routes/rubrics")),
+              },
+              {
+                path: "setup/rubrics/new",
+                loader: requireRoles(["qa_lead"]),
+                lazy: page(() => import("../features/rubrics/routes/rubric-editor")),
+              },
+              {
+                path: "setup/rubrics/:id",
+                loader: requireRoles(["qa_lead"]),
+                lazy: page(() => import("../features/rubrics/routes/rubric-editor")),
+              },
+              {
+                path: "setup/snippets",
+                loader: requireRoles(["qa_lead"]),
+                lazy: page(() => import("../features/settings/routes/snippets")),
+              },
+              {
+                path: "setup/settings",
+                loader: requireRoles(["qa_lead", "admin"]),
+                lazy: page(() => import("../features/settings/routes/program-settings")),
+              },
               { path: "setup/applications", lazy: page(() => import("../features/applications/routes/applications")) },
               { path: "account/password", lazy: page(() => import("../features/auth/routes/change-password")) },
               { path: "*", lazy: page(() => import("./not-found-page")) },

@@ -40,8 +40,11 @@ export const NAV_GROUPS: NavGroup[] = [
   {
     label: "Setup",
     items: [
+      { to: "/setup/rubrics", label: "Rubrics", roles: ["qa_lead"] },
+      { to: "/setup/snippets", label: "Snippets", roles: ["qa_lead"] },
       { to: "/setup/people", label: "People", roles: ["admin", "qa_lead"] },
       { to: "/setup/applications", label: "Applications", roles: ["admin", "qa_lead"] },
+      { to: "/setup/settings", label: "Program settings", roles: ["admin", "qa_lead"] },
       { to: "/setup/audit", label: "Audit log", roles: ["admin"] },
     ],
   },
