@@ -37,7 +37,9 @@ export async function up(knex: Knex): Promise<void> {
   await knex.raw(`ALTER TABLE assignments ADD CONSTRAINT assignments_claim_consistent CHECK (
     (state = 'open' AND lease_expires_at IS NULL) OR (state = 'claimed' AND reviewer_id IS NOT NULL AND lease_expires_at IS NOT NULL) OR state IN ('submitted','cancelled'))`);
   // One read per reviewer per exam: a second read is always by someone else.
-  await knex.raw(`CREATE UNIQUE INDEX assignments_one_per_reviewer ON assignments (exam_id, reviewer_id) WHERE reviewer_id IS NOT NULL AND state <> 'cancelled'`);
+  await knex.raw(
+    `CREATE UNIQUE INDEX assignments_one_per_reviewer ON assignments (exam_id, reviewer_id) WHERE reviewer_id IS NOT NULL AND state <> 'cancelled'`,
+  );
   await knex.raw(`CREATE UNIQUE INDEX assignments_one_of_each_kind ON assignments (exam_id, kind) WHERE state <> 'cancelled'`);
 
   await knex.schema.createTable("reviews", (t) => {
@@ -141,7 +143,18 @@ export async function up(knex: Knex): Promise<void> {
 }
 
 export async function down(knex: Knex): Promise<void> {
-  for (const t of ["feedback_messages", "notifications", "snippets", "follow_ups", "finding_outcomes", "exam_results", "review_drafts", "reviews", "assignments"]) await knex.schema.dropTable(t);
+  for (const t of [
+    "feedback_messages",
+    "notifications",
+    "snippets",
+    "follow_ups",
+    "finding_outcomes",
+    "exam_results",
+    "review_drafts",
+    "reviews",
+    "assignments",
+  ])
+    await knex.schema.dropTable(t);
   await knex.schema.alterTable("exams", (t) => {
     t.dropColumn("double_read");
     t.dropColumn("feedback_acknowledged_at");

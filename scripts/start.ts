@@ -58,7 +58,10 @@ try {
   cleanups.push(() => runtime.close());
   if (await seedDemoIfEmpty(runtime.db)) console.log("Seeded the demo programs.");
   if (env.SEED_DEMO_EXAMS !== "false") {
-    await seedDemoExams({ db: runtime.db, storage: runtime.storage, jobs: runtime.queue }, { libraryDir: path.join(root, ".data", "demo-clips"), log: (s) => console.log(s) });
+    await seedDemoExams(
+      { db: runtime.db, storage: runtime.storage, jobs: runtime.queue },
+      { libraryDir: path.join(root, ".data", "demo-clips"), log: (s) => console.log(s) },
+    );
   }
 
   console.log("Building the client…");

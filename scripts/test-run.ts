@@ -65,14 +65,22 @@ try {
     if (!failures.includes("build")) {
       console.log("== Playwright (Debian Chromium)");
       const port = await freePort();
-      server = spawn(process.execPath, ["--import", "tsx", "server/index.ts"], { cwd: root, env: { ...env, PORT: String(port), APP_URL: `http://127.0.0.1:${port}`, LOGIN_RATE_MAX: "1000" }, stdio: ["ignore", "inherit", "inherit"] });
+      server = spawn(process.execPath, ["--import", "tsx", "server/index.ts"], {
+        cwd: root,
+        env: { ...env, PORT: String(port), APP_URL: `http://127.0.0.1:${port}`, LOGIN_RATE_MAX: "1000" },
+        stdio: ["ignore", "inherit", "inherit"],
+      });
       let up = false;
       for (let i = 0; i < 100 && !up; i++) {
         await new Promise((r) => setTimeout(r, 200));
-        up = await fetch(`http://127.0.0.1:${port}/api/health`).then((r) => r.ok, () => false);
+        up = await fetch(`http://127.0.0.1:${port}/api/health`).then(
+          (r) => r.ok,
+          () => false,
+        );
       }
       if (!up) failures.push("app server did not start");
-      else if ((await run(process.execPath, [bin("@playwright/test/cli.js"), "test"], { env: { ...env, BASE_URL: `http://127.0.0.1:${port}` } })) !== 0) failures.push("playwright");
+      else if ((await run(process.execPath, [bin("@playwright/test/cli.js"), "test"], { env: { ...env, BASE_URL: `http://127.0.0.1:${port}` } })) !== 0)
+        failures.push("playwright");
     }
   }
 } catch (err) {

@@ -86,15 +86,31 @@ export function startCluster(dir: string, port: number, database = "soundings"):
     asPostgres(path.join(bin, "initdb"), ["-D", dataDir, "-U", "postgres", "-A", "trust", "-E", "UTF8", "--no-locale"]);
   }
   const pidFile = path.join(dataDir, "postmaster.pid");
-  const running = fs.existsSync(pidFile) && spawnSync(isRoot ? "runuser" : path.join(bin, "pg_ctl"), isRoot ? ["-u", "postgres", "--", path.join(bin, "pg_ctl"), "-D", dataDir, "status"] : ["-D", dataDir, "status"]).status === 0;
+  const running =
+    fs.existsSync(pidFile) &&
+    spawnSync(
+      isRoot ? "runuser" : path.join(bin, "pg_ctl"),
+      isRoot ? ["-u", "postgres", "--", path.join(bin, "pg_ctl"), "-D", dataDir, "status"] : ["-D", dataDir, "status"],
+    ).status === 0;
   if (!running) {
     asPostgres(path.join(bin, "pg_ctl"), [
-      "-D", dataDir, "-l", path.join(dir, "postgres.log"), "-w", "-t", "60",
-      "-o", `-c listen_addresses=127.0.0.1 -p ${port} -k ${runDir} -c fsync=${process.env.PG_FSYNC ?? "on"}`,
+      "-D",
+      dataDir,
+      "-l",
+      path.join(dir, "postgres.log"),
+      "-w",
+      "-t",
+      "60",
+      "-o",
+      `-c listen_addresses=127.0.0.1 -p ${port} -k ${runDir} -c fsync=${process.env.PG_FSYNC ?? "on"}`,
       "start",
     ]);
   }
-  const exists = spawnSync(path.join(bin, "psql"), ["-h", "127.0.0.1", "-p", String(port), "-U", "postgres", "-tAc", `SELECT 1 FROM pg_database WHERE datname='${database}'`], { encoding: "utf8" });
+  const exists = spawnSync(
+    path.join(bin, "psql"),
+    ["-h", "127.0.0.1", "-p", String(port), "-U", "postgres", "-tAc", `SELECT 1 FROM pg_database WHERE datname='${database}'`],
+    { encoding: "utf8" },
+  );
   if (exists.status !== 0) throw new Error(`cannot reach the cluster on port ${port}: ${exists.stderr}`);
   if (exists.stdout.trim() !== "1") {
     execFileSync(path.join(bin, "createdb"), ["-h", "127.0.0.1", "-p", String(port), "-U", "postgres", database]);

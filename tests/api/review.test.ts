@@ -120,18 +120,16 @@ describe("blinding", () => {
   it("never shows a reviewer the sonographer's name, e-mail or id, nor their reads or upload names", async () => {
     const s = await setup(1);
     const exam = await queued(s);
-    await kit
-      .db("clips")
-      .insert({
-        exam_id: exam.id,
-        program_id: s.programId,
-        kind: "video",
-        state: "queued",
-        sha256: "a".repeat(64),
-        size_bytes: 1,
-        mime: "video/mp4",
-        original_name: `${s.sonographer.name}-scan.mp4`,
-      });
+    await kit.db("clips").insert({
+      exam_id: exam.id,
+      program_id: s.programId,
+      kind: "video",
+      state: "queued",
+      sha256: "a".repeat(64),
+      size_bytes: 1,
+      mime: "video/mp4",
+      original_name: `${s.sonographer.name}-scan.mp4`,
+    });
     const r = s.reviewers[0];
     const a = await next(r);
     const A = await auth(r);
