@@ -44,8 +44,9 @@ for (const demo of DEMO) {
     await expect(nav.getByRole("link", { name: "Audit log" })).toHaveCount(demo.seesAudit ? 1 : 0);
 
     if (demo.role === "reviewer") {
-      // Nothing is built yet for reviewers to wait on: the page says so instead of inventing work.
-      await expect(main.getByText("Nothing is waiting for you here right now.")).toBeVisible();
+      // The reviewer's counts lead to the queue.
+      await expect(main.getByRole("link", { name: /Exams waiting for a read/ })).toHaveAttribute("href", "/queue");
+      await expect(main.getByRole("link", { name: /Exams you hold/ })).toHaveAttribute("href", "/queue");
     } else if (demo.role === "sonographer") {
       // The sonographer's counts lead to My exams, already filtered (other tests may have added exams).
       const drafts = main.getByRole("link", { name: /Drafts not yet submitted/ });
