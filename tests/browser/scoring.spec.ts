@@ -29,9 +29,9 @@ async function signIn(page: Page, email: string) {
   await expect(page.getByRole("heading", { level: 1, name: "Home" })).toBeVisible();
 }
 
-async function shot(page: Page, testInfo: TestInfo, name: string) {
+async function shot(page: Page, testInfo: TestInfo, name: string, fullPage = true) {
   const file = path.join(testInfo.project.outputDir, `${name}.png`);
-  await page.screenshot({ path: file, fullPage: true });
+  await page.screenshot({ path: file, fullPage });
   await testInfo.attach(name, { path: file, contentType: "image/png" });
 }
 
@@ -91,6 +91,10 @@ test("a reviewer scores an exam with the keyboard alone and the sonographer read
     await expect(page.getByText("Blinded", { exact: true })).toBeVisible();
     const video = page.locator("video");
     await expect(video).toHaveAttribute("loop", "");
+    // → steps a frame (and pauses) even while a level radio has focus; the level stays unpicked.
+    await page.keyboard.press("ArrowRight");
+    await expect.poll(() => video.evaluate((v: HTMLVideoElement) => v.paused)).toBe(true);
+    await expect(page.getByText(/frame \d+ \/ \d+/)).toBeVisible();
 
     const rubric = page.getByRole("region", { name: /General image review/ });
     const criteria = rubric.getByRole("radiogroup");
@@ -118,10 +122,10 @@ test("a reviewer scores an exam with the keyboard alone and the sonographer read
       await expect(findings.nth(i).getByRole("radio", { name: i === 0 ? "Positive" : "Negative" })).toBeChecked();
       await page.keyboard.press("Tab");
     }
-    await expect(page.getByLabel("Feedback to the sonographer")).toBeFocused();
+    await expect(page.getByRole("textbox", { name: "Feedback to the sonographer" })).toBeFocused();
     await page.keyboard.type(FEEDBACK);
     await expect(page.getByRole("status").filter({ hasText: /^Saved \d/ })).toBeVisible({ timeout: 10_000 });
-    await shot(page, testInfo, "scoring-workspace");
+    await shot(page, testInfo, "scoring-workspace", false);
 
     await page.keyboard.press("Control+Enter");
     await expect(page).toHaveURL(/\/queue\?application=efast$/);
@@ -132,10 +136,10 @@ test("a reviewer scores an exam with the keyboard alone and the sonographer read
     await page.context().clearCookies();
     await signIn(page, SONOGRAPHER);
     await page.goto(`/feedback/${exam.id}`);
-    await expect(page.getByRole("heading", { name: exam.code })).toBeVisible();
+    await expect(page.getByRole("heading", { level: 1, name: exam.code })).toBeVisible();
     await expect(page.getByText(FEEDBACK)).toBeVisible();
-    await expect(page.getByText("Transducer and preset")).toBeVisible();
-    await expect(page.getByText("Suitable", { exact: true })).toBeVisible();
+    const transducer = page.getByRole("listitem").filter({ has: page.getByRole("heading", { name: "Transducer and preset" }) });
+    await expect(transducer.getByText("Suitable", { exact: true })).toBeVisible();
     await shot(page, testInfo, "scoring-feedback");
   } finally {
     await lead.patch("/api/settings", { data: { doubleReadShare: before } });

@@ -54,9 +54,13 @@ export function useReleaseAssignment(assignmentId: string) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: () => api<void>(`/assignments/${assignmentId}/release`, { method: "POST" }),
-    onSuccess: () => queryClient.removeQueries({ queryKey: queueKeys.workspace(assignmentId) }),
     onSettled: () => invalidateQueue(queryClient),
   });
+}
+
+/** Forgets a finished workspace (call once its screen has gone, so nothing re-reads it). */
+export function forgetWorkspace(queryClient: QueryClient, assignmentId: string) {
+  queryClient.removeQueries({ queryKey: queueKeys.workspace(assignmentId) });
 }
 
 /** POST …/review; then claims the next exam (same application filter) and warms its media. */
@@ -69,7 +73,6 @@ export function useSubmitAndNext(assignmentId: string) {
       return { result, next };
     },
     onSuccess: ({ next }) => {
-      queryClient.removeQueries({ queryKey: queueKeys.workspace(assignmentId) });
       if (next) {
         queryClient.setQueryData<Workspace>(queueKeys.workspace(next.assignment.id), next);
         prefetchWorkspaceMedia(next);

@@ -102,6 +102,8 @@ export function CriterionField({ criterion: c, position, value, error, onChange,
                   value={level.value}
                   data-level={i}
                   checked={checked}
+                  // One Tab stop per criterion (the chosen level, else the first), as in any radio group.
+                  tabIndex={checked || (chosen < 0 && i === 0) ? 0 : -1}
                   onChange={() => onChange(level.value)}
                   aria-labelledby={`${inputId}-name`}
                   aria-describedby={level.anchor ? `${inputId}-anchor` : undefined}

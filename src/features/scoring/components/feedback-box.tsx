@@ -48,9 +48,9 @@ export function FeedbackBox({ value, onChange, snippets, criteria, focusedCriter
   };
 
   return (
-    <section aria-labelledby={`${id}-heading`} className="space-y-2">
+    <div className="space-y-2">
       <div className="flex items-baseline justify-between gap-2">
-        <h2 id={`${id}-heading`} className="text-sm font-semibold uppercase tracking-wide text-slate-700">
+        <h2 className="text-sm font-semibold uppercase tracking-wide text-slate-700">
           <label htmlFor={FEEDBACK_STOP_ID}>Feedback to the sonographer</label>
         </h2>
         <span className="text-xs tabular-nums text-slate-600">
@@ -107,6 +107,6 @@ export function FeedbackBox({ value, onChange, snippets, criteria, focusedCriter
           </ul>
         </div>
       ) : null}
-    </section>
+    </div>
   );
 }

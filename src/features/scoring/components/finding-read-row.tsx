@@ -73,6 +73,7 @@ export function FindingReadRow({ finding, value, invalid, onChange, onAdvance }:
                 name={`read-${finding.key}`}
                 value={read}
                 checked={checked}
+                tabIndex={checked || (!value && read === "positive") ? 0 : -1}
                 onChange={() => onChange(read)}
                 aria-keyshortcuts={key.toUpperCase()}
                 className="size-3.5 accent-sea-600"

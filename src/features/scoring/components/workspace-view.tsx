@@ -3,6 +3,7 @@
 // (see keyboard-help.tsx); the draft autosaves; Ctrl+Enter submits and opens the next exam.
 import { useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { useNavigate } from "react-router-dom";
+import { useQueryClient } from "@tanstack/react-query";
 import { Keyboard, Send, Undo2 } from "lucide-react";
 import type { FindingRead } from "../../../../shared/catalogue";
 import type { ScoreValue, Scores } from "../../../../shared/rubric/types";
@@ -12,11 +13,11 @@ import { ConfirmDialog } from "../../../components/ui/dialog";
 import { FormMessage } from "../../../components/ui/form-message";
 import { Kbd } from "../../../components/ui/kbd";
 import { isApiError } from "../../../lib/api-client";
-import { hasCommandModifier, isTypingTarget } from "../../../lib/keyboard";
 import type { Workspace } from "../../../lib/review-workspace";
-import { useReleaseAssignment, useSubmitAndNext, type DraftBody } from "../api/scoring";
+import { forgetWorkspace, useReleaseAssignment, useSubmitAndNext, type DraftBody } from "../api/scoring";
 import { useDraftAutosave } from "../hooks/use-draft-autosave";
 import { useFocusedSeconds } from "../hooks/use-focused-seconds";
+import { useWorkspaceShortcuts } from "../hooks/use-workspace-shortcuts";
 import { ClipSwitcher, clipTitle } from "./clip-switcher";
 import { ClipViewer, type PlayerHandle } from "./clip-viewer";
 import { CriterionField, criterionStopId } from "./criterion-field";
@@ -69,6 +70,16 @@ export function WorkspaceView({ workspace, application, notice }: { workspace: W
   const player = useRef<PlayerHandle>(null);
   const submit = useSubmitAndNext(assignment.id);
   const release = useReleaseAssignment(assignment.id);
+  const queryClient = useQueryClient();
+  const finished = useRef(false);
+
+  // A submitted or released workspace is dropped from the cache once its screen is gone.
+  useEffect(() => {
+    const id = assignment.id;
+    return () => {
+      if (finished.current) forgetWorkspace(queryClient, id);
+    };
+  }, [assignment.id, queryClient]);
 
   const stops = useMemo(
     () => [...criteria.map((c) => criterionStopId(c.key)), ...exam.findings.map((f) => findingStopId(f.key)), FEEDBACK_STOP_ID],
@@ -143,6 +154,7 @@ export function WorkspaceView({ workspace, application, notice }: { workspace: W
       { body: { ...body(), rubricId: rubric.id }, application },
       {
         onSuccess: ({ next }) => {
+          finished.current = true;
           const query = application ? `?application=${encodeURIComponent(application)}` : "";
           if (next)
             void navigate(`/queue/${next.assignment.id}${query}`, {
@@ -169,62 +181,15 @@ export function WorkspaceView({ workspace, application, notice }: { workspace: W
       },
     );
   };
-  const submitRef = useRef(doSubmit);
-  useEffect(() => {
-    submitRef.current = doSubmit;
-  });
 
   const selectClip = useCallback((i: number) => setClipIndex(Math.min(Math.max(i, 0), Math.max(exam.clips.length - 1, 0))), [exam.clips.length]);
 
-  // Shortcuts that work anywhere in the workspace (the rubric's own keys live in its fields).
-  useEffect(() => {
-    const onKey = (e: KeyboardEvent) => {
-      if (document.querySelector("dialog[open]")) return;
-      if ((e.ctrlKey || e.metaKey) && e.key === "Enter") {
-        e.preventDefault();
-        submitRef.current();
-        return;
-      }
-      if (e.defaultPrevented || hasCommandModifier(e) || isTypingTarget(e.target)) return;
-      const target = e.target instanceof HTMLElement ? e.target : null;
-      const handled = () => e.preventDefault();
-      switch (e.key) {
-        case "?":
-          handled();
-          setHelpOpen(true);
-          break;
-        case " ":
-          if (target?.closest("button, a, select, summary, input[type=checkbox]")) return;
-          handled();
-          player.current?.togglePlay();
-          break;
-        case "ArrowLeft":
-        case "ArrowRight":
-          if (target?.closest("select")) return;
-          handled();
-          player.current?.step(e.key === "ArrowLeft" ? -1 : 1);
-          break;
-        case "[":
-        case "]":
-          handled();
-          setClipIndex((i) => Math.min(Math.max(i + (e.key === "[" ? -1 : 1), 0), Math.max(exam.clips.length - 1, 0)));
-          break;
-        case "-":
-        case "=":
-        case "+":
-          handled();
-          player.current?.changeSpeed(e.key === "-" ? -1 : 1);
-          break;
-        case "l":
-        case "L":
-          handled();
-          player.current?.toggleLoop();
-          break;
-      }
-    };
-    document.addEventListener("keydown", onKey);
-    return () => document.removeEventListener("keydown", onKey);
-  }, [exam.clips.length]);
+  useWorkspaceShortcuts({
+    player,
+    submit: doSubmit,
+    openHelp: () => setHelpOpen(true),
+    moveClip: (d) => setClipIndex((i) => Math.min(Math.max(i + d, 0), Math.max(exam.clips.length - 1, 0))),
+  });
 
   const clip = exam.clips[clipIndex];
   const title = clip ? clipTitle(clip, clipIndex, exam.views) : "";
@@ -382,7 +347,10 @@ export function WorkspaceView({ workspace, application, notice }: { workspace: W
         onConfirm={() => {
           autosave.cancel();
           release.mutate(undefined, {
-            onSuccess: () => void navigate("/queue", { replace: true, state: { notice: `Exam ${exam.code} went back to the queue.` } }),
+            onSuccess: () => {
+              finished.current = true;
+              void navigate("/queue", { replace: true, state: { notice: `Exam ${exam.code} went back to the queue.` } });
+            },
             onError: () => autosave.resume(),
           });
         }}
