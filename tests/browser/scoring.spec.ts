@@ -12,6 +12,9 @@ const PASSWORD = "soundings-demo";
 const LEAD = "lead@cedarhollow.example";
 const REVIEWER = "reviewer@cedarhollow.example";
 const SONOGRAPHER = "sonographer@cedarhollow.example";
+// Wide enough for the workspace's two columns, tall enough to see the clip and most of the rubric.
+test.use({ viewport: { width: 1440, height: 900 } });
+
 const FEEDBACK = "Fan through the whole pelvis before you freeze; the depth was set well.";
 
 async function apiAs(baseURL: string, email: string): Promise<APIRequestContext> {
@@ -125,6 +128,7 @@ test("a reviewer scores an exam with the keyboard alone and the sonographer read
     await expect(page.getByRole("textbox", { name: "Feedback to the sonographer" })).toBeFocused();
     await page.keyboard.type(FEEDBACK);
     await expect(page.getByRole("status").filter({ hasText: /^Saved \d/ })).toBeVisible({ timeout: 10_000 });
+    await page.evaluate(() => window.scrollTo(0, 0));
     await shot(page, testInfo, "scoring-workspace", false);
 
     await page.keyboard.press("Control+Enter");
