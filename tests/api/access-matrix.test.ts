@@ -218,6 +218,7 @@ const MATRIX: Row[] = [
     call: async () => ({ path: `/api/exams/${(await ownExam()).id}/messages`, body: { body: "Why?" } }),
     expect: ownerOr(409, 409, 404),
   },
+  { route: "GET /exams/:id/messages", call: async () => ({ path: `/api/exams/${(await ownExam()).id}/messages` }), expect: ownerOr(200, 200, 404) },
   { route: "GET /notifications", call: fixed("/api/notifications"), expect: signedIn(200) },
   { route: "POST /notifications/read", call: fixed("/api/notifications/read", {}), expect: signedIn(204) },
 ];

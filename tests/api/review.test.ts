@@ -203,6 +203,7 @@ describe("scoring and results", () => {
     expect(fb.status).toBe(200);
     expect(fb.body.criteria.find((c: { key: string }) => c.key === "quality").level.anchor).toMatch(/Good, with minor flaws/);
     expect(fb.body.comments[0]).toMatchObject({ text: "Well fanned views.", reviewer: s.reviewers[0].name });
+    expect(fb.body.creditReasons).toEqual(["Clinically significant disagreement in the interpretation"]);
   });
 
   it("gives credit by the program's rule: quality at least 3, no failing critical level", async () => {
@@ -386,6 +387,17 @@ describe("drafts, replies and digests", () => {
       .get("/api/notifications")
       .set("Authorization", await auth(s.reviewers[0]));
     expect(notes.body.unread).toBe(1);
+    const thread = await request(kit.app)
+      .get(`/api/exams/${exam.id}/messages`)
+      .set("Authorization", await auth(s.reviewers[0]));
+    expect(thread.body.items).toEqual([{ id: expect.any(String), body: "Which depth would you use here?", at: expect.any(String), author: "Sonographer" }]);
+    const answer = await request(kit.app)
+      .post(`/api/exams/${exam.id}/messages`)
+      .set("Authorization", await auth(s.reviewers[0]))
+      .send({ body: "Fit the whole pelvis, about 14 cm." });
+    expect(answer.status).toBe(201);
+    const mine = await request(kit.app).get(`/api/exams/${exam.id}/messages`).set("Authorization", S);
+    expect(mine.body.items.map((m: { author: string }) => m.author)).toEqual(["you", s.reviewers[0].name]);
   });
 
   it("mails reviewers a digest of reads waiting past the turnaround target", async () => {

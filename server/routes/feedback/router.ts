@@ -6,7 +6,7 @@ import type { RouteContext } from "../../app";
 import { HttpError, notFound } from "../../http/errors";
 import { idParamsSchema } from "../../../shared/schemas/common";
 import { messageInputSchema } from "../../../shared/schemas/reviews";
-import { criteriaFor } from "../../../shared/rubric/logic";
+import { creditFor, criteriaFor } from "../../../shared/rubric/logic";
 import { getRubric } from "../../repositories/rubrics";
 import { getSettings } from "../../repositories/settings";
 import { audit } from "../../repositories/audit";
@@ -48,6 +48,8 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log 
         .select("m.id", "m.body", "m.created_at", "u.name", "m.author_id"),
     ]);
     const criteria = rubric ? criteriaFor(rubric.criteria, row.app_code) : [];
+    const significant = row.setting === "clinical" && outcomes.some((o) => o.outcome === "FP" || o.outcome === "FN");
+    const creditReasons = rubric ? creditFor(rubric.criteria, row.app_code, row.scores, significant, { minQuality: settings.minQualityForCredit }).reasons : [];
     const scored = criteria.map((c) => {
       const value = row.scores[c.key];
       const level = c.levels.find((l) => l.value === String(value));
@@ -69,6 +71,8 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log 
       reviewedAt: row.decided_at.toISOString(),
       source: row.source,
       credit: row.credit,
+      /** Why the exam earned no credit (empty when it did). */
+      creditReasons,
       rubricVersion: rubric?.version ?? null,
       criteria: scored,
       findings: outcomes,
@@ -174,6 +178,38 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log 
       });
       if (after.task) await runAfterCommit([after.task], log);
       res.status(201).json({ id: after.id });
+    },
+  });
+
+  defineRoute(kit, {
+    method: "get",
+    path: "/exams/:id/messages",
+    summary: "The questions and answers about an exam's feedback (its sonographer, its reviewers, QA leads)",
+    tag: "feedback",
+    access: "signed_in",
+    params: idParamsSchema,
+    responses: { 200: { description: "Messages" } },
+    handler: async ({ user, params }) => {
+      const exam = await db("exams").where({ id: params.id, program_id: user.programId }).first("id", "program_id", "sonographer_id", "status", "code");
+      const access = await assertCanView(db, user, exam);
+      const settings = await getSettings(db, user.programId);
+      const rows = await db("feedback_messages as m")
+        .join("users as u", "u.id", "m.author_id")
+        .where("m.exam_id", params.id)
+        .orderBy("m.created_at")
+        .select("m.id", "m.body", "m.created_at", "u.name", "m.author_id");
+      // Reviewers see the sonographer only as "Sonographer" while blinding is on.
+      const name = (r: { author_id: string; name: string }) =>
+        r.author_id === user.id
+          ? "you"
+          : r.author_id === exam!.sonographer_id
+            ? access === "reviewer" && settings.blindSonographer
+              ? "Sonographer"
+              : r.name
+            : access === "owner" && !settings.showReviewerName
+              ? "Reviewer"
+              : r.name;
+      return { examCode: exam!.code, items: rows.map((r) => ({ id: r.id, body: r.body, at: r.created_at.toISOString(), author: name(r) })) };
     },
   });
 

@@ -47,7 +47,7 @@ export function registerOversightRoutes(kit: RouteKit, { db, config, mailer, log
           rows.map((r) => r.exam_id),
         )
         .whereIn("a.kind", ["primary", "second"])
-        .select("r.exam_id", "a.kind", "u.name as reviewer", "r.scores", "r.reads", "r.feedback", "r.submitted_at");
+        .select("r.exam_id", "a.kind", "u.name as reviewer", "u.id as reviewer_id", "r.scores", "r.reads", "r.feedback", "r.submitted_at");
       const items = [];
       for (const r of rows) {
         const rubric = await getRubric(db, user.programId, r.rubric_id);
@@ -65,6 +65,7 @@ export function registerOversightRoutes(kit: RouteKit, { db, config, mailer, log
           reads: both.map((x) => ({
             kind: x.kind,
             reviewer: x.reviewer,
+            reviewerId: x.reviewer_id,
             scores: x.scores,
             reads: x.reads,
             feedback: x.feedback,
