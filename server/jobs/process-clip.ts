@@ -119,7 +119,8 @@ export async function processClipJob(ctx: ClipJobContext, job: ClipJob, attempt:
     return "done";
   } catch (err) {
     const last = attempt.retryCount >= attempt.retryLimit;
-    ctx.log?.(err);
+    // A file that cannot be read is the upload's problem, said on the clip; only other errors need a stack.
+    ctx.log?.(err instanceof MediaError ? `clip ${clip.id}: ${err.message}${last ? "" : " (will retry)"}` : err);
     await ctx
       .db("clips")
       .where({ id: clip.id, process_version: job.version })

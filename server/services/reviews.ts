@@ -55,6 +55,8 @@ export async function settleExam(
     decidedBy: string | null;
     note?: string;
     reviewId?: string | null;
+    /** When the result became final (the last read's time); now by default. */
+    at?: Date;
   },
   settings: ProgramSettings,
 ) {
@@ -70,6 +72,7 @@ export async function settleExam(
       decided_by: final.decidedBy,
       credit,
       note: final.note ?? "",
+      decided_at: final.at ?? trx.fn.now(),
     })
     .onConflict("exam_id")
     .merge();
@@ -123,7 +126,13 @@ export async function resolveAfterRead(
     .select("r.*", "a.kind");
   if (!exam.double_read) {
     const r = reads[0];
-    await settleExam(trx, rubric, exam, { scores: r.scores, reads: r.reads, source: "single_read", decidedBy: null, reviewId: r.id }, settings);
+    await settleExam(
+      trx,
+      rubric,
+      exam,
+      { scores: r.scores, reads: r.reads, source: "single_read", decidedBy: null, reviewId: r.id, at: r.submitted_at },
+      settings,
+    );
     return "final";
   }
   if (reads.length < 2) return "waiting";
@@ -136,7 +145,14 @@ export async function resolveAfterRead(
       trx,
       rubric,
       exam,
-      { scores: primary.scores, reads: primary.reads, source: "double_read_agreed", decidedBy: null, reviewId: primary.id },
+      {
+        scores: primary.scores,
+        reads: primary.reads,
+        source: "double_read_agreed",
+        decidedBy: null,
+        reviewId: primary.id,
+        at: new Date(Math.max(primary.submitted_at.getTime(), second.submitted_at.getTime())),
+      },
       settings,
     );
     return "final";
