@@ -101,16 +101,24 @@ export function registerQueueRoutes(kit: RouteKit, { db, config, mailer, log }: 
           .join("applications as ap", "ap.id", "e.application_id")
           .where({ "a.program_id": user.programId, "a.reviewer_id": user.id, "a.state": "claimed" })
           .andWhere("a.lease_expires_at", ">", db.fn.now())
-          .select("a.id", "a.kind", "a.claimed_at", "a.lease_expires_at", "a.due_at", "e.code", "ap.name as application"),
+          .select("a.id", "a.kind", "a.claimed_at", "a.lease_expires_at", "a.due_at", "e.code", "ap.name as application", "ap.code as application_code"),
       ]);
+      const { turnaroundHours } = await getSettings(db, user.programId);
       return {
         waiting: waiting.map((w) => ({
           application: { code: w.code, name: w.name },
           setting: w.setting,
           count: w.count,
           oldestWaitingSeconds: w.oldest_seconds,
+          /** The oldest has waited past the program's turnaround target. */
+          overdue: w.oldest_seconds > turnaroundHours * 3600,
         })),
-        held: held.map((h) => ({ ...presentAssignment(h as AssignmentRow), examCode: h.code, application: h.application })),
+        held: held.map((h) => ({
+          ...presentAssignment(h as AssignmentRow),
+          examCode: h.code,
+          application: h.application,
+          applicationCode: h.application_code,
+        })),
       };
     },
   });
