@@ -126,6 +126,16 @@ export const router = createBrowserRouter([
                 lazy: page(() => import("../features/oversight/routes/follow-ups")),
               },
               {
+                path: "oversight/agreement",
+                loader: requireRoles(["qa_lead", "admin"]),
+                lazy: page(() => import("../features/agreement/routes/agreement")),
+              },
+              {
+                path: "oversight/program",
+                loader: requireRoles(["qa_lead", "admin"]),
+                lazy: page(() => import("../features/program-report/routes/program")),
+              },
+              {
                 path: "setup/rubrics",
                 loader: requireRoles(["qa_lead"]),
                 lazy: page(() => import("../features/rubrics/routes/rubrics")),

@@ -34,7 +34,9 @@ export const NAV_GROUPS: NavGroup[] = [
     label: "Oversight",
     items: [
       { to: "/oversight/adjudication", label: "Adjudication", roles: ["qa_lead"] },
+      { to: "/oversight/agreement", label: "Agreement", roles: ["qa_lead", "admin"] },
       { to: "/oversight/follow-ups", label: "Follow-ups", roles: ["qa_lead"] },
+      { to: "/oversight/program", label: "Program", roles: ["qa_lead", "admin"] },
     ],
   },
   {

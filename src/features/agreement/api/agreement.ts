@@ -1,0 +1,91 @@
+// The agreement report (GET /api/reports/agreement): per-criterion coefficients, the
+// reviewer-pair matrix, a confusion matrix, bias against consensus and the exams in
+// disagreement, for a date range and optionally one application.
+import { keepPreviousData, queryOptions } from "@tanstack/react-query";
+import { api } from "../../../lib/api-client";
+
+export type Interval = [number, number];
+
+export interface CriterionAgreement {
+  key: string;
+  label: string;
+  kind: string;
+  /** Units (exams) read twice or more. */
+  units: number;
+  percentAgreement: number | null;
+  kappa: { value: number | null; ci95: Interval | null; weights: "quadratic" | "unweighted"; reason?: string };
+  alpha: { value: number | null; level: "ordinal" | "nominal" | "interval"; ci95?: Interval | null; reason?: string };
+  ac1: { value: number | null; ci95: Interval | null; reason?: string };
+  band: string | null;
+}
+
+export interface Person {
+  id: string;
+  name: string;
+}
+
+export interface PairAgreement {
+  a: Person;
+  b: Person;
+  units: number;
+  percentAgreement: number | null;
+  kappa: number | null;
+}
+
+export interface Confusion {
+  rowLabel: string;
+  colLabel: string;
+  categories: { value: string; label: string }[];
+  counts: number[][];
+}
+
+export interface ReviewerBias {
+  reviewer: Person;
+  n: number;
+  meanDifference: number | null;
+  ci95: Interval | null;
+}
+
+export interface Disagreement {
+  examId: string;
+  code: string;
+  application: string;
+  a: string | number | null;
+  b: string | number | null;
+}
+
+export interface AgreementReport {
+  from: string;
+  to: string;
+  application: string | null;
+  criterion: string;
+  criteria: CriterionAgreement[];
+  pairs: PairAgreement[];
+  confusion: Confusion;
+  bias: ReviewerBias[];
+  disagreements: Disagreement[];
+}
+
+export interface AgreementFilters {
+  from: string;
+  to: string;
+  application?: string;
+  criterion?: string;
+  reviewerA?: string;
+  reviewerB?: string;
+}
+
+function search(filters: AgreementFilters): string {
+  const p = new URLSearchParams();
+  for (const [k, v] of Object.entries(filters)) if (v) p.set(k, v);
+  return p.toString();
+}
+
+/** The report for these filters; the previous report stays on screen while the next loads. */
+export function agreementQuery(filters: AgreementFilters) {
+  return queryOptions({
+    queryKey: ["reports", "agreement", filters],
+    queryFn: ({ signal }) => api<AgreementReport>(`/reports/agreement?${search(filters)}`, { signal }),
+    placeholderData: keepPreviousData,
+  });
+}

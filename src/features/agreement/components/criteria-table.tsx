@@ -1,0 +1,147 @@
+// Agreement per criterion: units read twice, percent agreement, Cohen's kappa (quadratic
+// weights on ordinal criteria), Krippendorff's alpha and Gwet's AC1, each with its 95 %
+// interval, and the Landis & Koch band in words.
+import { ExportCsvButton } from "../../../components/ui/export-csv-button";
+import { ReportSection, tableClasses as t } from "../../../components/ui/report-section";
+import type { CriterionAgreement, Interval } from "../api/agreement";
+import { bandWords, formatCoefficient, formatInterval, formatPercent, missingReason } from "./stat-format";
+
+function Missing({ reason }: { reason: string }) {
+  return (
+    <span title={reason} className="cursor-help text-slate-600 underline decoration-dotted underline-offset-2">
+      —<span className="sr-only"> (not computable: {reason})</span>
+    </span>
+  );
+}
+
+function Coefficient({ value, ci, reason, label }: { value: number | null; ci?: Interval | null; reason: string; label: string }) {
+  if (value === null) return <Missing reason={reason} />;
+  return (
+    <span className="inline-flex flex-col items-end">
+      <span data-stat={label} className="font-semibold">
+        {formatCoefficient(value)}
+      </span>
+      {ci ? <span className="text-xs text-slate-600">{formatInterval(ci)}</span> : <span className="text-xs text-slate-500">no interval</span>}
+    </span>
+  );
+}
+
+const KAPPA_WEIGHTS = { quadratic: "quadratic weights", unweighted: "unweighted" } as const;
+
+export function CriteriaTable({ criteria, filename }: { criteria: CriterionAgreement[]; filename: string }) {
+  const csvRows = () =>
+    criteria.map((c) => [
+      c.key,
+      c.label,
+      c.kind,
+      c.units,
+      c.percentAgreement,
+      c.kappa.value,
+      c.kappa.ci95?.[0],
+      c.kappa.ci95?.[1],
+      c.kappa.weights,
+      c.alpha.value,
+      c.alpha.ci95?.[0],
+      c.alpha.ci95?.[1],
+      c.alpha.level,
+      c.ac1.value,
+      c.ac1.ci95?.[0],
+      c.ac1.ci95?.[1],
+      c.band,
+    ]);
+  return (
+    <ReportSection
+      title="Agreement per criterion"
+      description={
+        <>
+          Cohen&apos;s kappa uses quadratic weights on ordinal criteria and is unweighted otherwise; Krippendorff&apos;s alpha at the level named; Gwet&apos;s
+          AC1. Intervals are 95 %. The band follows Landis &amp; Koch (1977) on kappa.
+        </>
+      }
+      actions={
+        <ExportCsvButton
+          what="agreement per criterion"
+          filename={filename}
+          header={[
+            "criterion",
+            "label",
+            "kind",
+            "units",
+            "percent_agreement",
+            "kappa",
+            "kappa_ci_low",
+            "kappa_ci_high",
+            "kappa_weights",
+            "alpha",
+            "alpha_ci_low",
+            "alpha_ci_high",
+            "alpha_level",
+            "ac1",
+            "ac1_ci_low",
+            "ac1_ci_high",
+            "band",
+          ]}
+          rows={csvRows}
+        />
+      }
+    >
+      <div className={t.wrap}>
+        <table className={t.table}>
+          <caption className="sr-only">Agreement between reviewers per criterion, with 95 % intervals</caption>
+          <thead className={t.thead}>
+            <tr>
+              <th scope="col" className={t.th}>
+                Criterion
+              </th>
+              <th scope="col" className={t.thNum}>
+                Read twice
+              </th>
+              <th scope="col" className={t.thNum}>
+                Agreement
+              </th>
+              <th scope="col" className={t.thNum}>
+                Cohen&apos;s kappa
+              </th>
+              <th scope="col" className={t.thNum}>
+                Krippendorff&apos;s alpha
+              </th>
+              <th scope="col" className={t.thNum}>
+                Gwet&apos;s AC1
+              </th>
+              <th scope="col" className={t.th}>
+                Band
+              </th>
+            </tr>
+          </thead>
+          <tbody className={t.tbody}>
+            {criteria.map((c) => {
+              const reason = (given?: string) => missingReason(c.units, c.percentAgreement, given);
+              return (
+                <tr key={c.key} className="align-top" data-criterion={c.key}>
+                  <th scope="row" className="px-3 py-2 font-semibold text-ink-900">
+                    {c.label}
+                    <span className="block text-xs font-normal text-slate-600">{c.kind}</span>
+                  </th>
+                  <td className={t.tdNum}>{c.units}</td>
+                  <td className={t.tdNum}>{c.percentAgreement === null ? <Missing reason={reason()} /> : formatPercent(c.percentAgreement)}</td>
+                  <td className={t.tdNum}>
+                    <Coefficient label="kappa" value={c.kappa.value} ci={c.kappa.ci95} reason={reason(c.kappa.reason)} />
+                    <span className="block text-xs text-slate-600">{KAPPA_WEIGHTS[c.kappa.weights] ?? c.kappa.weights}</span>
+                  </td>
+                  <td className={t.tdNum}>
+                    <Coefficient label="alpha" value={c.alpha.value} ci={c.alpha.ci95} reason={reason(c.alpha.reason)} />
+                    <span className="block text-xs text-slate-600">{c.alpha.level}</span>
+                  </td>
+                  <td className={t.tdNum}>
+                    <Coefficient label="ac1" value={c.ac1.value} ci={c.ac1.ci95} reason={reason(c.ac1.reason)} />
+                  </td>
+                  <td className={t.td}>{c.band ? bandWords(c.band) : <Missing reason={reason(c.kappa.reason)} />}</td>
+                </tr>
+              );
+            })}
+          </tbody>
+        </table>
+      </div>
+    </ReportSection>
+  );
+}
