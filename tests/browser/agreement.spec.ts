@@ -1,0 +1,164 @@
+// The agreement report reads what the statistics module computes: every exam is read twice
+// for this test, a sonographer submits six educational eFAST exams through the API, two
+// reviewers score them (same values everywhere except overall image quality, which varies
+// and sometimes differs by more than one step), and in the browser the QA lead opens
+// Oversight → Agreement for today and finds the quadratic-weighted Cohen's kappa of
+// "Overall image quality" equal to the one this test computes with shared/stats.
+import fs from "node:fs";
+import path from "node:path";
+import { expect, request as playwrightRequest, test, type APIRequestContext, type Page, type TestInfo } from "@playwright/test";
+import { cohensKappa } from "../../shared/stats/index";
+import { fixtureDir, h264Mp4 } from "../api/media-fixtures";
+
+const PASSWORD = "soundings-demo";
+const LEAD = "lead@cedarhollow.example";
+const SONOGRAPHER = "sonographer@cedarhollow.example";
+const REVIEWER = "reviewer@cedarhollow.example";
+const SECOND_REVIEWER = "elias.brunnhold@cedarhollow.example";
+
+// Quality of each exam as (first read, second read): two agree, two differ by one step,
+// two by two steps (those go to adjudication; the report counts both reads regardless).
+const QUALITY: [string, string][] = [
+  ["5", "5"],
+  ["4", "3"],
+  ["3", "5"],
+  ["2", "2"],
+  ["5", "3"],
+  ["4", "5"],
+];
+
+type Workspace = { assignment: { id: string }; exam: { id: string } };
+
+async function apiAs(baseURL: string, email: string): Promise<APIRequestContext> {
+  const ctx = await playwrightRequest.newContext({ baseURL });
+  const res = await ctx.post("/api/auth/login", { data: { email, password: PASSWORD } });
+  expect(res.ok(), `sign-in of ${email}`).toBeTruthy();
+  return ctx;
+}
+
+async function shot(page: Page, testInfo: TestInfo, name: string) {
+  const file = path.join(testInfo.project.outputDir, `${name}.png`);
+  await page.screenshot({ path: file, fullPage: true });
+  await testInfo.attach(name, { path: file, contentType: "image/png" });
+}
+
+function scores(quality: string): Record<string, string> {
+  return { transducer: "suitable", marker: "follows", depth: "fits", gain: "balanced", plane: "standard", labels: "complete", quality };
+}
+
+/** Claims the next eFAST read and submits it with the quality this exam gets from this reader. */
+async function readNext(reviewer: APIRequestContext, quality: (examId: string) => string, reads: { key: string; read: string }[]): Promise<string> {
+  const res = await reviewer.post("/api/queue/next", { data: { application: "efast" } });
+  expect(res.status(), "a read should be waiting").toBe(200);
+  const ws = (await res.json()) as Workspace;
+  const review = await reviewer.post(`/api/assignments/${ws.assignment.id}/review`, { data: { scores: scores(quality(ws.exam.id)), reads, feedback: "" } });
+  expect(review.status(), await review.text()).toBe(201);
+  return ws.exam.id;
+}
+
+test("the agreement screen shows the weighted kappa of image quality that shared/stats computes", async ({ browser, baseURL }, testInfo) => {
+  test.setTimeout(90_000);
+  const base = baseURL!;
+  const lead = await apiAs(base, LEAD);
+  const sonographer = await apiAs(base, SONOGRAPHER);
+  const reviewer = await apiAs(base, REVIEWER);
+  const secondReviewer = await apiAs(base, SECOND_REVIEWER);
+  const dir = fixtureDir();
+
+  try {
+    expect((await lead.patch("/api/settings", { data: { doubleReadShare: 1 } })).ok()).toBeTruthy();
+
+    const { applications } = (await (await sonographer.get("/api/applications")).json()) as { applications: { code: string; findings: { key: string }[] }[] };
+    const efast = applications.find((a) => a.code === "efast")!;
+    const negativeReads = efast.findings.map((f) => ({ key: f.key, read: "negative" }));
+    const clip = h264Mp4(dir, "sweep.mp4", { seconds: 1, seed: 11 });
+    const buffer = fs.readFileSync(clip);
+
+    // Six small educational exams, one clip each, created and uploaded in parallel.
+    const examIds = await Promise.all(
+      QUALITY.map(async (_, i) => {
+        const created = await sonographer.post("/api/exams", {
+          data: {
+            applicationCode: "efast",
+            performedAt: new Date(Date.now() - (90 - i) * 60_000).toISOString(),
+            setting: "educational",
+            transducer: "curvilinear",
+            preset: "Abdomen",
+            indication: `Practice scan ${i + 1}`,
+            findings: negativeReads,
+          },
+        });
+        expect(created.status()).toBe(201);
+        const { exam } = (await created.json()) as { exam: { id: string } };
+        const upload = await sonographer.post(`/api/exams/${exam.id}/clips`, {
+          multipart: { view: "ruq", file: { name: "sweep.mp4", mimeType: "video/mp4", buffer } },
+        });
+        expect(upload.status()).toBe(202);
+        return exam.id;
+      }),
+    );
+    await Promise.all(
+      examIds.map(async (id) => {
+        await expect
+          .poll(
+            async () =>
+              ((await (await sonographer.get(`/api/exams/${id}`)).json()) as { exam: { clips: { state: string }[] } }).exam.clips.map((c) => c.state).join(","),
+            {
+              timeout: 45_000,
+            },
+          )
+          .toBe("ready");
+        expect((await sonographer.post(`/api/exams/${id}/submit`, { data: { attestNoIdentifiers: true } })).ok()).toBeTruthy();
+      }),
+    );
+
+    // The first reviewer reads all six first, the second reviewer all six second, so every
+    // (first, second) pair is (reviewer, second reviewer); quality follows QUALITY per exam.
+    const slot = new Map<string, number>();
+    const qualityOf = (reader: 0 | 1) => (examId: string) => {
+      if (!slot.has(examId)) slot.set(examId, slot.size);
+      return QUALITY[slot.get(examId)!][reader];
+    };
+    for (let i = 0; i < QUALITY.length; i++) await readNext(reviewer, qualityOf(0), negativeReads);
+    for (let i = 0; i < QUALITY.length; i++) await readNext(secondReviewer, qualityOf(1), negativeReads);
+    expect(slot.size).toBe(QUALITY.length);
+
+    const expected = cohensKappa(QUALITY, { weights: "quadratic", categories: ["1", "2", "3", "4", "5"] });
+    expect(expected.value).not.toBeNull();
+    const shown = expected.value!.toFixed(2).replace("-", "\u2212");
+
+    // The QA lead opens the report for today's range through the navigation.
+    const page = await (await browser.newContext()).newPage();
+    await page.goto("/sign-in");
+    await page.getByLabel("E-mail").fill(LEAD);
+    await page.getByLabel("Password").fill(PASSWORD);
+    await page.getByRole("button", { name: "Sign in" }).click();
+    await expect(page.getByRole("heading", { level: 1, name: "Home" })).toBeVisible();
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Agreement" }).click();
+    await expect(page.getByRole("heading", { level: 1, name: "Agreement" })).toBeVisible();
+    const today = await page.evaluate(() => {
+      const d = new Date();
+      return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, "0")}-${String(d.getDate()).padStart(2, "0")}`;
+    });
+    await page.getByLabel("From").fill(today);
+    await page.getByLabel("To").fill(today);
+    await expect(page).toHaveURL(new RegExp(`from=${today}.*to=${today}|to=${today}.*from=${today}`));
+
+    const qualityRow = page.getByRole("row").filter({ has: page.getByRole("rowheader", { name: /Overall image quality/ }) });
+    await expect(qualityRow.getByRole("cell").first()).toHaveText(String(QUALITY.length));
+    await expect(qualityRow.locator('[data-stat="kappa"]')).toHaveText(shown);
+    await expect(qualityRow).toContainText("quadratic weights");
+
+    // The drill-down lists exams whose quality differs (at least the two apart by two steps),
+    // each linking to the exam page.
+    await page.getByLabel("Criterion").selectOption("quality");
+    const drill = page.getByRole("region", { name: "Exams in disagreement" });
+    await expect(drill.getByRole("link").first()).toHaveAttribute("href", /^\/exams\/[0-9a-f-]+$/);
+    expect(await drill.getByRole("link").count()).toBeGreaterThanOrEqual(2);
+    await shot(page, testInfo, "agreement");
+  } finally {
+    await lead.patch("/api/settings", { data: { doubleReadShare: 0.2 } });
+    await Promise.all([lead.dispose(), sonographer.dispose(), reviewer.dispose(), secondReviewer.dispose()]);
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
+});
