@@ -80,7 +80,7 @@ test("the agreement screen shows the weighted kappa of image quality that shared
         const created = await sonographer.post("/api/exams", {
           data: {
             applicationCode: "efast",
-            performedAt: new Date(Date.now() - (90 - i) * 60_000).toISOString(),
+            performedAt: new Date(Date.now() - (20 - i) * 60_000).toISOString(),
             setting: "educational",
             transducer: "curvilinear",
             preset: "Abdomen",
@@ -136,13 +136,13 @@ test("the agreement screen shows the weighted kappa of image quality that shared
     await expect(page.getByRole("heading", { level: 1, name: "Home" })).toBeVisible();
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Agreement" }).click();
     await expect(page.getByRole("heading", { level: 1, name: "Agreement" })).toBeVisible();
-    const today = await page.evaluate(() => {
-      const d = new Date();
-      return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, "0")}-${String(d.getDate()).padStart(2, "0")}`;
-    });
-    await page.getByLabel("From").fill(today);
+    // Today's range; it starts on the day the first exam was performed (the server counts
+    // dates in UTC), which is today except within the first minutes after midnight.
+    const today = new Date().toISOString().slice(0, 10);
+    const firstDay = new Date(Date.now() - 20 * 60_000).toISOString().slice(0, 10);
+    await page.getByLabel("From").fill(firstDay);
     await page.getByLabel("To").fill(today);
-    await expect(page).toHaveURL(new RegExp(`from=${today}.*to=${today}|to=${today}.*from=${today}`));
+    await expect(page).toHaveURL(new RegExp(`from=${firstDay}.*to=${today}|to=${today}.*from=${firstDay}`));
 
     const qualityRow = page.getByRole("row").filter({ has: page.getByRole("rowheader", { name: /Overall image quality/ }) });
     await expect(qualityRow.getByRole("cell").first()).toHaveText(String(QUALITY.length));

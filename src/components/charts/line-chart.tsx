@@ -23,7 +23,7 @@ export function LineChart({
 }) {
   const width = 640;
   const height = 240;
-  const top = 16;
+  const top = 26;
   const bottom = 30;
   const left = 44;
   const right = 120;
@@ -53,7 +53,7 @@ export function LineChart({
           </text>
         </g>
       ))}
-      <text x={4} y={top - 4} fontSize={11} fill={AXIS.text}>
+      <text x={4} y={top - 14} fontSize={11} fill={AXIS.text}>
         {unit}
       </text>
       {categories.map((c, i) =>
