@@ -25,6 +25,7 @@ import { registerQueueRoutes } from "./routes/queue/router";
 import { registerOversightRoutes } from "./routes/oversight/router";
 import { registerRubricRoutes } from "./routes/rubrics/router";
 import { registerFeedbackRoutes } from "./routes/feedback/router";
+import { registerReportRoutes } from "./routes/reports/router";
 import type { Storage } from "./storage/types";
 import type { JobQueue } from "./jobs/queue";
 
@@ -78,6 +79,7 @@ export function buildApp(deps: AppDeps) {
   registerOversightRoutes(kit, ctx);
   registerRubricRoutes(kit, ctx);
   registerFeedbackRoutes(kit, ctx);
+  registerReportRoutes(kit, ctx);
 
   let openapi: unknown;
   kit.router.get("/openapi.json", (_req, res) => {

@@ -219,6 +219,8 @@ const MATRIX: Row[] = [
     expect: ownerOr(409, 409, 404),
   },
   { route: "GET /exams/:id/messages", call: async () => ({ path: `/api/exams/${(await ownExam()).id}/messages` }), expect: ownerOr(200, 200, 404) },
+  { route: "GET /reports/agreement", call: fixed("/api/reports/agreement"), expect: only(["qa_lead", "admin"], 200) },
+  { route: "GET /reports/program", call: fixed("/api/reports/program"), expect: only(["qa_lead", "admin"], 200) },
   { route: "GET /notifications", call: fixed("/api/notifications"), expect: signedIn(200) },
   { route: "POST /notifications/read", call: fixed("/api/notifications/read", {}), expect: signedIn(204) },
 ];
