@@ -34,6 +34,9 @@ function useFilters() {
     setParams(
       (prev) => {
         const next = new URLSearchParams(prev);
+        // The range in effect goes into the URL with any change, so a shared link shows the same report.
+        next.set("from", from);
+        next.set("to", to);
         for (const [k, v] of Object.entries(changes)) {
           if (v) next.set(k, v);
           else next.delete(k);

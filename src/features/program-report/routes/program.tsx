@@ -223,6 +223,8 @@ export default function ProgramPage() {
     setParams(
       (prev) => {
         const next = new URLSearchParams(prev);
+        next.set("from", from);
+        next.set("to", to);
         next.set(k, v);
         return next;
       },
