@@ -25,5 +25,8 @@ export function sequentialColour(t: number): { fill: string; text: string } {
   const i = Math.min(STOPS.length - 2, Math.floor(x));
   const f = x - i;
   const rgb = STOPS[i].map((c, k) => Math.round(c + (STOPS[i + 1][k] - c) * f));
-  return { fill: `rgb(${rgb.join(" ")})`, text: x > 1.8 ? "#ffffff" : "#0c1a26" };
+  // Ink or white, whichever contrasts more (WCAG relative luminance; the crossover is near 0.18).
+  const lin = rgb.map((c) => (c / 255 <= 0.04045 ? c / 255 / 12.92 : ((c / 255 + 0.055) / 1.055) ** 2.4));
+  const luminance = 0.2126 * lin[0] + 0.7152 * lin[1] + 0.0722 * lin[2];
+  return { fill: `rgb(${rgb.join(" ")})`, text: luminance < 0.18 ? "#ffffff" : "#0c1a26" };
 }

@@ -102,16 +102,19 @@ export function PairHeatmap({
                         </td>
                       );
                     // Kappa can be negative: the scale covers 0..1 and anything below 0 is lightest.
-                    const { fill, text } = sequentialColour(v);
+                    const { fill } = sequentialColour(v);
                     return (
                       <td
                         key={col.id}
-                        style={{ backgroundColor: fill, color: text }}
+                        style={{ backgroundColor: fill }}
                         className="size-16 rounded text-center tabular-nums"
                         title={`${row.name} and ${col.name}: ${word} ${measure === "kappa" ? formatCoefficient(v) : formatPercent(v)}, ${p.units} exams`}
                       >
-                        <span className="block font-semibold">{measure === "kappa" ? formatCoefficient(v) : formatPercent(v)}</span>
-                        <span className="block text-xs">n {p.units}</span>
+                        {/* A paper chip under the figures keeps them at AA contrast on every shade. */}
+                        <span className="inline-block rounded bg-paper-50/90 px-1.5 py-0.5 text-ink-950">
+                          <span className="block font-semibold">{measure === "kappa" ? formatCoefficient(v) : formatPercent(v)}</span>
+                          <span className="block text-xs">n {p.units}</span>
+                        </span>
                       </td>
                     );
                   })}
