@@ -34,6 +34,29 @@ export async function queueSubmittedExam(trx: Knex.Transaction, exam: { id: stri
   return { double };
 }
 
+/**
+ * The reads a reviewer could claim now (assignments `a` joined to exams `e` and applications
+ * `ap`): first or second reads that are open or whose claim ran out, not handed to someone
+ * else, not of the reviewer's own exams, and not of an exam the reviewer already reads.
+ */
+export function claimable(db: Knex | Knex.Transaction, programId: string, reviewerId: string) {
+  return db("assignments as a")
+    .join("exams as e", "e.id", "a.exam_id")
+    .join("applications as ap", "ap.id", "e.application_id")
+    .where("a.program_id", programId)
+    .whereIn("a.kind", ["primary", "second"])
+    .where((q) => q.where("a.state", "open").orWhere((q2) => q2.where("a.state", "claimed").andWhere("a.lease_expires_at", "<=", db.fn.now())))
+    .where((q) => q.whereNull("a.assigned_to").orWhere("a.assigned_to", reviewerId))
+    .whereNot("e.sonographer_id", reviewerId)
+    .whereNotExists(function () {
+      this.from("assignments as b")
+        .whereRaw("b.exam_id = a.exam_id")
+        .andWhere("b.reviewer_id", reviewerId)
+        .whereNot("b.state", "cancelled")
+        .whereRaw("b.id <> a.id");
+    });
+}
+
 export interface ClaimOptions {
   programId: string;
   reviewerId: string;
@@ -55,21 +78,7 @@ export async function claimNext(db: Db, o: ClaimOptions): Promise<{ id: string; 
       .first("id", "exam_id");
     if (held) return held;
     const rubric = await activeRubricFor(trx, o.programId);
-    const candidate = trx("assignments as a")
-      .join("exams as e", "e.id", "a.exam_id")
-      .join("applications as ap", "ap.id", "e.application_id")
-      .where("a.program_id", o.programId)
-      .whereIn("a.kind", ["primary", "second"])
-      .where((q) => q.where("a.state", "open").orWhere((q2) => q2.where("a.state", "claimed").andWhere("a.lease_expires_at", "<=", trx.fn.now())))
-      .where((q) => q.whereNull("a.assigned_to").orWhere("a.assigned_to", o.reviewerId))
-      .whereNot("e.sonographer_id", o.reviewerId)
-      .whereNotExists(function () {
-        this.from("assignments as b")
-          .whereRaw("b.exam_id = a.exam_id")
-          .andWhere("b.reviewer_id", o.reviewerId)
-          .whereNot("b.state", "cancelled")
-          .whereRaw("b.id <> a.id");
-      })
+    const candidate = claimable(trx, o.programId, o.reviewerId)
       .orderBy([{ column: "a.priority" }, { column: "a.due_at" }, { column: "a.created_at" }, { column: "a.id" }])
       .limit(1)
       .forUpdate("a")

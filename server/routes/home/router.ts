@@ -3,6 +3,7 @@
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../app";
 import { homeSchema, type Home } from "../../../shared/schemas/home";
+import { claimable } from "../../services/queue";
 
 export function registerHomeRoutes(kit: RouteKit, { db }: RouteContext) {
   defineRoute(kit, {
@@ -50,21 +51,7 @@ export function registerHomeRoutes(kit: RouteKit, { db }: RouteContext) {
       }
       if (user.roles.includes("reviewer")) {
         const [[waiting], [held], [handed]] = await Promise.all([
-          db("assignments as a")
-            .join("exams as e", "e.id", "a.exam_id")
-            .where("a.program_id", pid)
-            .whereIn("a.kind", ["primary", "second"])
-            .where((q) => q.where("a.state", "open").orWhere((q2) => q2.where("a.state", "claimed").andWhere("a.lease_expires_at", "<=", db.fn.now())))
-            .where((q) => q.whereNull("a.assigned_to").orWhere("a.assigned_to", user.id))
-            .whereNot("e.sonographer_id", user.id)
-            .whereNotExists(function () {
-              this.from("assignments as b")
-                .whereRaw("b.exam_id = a.exam_id")
-                .andWhere("b.reviewer_id", user.id)
-                .whereNot("b.state", "cancelled")
-                .whereRaw("b.id <> a.id");
-            })
-            .count<{ c: string }[]>("* as c"),
+          claimable(db, pid, user.id).count<{ c: string }[]>("* as c"),
           db("assignments")
             .where({ program_id: pid, reviewer_id: user.id, state: "claimed" })
             .andWhere("lease_expires_at", ">", db.fn.now())

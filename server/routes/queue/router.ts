@@ -6,7 +6,7 @@ import type { RouteContext } from "../../app";
 import { HttpError, notFound } from "../../http/errors";
 import { idParamsSchema } from "../../../shared/schemas/common";
 import { queueNextSchema, reassignSchema, reviewDraftSchema, submitReviewSchema } from "../../../shared/schemas/reviews";
-import { claimNext } from "../../services/queue";
+import { claimable, claimNext } from "../../services/queue";
 import { assertValidReview, recordReview } from "../../services/reviews";
 import { feedbackReady, runAfterCommit, type AfterCommit } from "../../services/notify";
 import { examContext, examDetail } from "../../repositories/exams";
@@ -70,21 +70,7 @@ export function registerQueueRoutes(kit: RouteKit, { db, config, mailer, log }: 
     access: ["reviewer"],
     responses: { 200: { description: "Queue overview" } },
     handler: async ({ user }) => {
-      const waitingBase = db("assignments as a")
-        .join("exams as e", "e.id", "a.exam_id")
-        .join("applications as ap", "ap.id", "e.application_id")
-        .where("a.program_id", user.programId)
-        .whereIn("a.kind", ["primary", "second"])
-        .where((q) => q.where("a.state", "open").orWhere((q2) => q2.where("a.state", "claimed").andWhere("a.lease_expires_at", "<=", db.fn.now())))
-        .where((q) => q.whereNull("a.assigned_to").orWhere("a.assigned_to", user.id))
-        .whereNot("e.sonographer_id", user.id)
-        .whereNotExists(function () {
-          this.from("assignments as b")
-            .whereRaw("b.exam_id = a.exam_id")
-            .andWhere("b.reviewer_id", user.id)
-            .whereNot("b.state", "cancelled")
-            .whereRaw("b.id <> a.id");
-        });
+      const waitingBase = claimable(db, user.programId, user.id);
       const [waiting, held] = await Promise.all([
         waitingBase
           .clone()
