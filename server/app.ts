@@ -26,6 +26,7 @@ import { registerOversightRoutes } from "./routes/oversight/router";
 import { registerRubricRoutes } from "./routes/rubrics/router";
 import { registerFeedbackRoutes } from "./routes/feedback/router";
 import { registerReportRoutes } from "./routes/reports/router";
+import { registerCalibrationRoutes } from "./routes/calibration/router";
 import type { Storage } from "./storage/types";
 import type { JobQueue } from "./jobs/queue";
 
@@ -80,6 +81,7 @@ export function buildApp(deps: AppDeps) {
   registerRubricRoutes(kit, ctx);
   registerFeedbackRoutes(kit, ctx);
   registerReportRoutes(kit, ctx);
+  registerCalibrationRoutes(kit, ctx);
 
   let openapi: unknown;
   kit.router.get("/openapi.json", (_req, res) => {

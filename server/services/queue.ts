@@ -40,21 +40,27 @@ export async function queueSubmittedExam(trx: Knex.Transaction, exam: { id: stri
  * else, not of the reviewer's own exams, and not of an exam the reviewer already reads.
  */
 export function claimable(db: Knex | Knex.Transaction, programId: string, reviewerId: string) {
-  return db("assignments as a")
-    .join("exams as e", "e.id", "a.exam_id")
-    .join("applications as ap", "ap.id", "e.application_id")
-    .where("a.program_id", programId)
-    .whereIn("a.kind", ["primary", "second"])
-    .where((q) => q.where("a.state", "open").orWhere((q2) => q2.where("a.state", "claimed").andWhere("a.lease_expires_at", "<=", db.fn.now())))
-    .where((q) => q.whereNull("a.assigned_to").orWhere("a.assigned_to", reviewerId))
-    .whereNot("e.sonographer_id", reviewerId)
-    .whereNotExists(function () {
-      this.from("assignments as b")
-        .whereRaw("b.exam_id = a.exam_id")
-        .andWhere("b.reviewer_id", reviewerId)
-        .whereNot("b.state", "cancelled")
-        .whereRaw("b.id <> a.id");
-    });
+  return (
+    db("assignments as a")
+      .join("exams as e", "e.id", "a.exam_id")
+      .join("applications as ap", "ap.id", "e.application_id")
+      .where("a.program_id", programId)
+      .whereIn("a.kind", ["primary", "second", "calibration"])
+      .where((q) => q.where("a.state", "open").orWhere((q2) => q2.where("a.state", "claimed").andWhere("a.lease_expires_at", "<=", db.fn.now())))
+      .where((q) => q.whereNull("a.assigned_to").orWhere("a.assigned_to", reviewerId))
+      .whereNot("e.sonographer_id", reviewerId)
+      // A calibration read is always handed to one reviewer and may repeat an exam they read.
+      .where((q) =>
+        q.where("a.kind", "calibration").orWhereNotExists(function () {
+          this.from("assignments as b")
+            .whereRaw("b.exam_id = a.exam_id")
+            .andWhere("b.reviewer_id", reviewerId)
+            .whereNot("b.state", "cancelled")
+            .whereNot("b.kind", "calibration")
+            .whereRaw("b.id <> a.id");
+        }),
+      )
+  );
 }
 
 export interface ClaimOptions {
@@ -72,7 +78,7 @@ export async function claimNext(db: Db, o: ClaimOptions): Promise<{ id: string; 
   return db.transaction(async (trx) => {
     const held = await trx("assignments")
       .where({ program_id: o.programId, reviewer_id: o.reviewerId, state: "claimed" })
-      .whereIn("kind", ["primary", "second"])
+      .whereIn("kind", ["primary", "second", "calibration"])
       .andWhere("lease_expires_at", ">", trx.fn.now())
       .orderBy("claimed_at")
       .first("id", "exam_id");

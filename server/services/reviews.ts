@@ -221,6 +221,7 @@ export async function recordReview(
     ip: r.ip,
     details: { examId: r.exam.id, assignment: r.assignment.kind, rubricVersion: r.rubric.version, scores: r.body.scores },
   });
-  const examState = await resolveAfterRead(trx, r.rubric, r.exam, r.settings);
+  // A calibration read measures the reviewer; it never decides the exam.
+  const examState = r.assignment.kind === "calibration" ? ("calibration" as const) : await resolveAfterRead(trx, r.rubric, r.exam, r.settings);
   return { review: review as { id: string; submitted_at: Date; credit: boolean }, examState };
 }

@@ -221,6 +221,18 @@ const MATRIX: Row[] = [
   { route: "GET /exams/:id/messages", call: async () => ({ path: `/api/exams/${(await ownExam()).id}/messages` }), expect: ownerOr(200, 200, 404) },
   { route: "GET /reports/agreement", call: fixed("/api/reports/agreement"), expect: only(["qa_lead", "admin"], 200) },
   { route: "GET /reports/program", call: fixed("/api/reports/program"), expect: only(["qa_lead", "admin"], 200) },
+  // One exam is too few for a calibration set: the QA lead gets as far as validation.
+  {
+    route: "POST /calibration-sets",
+    call: async () => ({ path: "/api/calibration-sets", body: { name: "Matrix", exams: [{ examId: (await claimed("open")).examId }] } }),
+    expect: only(["qa_lead"], 400),
+  },
+  { route: "GET /calibration-sets", call: fixed("/api/calibration-sets"), expect: only(["qa_lead"], 200) },
+  {
+    route: "GET /calibration-sets/:id/results",
+    call: fixed("/api/calibration-sets/00000000-0000-4000-8000-000000000000/results"),
+    expect: only(["qa_lead"], 404),
+  },
   { route: "GET /notifications", call: fixed("/api/notifications"), expect: signedIn(200) },
   { route: "POST /notifications/read", call: fixed("/api/notifications/read", {}), expect: signedIn(204) },
 ];
