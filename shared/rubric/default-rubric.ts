@@ -8,8 +8,18 @@ const lv = (value: string, label: string, anchor: string, fails = false) => ({ v
 
 export const DEFAULT_RUBRIC_NAME = "General image review";
 
+/** A required, non-critical level criterion for every application unless told otherwise. */
+const criterion = (c: Pick<Criterion, "key" | "label" | "help" | "kind" | "levels" | "tolerance"> & Partial<Criterion>): Criterion => ({
+  min: null,
+  max: null,
+  required: true,
+  critical: false,
+  applications: [],
+  ...c,
+});
+
 export const DEFAULT_CRITERIA: Criterion[] = [
-  {
+  criterion({
     key: "transducer",
     label: "Transducer and preset",
     help: "Was the transducer and preset suited to the target and its depth?",
@@ -19,14 +29,9 @@ export const DEFAULT_CRITERIA: Criterion[] = [
       lv("acceptable", "Acceptable", "Workable, though another transducer or preset would have shown the target better."),
       lv("unsuitable", "Unsuitable", "The transducer or preset prevents an adequate image of the target."),
     ],
-    min: null,
-    max: null,
-    required: true,
-    critical: false,
     tolerance: 1,
-    applications: [],
-  },
-  {
+  }),
+  criterion({
     key: "marker",
     label: "Orientation marker",
     help: "Does the screen orientation follow the convention for this application?",
@@ -39,14 +44,10 @@ export const DEFAULT_CRITERIA: Criterion[] = [
       ),
       lv("does_not", "Does not follow", "The image is flipped or rotated against the convention.", true),
     ],
-    min: null,
-    max: null,
-    required: true,
     critical: true,
     tolerance: 0,
-    applications: [],
-  },
-  {
+  }),
+  criterion({
     key: "depth",
     label: "Depth",
     help: "Does the target fill the screen without wasted depth below it?",
@@ -56,14 +57,9 @@ export const DEFAULT_CRITERIA: Criterion[] = [
       lv("fits", "Fits the target", "The target fills the screen with little unused depth below it."),
       lv("too_deep", "Too deep", "Much unused depth at the bottom: the target is small and resolution is wasted."),
     ],
-    min: null,
-    max: null,
-    required: true,
-    critical: false,
     tolerance: 0,
-    applications: [],
-  },
-  {
+  }),
+  criterion({
     key: "gain",
     label: "Gain",
     help: "Is fluid black and tissue shown with its expected brightness?",
@@ -73,14 +69,9 @@ export const DEFAULT_CRITERIA: Criterion[] = [
       lv("balanced", "Balanced", "Fluid is anechoic and tissue has its expected echogenicity."),
       lv("too_high", "Too high", "Fluid fills with noise; tissue is washed out."),
     ],
-    min: null,
-    max: null,
-    required: true,
-    critical: false,
     tolerance: 0,
-    applications: [],
-  },
-  {
+  }),
+  criterion({
     key: "plane",
     label: "Scan plane",
     help: "Was the standard plane for each view obtained?",
@@ -90,14 +81,9 @@ export const DEFAULT_CRITERIA: Criterion[] = [
       lv("partly", "Partly", "Some views are off-plane or miss a landmark."),
       lv("not_obtained", "Not obtained", "The standard planes were not obtained."),
     ],
-    min: null,
-    max: null,
-    required: true,
-    critical: false,
     tolerance: 1,
-    applications: [],
-  },
-  {
+  }),
+  criterion({
     key: "labels",
     label: "Labelling",
     help: "Are the clips labelled with their views and side?",
@@ -107,14 +93,9 @@ export const DEFAULT_CRITERIA: Criterion[] = [
       lv("incomplete", "Incomplete", "Some labels are missing."),
       lv("wrong", "Wrong", "A label names the wrong view or side."),
     ],
-    min: null,
-    max: null,
-    required: true,
-    critical: false,
     tolerance: 1,
-    applications: [],
-  },
-  {
+  }),
+  criterion({
     key: "quality",
     label: "Overall image quality",
     help: "Could a decision be made from these images?",
@@ -126,11 +107,6 @@ export const DEFAULT_CRITERIA: Criterion[] = [
       lv("4", "4", "Good, with minor flaws."),
       lv("5", "5", "Excellent."),
     ],
-    min: null,
-    max: null,
-    required: true,
-    critical: false,
     tolerance: 1,
-    applications: [],
-  },
+  }),
 ];
