@@ -1,8 +1,10 @@
-// A dot-and-whisker chart in plain SVG: one row per item, the dot at its value, the whisker
+// A dot-and-whisker chart (recharts): one row per item, the dot at its value, the whisker
 // across its interval, a reference line at zero, and the item's name and value written on
-// the chart (no legend to decode). Hidden from assistive technology: the table beside it
-// carries the same figures.
-import { AXIS, linear, niceTicks } from "./scale";
+// the chart (no legend to decode). One named image for assistive technology: the table
+// beside it carries the same figures.
+import { CartesianGrid, Cell, ErrorBar, LabelList, ReferenceLine, Scatter, ScatterChart, XAxis, YAxis } from "recharts";
+import { ChartImage } from "./chart-image";
+import { AXIS, AXIS_TICK, niceTicks } from "./scale";
 
 export interface DotWhiskerRow {
   id: string;
@@ -14,50 +16,74 @@ export interface DotWhiskerRow {
   text: string;
 }
 
-export function DotWhiskerChart({ rows, referenceLabel, formatTick }: { rows: DotWhiskerRow[]; referenceLabel: string; formatTick: (v: number) => string }) {
-  const width = 640;
-  const rowH = 40;
-  const top = 26;
-  const bottom = 28;
-  const left = 150;
-  const right = 70;
-  const height = top + rows.length * rowH + bottom;
+const WHISKER = "#324d66";
+
+/** Dots with 95 % whiskers around a zero line; `label` names the chart for screen readers. */
+export function DotWhiskerChart({
+  rows,
+  referenceLabel,
+  formatTick,
+  label,
+}: {
+  rows: DotWhiskerRow[];
+  referenceLabel: string;
+  formatTick: (v: number) => string;
+  label: string;
+}) {
   const reach = Math.max(0.5, ...rows.flatMap((r) => (r.interval ? r.interval.map(Math.abs) : [Math.abs(r.value)])));
   const lim = Math.ceil(reach * 4) / 4;
-  const x = linear([-lim, lim], [left, width - right]);
-  const ticks = niceTicks(-lim, lim, 6);
+  // Rows sit at y = 0, 1, 2 … (top to bottom); the whisker is the interval as distances
+  // below and above the value, which is what ErrorBar draws.
+  const data = rows.map((r, i) => ({
+    ...r,
+    y: i,
+    whisker: r.interval ? [r.value - r.interval[0], r.interval[1] - r.value] : [0, 0],
+  }));
   return (
-    <svg viewBox={`0 0 ${width} ${height}`} width="100%" role="presentation" aria-hidden="true" className="font-sans">
-      {ticks.map((t) => (
-        <g key={t}>
-          <line x1={x(t)} x2={x(t)} y1={top - 6} y2={height - bottom} stroke={AXIS.grid} />
-          <text x={x(t)} y={height - bottom + 16} textAnchor="middle" fontSize={11} fill={AXIS.text} className="tabular-nums">
-            {formatTick(t)}
-          </text>
-        </g>
-      ))}
-      <line x1={x(0)} x2={x(0)} y1={top - 10} y2={height - bottom} stroke={AXIS.ink} strokeWidth={1.5} />
-      <text x={x(0)} y={top - 14} textAnchor="middle" fontSize={11} fill={AXIS.text}>
-        {referenceLabel}
-      </text>
-      {rows.map((r, i) => {
-        const cy = top + i * rowH + rowH / 2;
-        const [lo, hi] = r.interval ?? [r.value, r.value];
-        return (
-          <g key={r.id}>
-            <text x={left - 10} y={cy + 4} textAnchor="end" fontSize={12} fill={AXIS.ink}>
-              {r.label}
-            </text>
-            <line x1={x(lo)} x2={x(hi)} y1={cy} y2={cy} stroke="#324d66" strokeWidth={1.5} />
-            <line x1={x(lo)} x2={x(lo)} y1={cy - 5} y2={cy + 5} stroke="#324d66" strokeWidth={1.5} />
-            <line x1={x(hi)} x2={x(hi)} y1={cy - 5} y2={cy + 5} stroke="#324d66" strokeWidth={1.5} />
-            <circle cx={x(r.value)} cy={cy} r={6} fill={r.colour} stroke={AXIS.ink} strokeWidth={1} />
-            <text x={x(hi) + 8} y={cy + 4} fontSize={12} fill={AXIS.ink} className="tabular-nums">
-              {r.text}
-            </text>
-          </g>
-        );
-      })}
-    </svg>
+    <ChartImage label={label}>
+      <ScatterChart
+        responsive
+        width="100%"
+        height={26 + rows.length * 40 + 28}
+        margin={{ top: 26, right: 30, bottom: 4, left: 10 }}
+        accessibilityLayer={false}
+        title={label}
+        desc={rows.map((r) => `${r.label}: ${r.text}`).join("; ")}
+      >
+        <CartesianGrid horizontal={false} stroke={AXIS.grid} />
+        <XAxis
+          type="number"
+          dataKey="value"
+          domain={[-lim, lim]}
+          ticks={niceTicks(-lim, lim, 6)}
+          tickFormatter={formatTick}
+          allowDataOverflow
+          tick={AXIS_TICK}
+          tickLine={false}
+          axisLine={false}
+        />
+        <YAxis
+          type="number"
+          dataKey="y"
+          domain={[-0.5, rows.length - 0.5]}
+          ticks={rows.map((_, i) => i)}
+          tickFormatter={(i: number) => rows[i]?.label ?? ""}
+          reversed
+          interval={0}
+          tick={{ fontSize: 12, fill: AXIS.ink }}
+          tickLine={false}
+          axisLine={false}
+          width={140}
+        />
+        <ReferenceLine x={0} stroke={AXIS.ink} strokeWidth={1.5} label={{ value: referenceLabel, position: "top", fontSize: 11, fill: AXIS.text }} />
+        <Scatter data={data} isAnimationActive={false} shape="circle" stroke={AXIS.ink} strokeWidth={1}>
+          {data.map((r) => (
+            <Cell key={r.id} fill={r.colour} />
+          ))}
+          <ErrorBar dataKey="whisker" direction="x" width={5} stroke={WHISKER} strokeWidth={1.5} />
+          <LabelList dataKey="text" position="top" offset={9} fontSize={12} fill={AXIS.ink} />
+        </Scatter>
+      </ScatterChart>
+    </ChartImage>
   );
 }

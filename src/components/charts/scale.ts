@@ -1,10 +1,5 @@
-// Small helpers shared by the SVG charts: a linear scale and "nice" tick values.
-
-/** Maps [d0, d1] onto [r0, r1] linearly. */
-export function linear([d0, d1]: [number, number], [r0, r1]: [number, number]): (v: number) => number {
-  const span = d1 - d0 || 1;
-  return (v) => r0 + ((v - d0) / span) * (r1 - r0);
-}
+// Small helpers shared by the report charts: "nice" tick values for count axes and the
+// axis colours.
 
 /** About `count` round tick values covering [lo, hi] (steps of 1, 2 or 5 × 10^k). */
 export function niceTicks(lo: number, hi: number, count = 5): number[] {
@@ -25,3 +20,6 @@ export function niceMax(max: number): number {
 }
 
 export const AXIS = { text: "#4b5a68", line: "#bcc5cd", grid: "#e9edf0", ink: "#1a2c3d" } as const;
+
+/** Tick text on every chart axis. */
+export const AXIS_TICK = { fontSize: 11, fill: AXIS.text } as const;

@@ -50,7 +50,13 @@ function Report({ data, stem }: { data: ProgramReport; stem: string }) {
         }
       >
         <Frame
-          chart={<BarChart bars={data.backlog.map((b) => ({ label: b.bucket, value: b.count }))} colour={OKABE_ITO[4]} />}
+          chart={
+            <BarChart
+              bars={data.backlog.map((b) => ({ label: b.bucket, value: b.count }))}
+              colour={OKABE_ITO[4]}
+              label={`Exams waiting for a read, by age: ${backlogTotal} in all`}
+            />
+          }
           table={
             <table className={t.table}>
               <caption className="sr-only">Exams waiting for a read, by age</caption>
@@ -103,6 +109,7 @@ function Report({ data, stem }: { data: ProgramReport; stem: string }) {
                 categories={data.weekly.map((w) => w.week)}
                 formatCategory={shortWeek}
                 unit="hours"
+                label="Turnaround per week in hours: median and 90th percentile"
                 series={[
                   { name: "Median", colour: OKABE_ITO[4], values: data.weekly.map((w) => w.turnaroundMedianHours) },
                   { name: "90th percentile", colour: OKABE_ITO[5], dashed: true, values: data.weekly.map((w) => w.turnaroundP90Hours) },
@@ -170,6 +177,7 @@ function Report({ data, stem }: { data: ProgramReport; stem: string }) {
               <StackedBarChart
                 categories={weeks}
                 formatCategory={shortWeek}
+                label="Exams submitted per week, stacked by application"
                 series={apps.map((a, i) => ({ name: a, colour: seriesColour(i), values: weeks.map((w) => volumeOf(w, a)) }))}
               />
             )
