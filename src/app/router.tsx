@@ -126,6 +126,21 @@ export const router = createBrowserRouter([
                 lazy: page(() => import("../features/oversight/routes/follow-ups")),
               },
               {
+                path: "oversight/calibration",
+                loader: requireRoles(["qa_lead"]),
+                lazy: page(() => import("../features/calibration/routes/calibration-sets")),
+              },
+              {
+                path: "oversight/calibration/new",
+                loader: requireRoles(["qa_lead"]),
+                lazy: page(() => import("../features/calibration/routes/new-calibration-set")),
+              },
+              {
+                path: "oversight/calibration/:id",
+                loader: requireRoles(["qa_lead"]),
+                lazy: page(() => import("../features/calibration/routes/calibration-results")),
+              },
+              {
                 path: "oversight/agreement",
                 loader: requireRoles(["qa_lead", "admin"]),
                 lazy: page(() => import("../features/agreement/routes/agreement")),

@@ -35,6 +35,7 @@ export const NAV_GROUPS: NavGroup[] = [
     items: [
       { to: "/oversight/adjudication", label: "Adjudication", roles: ["qa_lead"] },
       { to: "/oversight/agreement", label: "Agreement", roles: ["qa_lead", "admin"] },
+      { to: "/oversight/calibration", label: "Calibration", roles: ["qa_lead"] },
       { to: "/oversight/follow-ups", label: "Follow-ups", roles: ["qa_lead"] },
       { to: "/oversight/program", label: "Program", roles: ["qa_lead", "admin"] },
     ],

@@ -1,0 +1,98 @@
+// Agreement among all of a set's reviewers, per criterion: Fleiss' kappa with its 95 %
+// interval, Krippendorff's alpha, and the band in words. Anything not computable shows "—".
+import { ReportSection, tableClasses as t } from "../../../components/ui/report-section";
+import type { CalibrationCriterion } from "../api/calibration";
+import { bandWords, formatCoefficient, formatInterval } from "./stat-format";
+
+function Missing({ reason }: { reason: string }) {
+  return (
+    <span title={reason} className="cursor-help text-slate-600 underline decoration-dotted underline-offset-2">
+      —<span className="sr-only"> (not computable: {reason})</span>
+    </span>
+  );
+}
+
+function reasonFor(c: CalibrationCriterion): string {
+  if (c.units === 0) return "No exam has been read by every reviewer yet.";
+  if (c.units < 2) return "Only one exam has been read by every reviewer: one exam cannot separate agreement from chance.";
+  return "Not computable from these reads (for example, every reviewer gave one and the same value).";
+}
+
+export function CriteriaAgreementTable({ criteria }: { criteria: CalibrationCriterion[] }) {
+  return (
+    <ReportSection
+      title="Agreement per criterion"
+      description={
+        <>
+          Fleiss&apos; kappa over the exams every reviewer has read, with its 95 % interval; Krippendorff&apos;s alpha over all reads, missing ones included.
+          The band is read from kappa.
+        </>
+      }
+    >
+      <div className={t.wrap}>
+        <table className={t.table}>
+          <caption className="sr-only">Agreement among the set&apos;s reviewers per criterion</caption>
+          <thead className={t.thead}>
+            <tr>
+              <th scope="col" className={t.th}>
+                Criterion
+              </th>
+              <th scope="col" className={t.thNum}>
+                Read by all
+              </th>
+              <th scope="col" className={t.thNum}>
+                Fleiss&apos; kappa
+              </th>
+              <th scope="col" className={t.thNum}>
+                Krippendorff&apos;s alpha
+              </th>
+              <th scope="col" className={t.th}>
+                Band
+              </th>
+            </tr>
+          </thead>
+          <tbody className={t.tbody}>
+            {criteria.map((c) => {
+              const reason = reasonFor(c);
+              const kappa = c.fleiss?.value ?? null;
+              return (
+                <tr key={c.key} className="align-top" data-criterion={c.key}>
+                  <th scope="row" className="px-3 py-2 font-semibold text-ink-900">
+                    {c.label}
+                  </th>
+                  <td className={t.tdNum}>{c.units}</td>
+                  <td className={t.tdNum}>
+                    {kappa === null ? (
+                      <Missing reason={reason} />
+                    ) : (
+                      <span className="inline-flex flex-col items-end">
+                        <span data-stat="fleiss" className="font-semibold">
+                          {formatCoefficient(kappa)}
+                        </span>
+                        {c.fleiss?.ci95 ? (
+                          <span className="text-xs text-slate-600">{formatInterval(c.fleiss.ci95)}</span>
+                        ) : (
+                          <span className="text-xs text-slate-500">no interval</span>
+                        )}
+                      </span>
+                    )}
+                  </td>
+                  <td className={t.tdNum}>
+                    {c.alpha.value === null ? (
+                      <Missing reason={reason} />
+                    ) : (
+                      <span data-stat="alpha" className="font-semibold">
+                        {formatCoefficient(c.alpha.value)}
+                      </span>
+                    )}
+                  </td>
+                  <td className={t.td}>{c.band ? bandWords(c.band) : <Missing reason={reason} />}</td>
+                </tr>
+              );
+            })}
+          </tbody>
+        </table>
+      </div>
+    </ReportSection>
+  );
+}
