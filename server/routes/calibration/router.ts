@@ -147,7 +147,8 @@ export function registerCalibrationRoutes(kit: RouteKit, { db }: RouteContext) {
           ),
         );
         const categories = c.kind === "ordinal" ? c.levels.map((_, i) => i) : c.levels.map((l) => l.value);
-        const completeRows = matrix.filter((row) => row.every((v) => v !== null));
+        // Only exams every reviewer has read; with fewer than two readers there is nothing to compare.
+        const completeRows = reviewers.length < 2 ? [] : matrix.filter((row) => row.every((v) => v !== null));
         const fleiss = completeRows.length && c.kind !== "number" ? fleissKappa(completeRows, { categories }) : null;
         const alpha = krippendorffAlpha(matrix, { level: c.kind === "ordinal" ? "ordinal" : c.kind === "number" ? "interval" : "nominal" });
         return {
