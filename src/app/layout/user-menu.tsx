@@ -1,12 +1,13 @@
 // The account panel: who is signed in, in which program, with which roles; change
 // password and sign out. A disclosure (button + panel), closed by Escape or a click outside.
-import { useEffect, useId, useRef, useState } from "react";
+import { useCallback, useId, useRef, useState } from "react";
 import { Link, useLocation, useNavigate } from "react-router-dom";
 import { useQueryClient } from "@tanstack/react-query";
 import { ChevronDown, KeyRound, LogOut } from "lucide-react";
 import { ROLE_LABELS } from "../../../shared/roles";
 import type { SessionUser } from "../../../shared/schemas/auth";
 import { sessionKey, signOut } from "../../lib/session";
+import { useDismiss } from "../../lib/use-dismiss";
 
 const menuItem = "flex w-full items-center gap-2 rounded-md px-2 py-1.5 text-left font-semibold text-sea-700 hover:bg-sea-50 disabled:opacity-60";
 
@@ -30,24 +31,8 @@ export function UserMenu({ user }: { user: SessionUser }) {
   const open = openOn === location.key;
   const setOpen = (value: boolean) => setOpenOn(value ? location.key : null);
 
-  useEffect(() => {
-    if (!open) return;
-    function onPointer(event: PointerEvent) {
-      if (!rootRef.current?.contains(event.target as Node)) setOpenOn(null);
-    }
-    function onKey(event: KeyboardEvent) {
-      if (event.key === "Escape") {
-        setOpenOn(null);
-        buttonRef.current?.focus();
-      }
-    }
-    document.addEventListener("pointerdown", onPointer);
-    document.addEventListener("keydown", onKey);
-    return () => {
-      document.removeEventListener("pointerdown", onPointer);
-      document.removeEventListener("keydown", onKey);
-    };
-  }, [open]);
+  const close = useCallback(() => setOpenOn(null), []);
+  useDismiss(open, close, rootRef, buttonRef);
 
   async function handleSignOut() {
     setSigningOut(true);

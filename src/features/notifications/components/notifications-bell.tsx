@@ -1,10 +1,11 @@
 // The header bell: the unread count in words for assistive technology and as a badge, and a
 // panel listing notifications. Opening one marks it read and goes to its exam's feedback.
-import { useEffect, useId, useRef, useState } from "react";
+import { useCallback, useId, useRef, useState } from "react";
 import { useLocation, useNavigate } from "react-router-dom";
 import { Bell, Dot } from "lucide-react";
 import { formatDateTime } from "../../../lib/format";
 import { notificationTarget, useMarkRead, useNotifications, type AppNotification } from "../api/notifications";
+import { useDismiss } from "../../../lib/use-dismiss";
 
 export function NotificationsBell() {
   const query = useNotifications();
@@ -19,24 +20,8 @@ export function NotificationsBell() {
   const open = openOn === location.key;
   const unread = query.data?.unread ?? 0;
 
-  useEffect(() => {
-    if (!open) return;
-    function onPointer(event: PointerEvent) {
-      if (!rootRef.current?.contains(event.target as Node)) setOpenOn(null);
-    }
-    function onKey(event: KeyboardEvent) {
-      if (event.key === "Escape") {
-        setOpenOn(null);
-        buttonRef.current?.focus();
-      }
-    }
-    document.addEventListener("pointerdown", onPointer);
-    document.addEventListener("keydown", onKey);
-    return () => {
-      document.removeEventListener("pointerdown", onPointer);
-      document.removeEventListener("keydown", onKey);
-    };
-  }, [open]);
+  const close = useCallback(() => setOpenOn(null), []);
+  useDismiss(open, close, rootRef, buttonRef);
 
   function openNotification(n: AppNotification) {
     if (!n.read) markRead.mutate([n.id]);
