@@ -16,14 +16,14 @@ import { NotificationsBell } from "../../features/notifications/components/notif
 export function AppLayout() {
   const { data: user } = useQuery(sessionQuery);
   const location = useLocation();
-  const first = useRef(true);
+  // The path focus was last placed for: a first load (and React's development-mode second
+  // run of effects) leaves focus where the browser put it; only a real page change moves it.
+  const lastPath = useRef(location.pathname);
   const mainRef = useRef<HTMLElement>(null);
 
   useEffect(() => {
-    if (first.current) {
-      first.current = false;
-      return;
-    }
+    if (lastPath.current === location.pathname) return;
+    lastPath.current = location.pathname;
     const heading = mainRef.current?.querySelector<HTMLElement>("h1");
     (heading ?? mainRef.current)?.focus();
   }, [location.pathname]);
