@@ -79,6 +79,19 @@ export const programSettingsSchema = z.object({
   minQualityForCredit: z.number().int().min(1).max(5).default(3),
   /** Credited exams needed per application (demo default 25). */
   credentialingThreshold: z.number().int().min(1).max(1000).default(25),
+  // Learning-curve CUSUM (shared/stats/cusum.ts). A failure is a reviewed exam without
+  // credentialing credit. Defaults: acceptable failure rate 10%, unacceptable 20%, alpha =
+  // beta = 0.10, the values most often chosen in published procedural learning-curve
+  // CUSUMs after Bolsin & Colson (2000, Int J Qual Health Care 12:433) — common practice,
+  // quoted from memory; a program should set its own.
+  /** Acceptable failure rate p0 (H0). */
+  cusumAcceptableRate: z.number().gt(0).lt(1).default(0.1),
+  /** Unacceptable failure rate p1 (H1), above p0. */
+  cusumUnacceptableRate: z.number().gt(0).lt(1).default(0.2),
+  /** Type I error: chance of signalling "unacceptable" for a learner at p0. */
+  cusumAlpha: z.number().gt(0).lt(0.5).default(0.1),
+  /** Type II error: chance of signalling "competent" for a learner at p1. */
+  cusumBeta: z.number().gt(0).lt(0.5).default(0.1),
 });
 export type ProgramSettings = z.infer<typeof programSettingsSchema>;
 export const programSettingsUpdateSchema = programSettingsSchema.partial();
