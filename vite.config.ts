@@ -10,7 +10,7 @@ export default defineConfig({
     proxy: { "/api": "http://127.0.0.1:3000" },
   },
   build: {
-    outDir: "dist",
+    outDir: process.env.CLIENT_DIST ?? "dist",
     sourcemap: false,
     chunkSizeWarningLimit: 600,
   },

@@ -5,7 +5,7 @@ import path from "node:path";
 import zlib from "node:zlib";
 
 const BUDGET_KB = Number(process.env.ENTRY_BUDGET_KB ?? 200);
-const dist = path.resolve("dist");
+const dist = path.resolve(process.env.CLIENT_DIST ?? "dist");
 const html = fs.readFileSync(path.join(dist, "index.html"), "utf8");
 const entries = [...html.matchAll(/<script[^>]+src="\/?([^"]+\.js)"/g)].map((m) => m[1]);
 const preloads = [...html.matchAll(/<link[^>]+rel="modulepreload"[^>]+href="\/?([^"]+\.js)"/g)].map((m) => m[1]);

@@ -15,6 +15,8 @@ import { startFakeMail } from "./lib/mail-server";
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 const bin = (p: string) => path.join(root, "node_modules", p);
 const only = process.argv[2]; // optional: "unit" or "browser"
+// Optional filters after it go to vitest or Playwright (e.g. `unit tests/api/progress.test.ts`).
+const filters = process.argv.slice(3);
 
 function run(cmd: string, args: string[], opts: SpawnOptions = {}): Promise<number> {
   return new Promise((resolve) => {
@@ -54,7 +56,7 @@ try {
 
   if (!only || only === "unit") {
     console.log("== vitest (unit and API tests)");
-    if ((await run(process.execPath, [bin("vitest/vitest.mjs"), "run"], { env })) !== 0) failures.push("vitest");
+    if ((await run(process.execPath, [bin("vitest/vitest.mjs"), "run", ...filters], { env })) !== 0) failures.push("vitest");
   }
 
   if (!only || only === "browser") {
@@ -79,7 +81,9 @@ try {
         );
       }
       if (!up) failures.push("app server did not start");
-      else if ((await run(process.execPath, [bin("@playwright/test/cli.js"), "test"], { env: { ...env, BASE_URL: `http://127.0.0.1:${port}` } })) !== 0)
+      else if (
+        (await run(process.execPath, [bin("@playwright/test/cli.js"), "test", ...filters], { env: { ...env, BASE_URL: `http://127.0.0.1:${port}` } })) !== 0
+      )
         failures.push("playwright");
     }
   }

@@ -41,7 +41,8 @@ export interface AppDeps {
 }
 
 const here = path.dirname(fileURLToPath(import.meta.url));
-const CLIENT_DIR = path.resolve(here, "../dist");
+// CLIENT_DIST lets parallel test runs in one checkout build and serve their own copy.
+const CLIENT_DIR = path.resolve(here, "..", process.env.CLIENT_DIST ?? "dist");
 
 /** Builds the app and returns it with the table of its API routes. */
 export function buildApp(deps: AppDeps) {
