@@ -106,6 +106,11 @@ export const router = createBrowserRouter([
                 lazy: page(() => import("../features/feedback/routes/feedback-list")),
               },
               {
+                path: "progress",
+                loader: requireRoles(["sonographer"]),
+                lazy: page(() => import("../features/progress/routes/progress")),
+              },
+              {
                 path: "feedback/:examId",
                 loader: requireRoles(["sonographer"]),
                 lazy: page(() => import("../features/feedback/routes/feedback-detail")),
@@ -144,6 +149,21 @@ export const router = createBrowserRouter([
                 path: "oversight/agreement",
                 loader: requireRoles(["qa_lead", "admin"]),
                 lazy: page(() => import("../features/agreement/routes/agreement")),
+              },
+              {
+                path: "oversight/roster",
+                loader: requireRoles(["qa_lead"]),
+                lazy: page(() => import("../features/roster/routes/roster")),
+              },
+              {
+                path: "oversight/roster/:userId",
+                loader: requireRoles(["qa_lead"]),
+                lazy: page(() => import("../features/roster/routes/sonographer")),
+              },
+              {
+                path: "oversight/reports",
+                loader: requireRoles(["qa_lead"]),
+                lazy: page(() => import("../features/roster/routes/reports")),
               },
               {
                 path: "oversight/program",

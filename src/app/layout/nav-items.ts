@@ -24,6 +24,7 @@ export const NAV_GROUPS: NavGroup[] = [
       { to: "/exams/new", label: "Submit", roles: ["sonographer"] },
       { to: "/exams", label: "My exams", roles: ["sonographer"], end: true },
       { to: "/feedback", label: "Feedback", roles: ["sonographer"] },
+      { to: "/progress", label: "Progress", roles: ["sonographer"] },
     ],
   },
   {
@@ -38,6 +39,8 @@ export const NAV_GROUPS: NavGroup[] = [
       { to: "/oversight/calibration", label: "Calibration", roles: ["qa_lead"] },
       { to: "/oversight/follow-ups", label: "Follow-ups", roles: ["qa_lead"] },
       { to: "/oversight/program", label: "Program", roles: ["qa_lead", "admin"] },
+      { to: "/oversight/roster", label: "Roster", roles: ["qa_lead"] },
+      { to: "/oversight/reports", label: "Reports", roles: ["qa_lead"] },
     ],
   },
   {
