@@ -1,6 +1,6 @@
-// Setup → Program settings: the double-read share, blinding, turnaround target, claim length
-// and the credentialing rule, each explained in plain words. The double-read share is edited
-// as a percentage and stored as a fraction.
+// Setup → Program settings: the double-read share, blinding, turnaround target, claim length,
+// the credentialing rule and the learning-curve (CUSUM) settings, each explained in plain
+// words. Shares and rates are edited as percentages and stored as fractions.
 import type { ComponentProps } from "react";
 import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
@@ -10,16 +10,67 @@ import { Button } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { PageHeader } from "../../../components/ui/page-header";
 import { ErrorState, LoadingState } from "../../../components/ui/states";
+import { fieldErrors, isApiError } from "../../../lib/api-client";
 import { TextField } from "../../../components/ui/text-field";
 import { useSettings, useUpdateSettings } from "../api/settings";
 
-const formSchema = programSettingsSchema.omit({ doubleReadShare: true }).extend({
-  doubleReadPercent: z.number({ message: "Enter a percentage" }).min(0, "At least 0%").max(100, "At most 100%"),
-});
+const percent = (max: number) => z.number({ message: "Enter a percentage" }).gt(0, "Above 0%").lt(max, `Below ${max}%`);
+
+const formSchema = programSettingsSchema
+  .omit({ doubleReadShare: true, cusumAcceptableRate: true, cusumUnacceptableRate: true, cusumAlpha: true, cusumBeta: true })
+  .extend({
+    doubleReadPercent: z.number({ message: "Enter a percentage" }).min(0, "At least 0%").max(100, "At most 100%"),
+    cusumAcceptablePercent: percent(100),
+    cusumUnacceptablePercent: percent(100),
+    cusumAlphaPercent: percent(50),
+    cusumBetaPercent: percent(50),
+  })
+  .refine((v) => v.cusumUnacceptablePercent > v.cusumAcceptablePercent, {
+    path: ["cusumUnacceptablePercent"],
+    message: "The unacceptable failure rate must be above the acceptable one",
+  });
 type FormInput = z.input<typeof formSchema>;
 type FormValues = z.output<typeof formSchema>;
 
-const toForm = ({ doubleReadShare, ...rest }: ProgramSettings): FormValues => ({ ...rest, doubleReadPercent: Math.round(doubleReadShare * 1000) / 10 });
+/** A fraction as a percentage with at most one decimal (0.125 → 12.5). */
+const toPercent = (fraction: number) => Math.round(fraction * 1000) / 10;
+
+const toForm = ({ doubleReadShare, cusumAcceptableRate, cusumUnacceptableRate, cusumAlpha, cusumBeta, ...rest }: ProgramSettings): FormValues => ({
+  ...rest,
+  doubleReadPercent: toPercent(doubleReadShare),
+  cusumAcceptablePercent: toPercent(cusumAcceptableRate),
+  cusumUnacceptablePercent: toPercent(cusumUnacceptableRate),
+  cusumAlphaPercent: toPercent(cusumAlpha),
+  cusumBetaPercent: toPercent(cusumBeta),
+});
+
+/** Server field names (fractions) → the form's percentage fields, so a 400 lands next to the right input. */
+const SERVER_FIELDS = {
+  doubleReadShare: "doubleReadPercent",
+  cusumAcceptableRate: "cusumAcceptablePercent",
+  cusumUnacceptableRate: "cusumUnacceptablePercent",
+  cusumAlpha: "cusumAlphaPercent",
+  cusumBeta: "cusumBetaPercent",
+  leaseMinutes: "leaseMinutes",
+  turnaroundHours: "turnaroundHours",
+  minQualityForCredit: "minQualityForCredit",
+  credentialingThreshold: "credentialingThreshold",
+} as const satisfies Record<string, keyof FormValues>;
+
+/**
+ * The field errors of a refused save, keyed by form field: from validation details when the
+ * server sent them, else from a message that starts with or names a settings field.
+ */
+function serverFieldErrors(error: unknown): Partial<Record<keyof FormValues, string>> {
+  const out: Partial<Record<keyof FormValues, string>> = {};
+  const byField = fieldErrors(error);
+  for (const [server, field] of Object.entries(SERVER_FIELDS)) if (byField[server]) out[field] = byField[server];
+  if (Object.keys(out).length === 0 && isApiError(error, 400)) {
+    const named = Object.keys(SERVER_FIELDS).find((f) => new RegExp(`\\b${f}\\b`).test(error.message));
+    if (named) out[SERVER_FIELDS[named as keyof typeof SERVER_FIELDS]] = error.message.replace(new RegExp(`^${named}:\\s*`), "");
+  }
+  return out;
+}
 
 function Toggle({ id, label, hint, ...input }: { id: string; label: string; hint: string } & ComponentProps<"input">) {
   return (
@@ -43,14 +94,30 @@ function SettingsForm({ settings }: { settings: ProgramSettings }) {
   const { errors } = form.formState;
   const num = { valueAsNumber: true } as const;
 
-  const onSubmit = form.handleSubmit(async ({ doubleReadPercent, ...rest }) => {
-    try {
-      const saved = await update.mutateAsync({ ...rest, doubleReadShare: doubleReadPercent / 100 });
-      form.reset(toForm(saved));
-    } catch {
-      // Shown from update.error.
-    }
-  });
+  const onSubmit = form.handleSubmit(
+    async ({ doubleReadPercent, cusumAcceptablePercent, cusumUnacceptablePercent, cusumAlphaPercent, cusumBetaPercent, ...rest }) => {
+      try {
+        const saved = await update.mutateAsync({
+          ...rest,
+          doubleReadShare: doubleReadPercent / 100,
+          cusumAcceptableRate: cusumAcceptablePercent / 100,
+          cusumUnacceptableRate: cusumUnacceptablePercent / 100,
+          cusumAlpha: cusumAlphaPercent / 100,
+          cusumBeta: cusumBetaPercent / 100,
+        });
+        form.reset(toForm(saved));
+      } catch (error) {
+        // A refusal that names a field goes next to it; anything else shows from update.error.
+        const fields = serverFieldErrors(error);
+        let first = true;
+        for (const [field, message] of Object.entries(fields) as [keyof FormValues, string][]) {
+          form.setError(field, { type: "server", message }, { shouldFocus: first });
+          first = false;
+        }
+      }
+    },
+  );
+  const unplacedError = update.isError && Object.keys(serverFieldErrors(update.error)).length === 0 ? update.error.message : null;
 
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-6">
@@ -123,7 +190,59 @@ function SettingsForm({ settings }: { settings: ProgramSettings }) {
           {...form.register("credentialingThreshold", num)}
         />
       </fieldset>
-      <FormMessage message={update.isError ? update.error.message : null} />
+      <fieldset className="space-y-4 rounded-lg border border-slate-200 bg-white p-5" aria-describedby="cusum-about">
+        <legend className="px-1 text-lg font-semibold text-ink-950">Learning curve</legend>
+        <p id="cusum-about" className="max-w-prose text-sm text-slate-600">
+          Each application&apos;s learning curve is a CUSUM over the sonographer&apos;s reviewed exams in the order performed; an exam without credentialing
+          credit counts as a failure. The defaults (acceptable 10%, unacceptable 20%, false alarm 10% and missed signal 10%, that is α = β = 0.10) are common
+          practice in published learning-curve CUSUMs for procedures; set your own if your program&apos;s policy differs.
+        </p>
+        <TextField
+          label="Acceptable failure rate (%)"
+          type="number"
+          min={0.1}
+          max={99.9}
+          step={0.1}
+          className="max-w-xs"
+          hint="The share of exams without credit that is still fine for a competent sonographer. The curve signals competence when a learner performs at or below it. Default 10%."
+          error={errors.cusumAcceptablePercent?.message}
+          {...form.register("cusumAcceptablePercent", num)}
+        />
+        <TextField
+          label="Unacceptable failure rate (%)"
+          type="number"
+          min={0.1}
+          max={99.9}
+          step={0.1}
+          className="max-w-xs"
+          hint="The share of exams without credit that is too high; must be above the acceptable rate. The curve signals a problem when a learner performs at or above it. Default 20%."
+          error={errors.cusumUnacceptablePercent?.message}
+          {...form.register("cusumUnacceptablePercent", num)}
+        />
+        <TextField
+          label="False alarm chance, alpha (%)"
+          type="number"
+          min={0.1}
+          max={49.9}
+          step={0.1}
+          className="max-w-xs"
+          hint="How often the curve may wrongly signal an unacceptable rate for a sonographer who is in fact at the acceptable rate. Lower means more exams before any signal. Default 10% (0.10)."
+          error={errors.cusumAlphaPercent?.message}
+          {...form.register("cusumAlphaPercent", num)}
+        />
+        <TextField
+          label="Missed signal chance, beta (%)"
+          type="number"
+          min={0.1}
+          max={49.9}
+          step={0.1}
+          className="max-w-xs"
+          hint="How often the curve may wrongly signal competence for a sonographer who is in fact at the unacceptable rate. Lower means more exams before competence is signalled. Default 10% (0.10)."
+          error={errors.cusumBetaPercent?.message}
+          {...form.register("cusumBetaPercent", num)}
+        />
+      </fieldset>
+      <FormMessage message={unplacedError} />
       <FormMessage
         tone="success"
         message={update.isSuccess && !form.formState.isDirty ? "Settings saved. They apply from now on; past results keep theirs." : null}
@@ -147,7 +266,7 @@ export default function ProgramSettingsPage() {
       <PageHeader
         eyebrow="Setup"
         title="Program settings"
-        description="How the program reads, blinds and credits exams. Changes apply to exams submitted or decided from now on."
+        description="How the program reads, blinds and credits exams, and how learning curves judge progress. Changes apply to exams submitted or decided from now on."
       />
       {query.isPending ? (
         <LoadingState label="Loading the settings…" />
