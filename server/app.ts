@@ -26,6 +26,7 @@ import { registerOversightRoutes } from "./routes/oversight/router";
 import { registerRubricRoutes } from "./routes/rubrics/router";
 import { registerFeedbackRoutes } from "./routes/feedback/router";
 import { registerReportRoutes } from "./routes/reports/router";
+import { registerProgressRoutes } from "./routes/progress/router";
 import { registerCalibrationRoutes } from "./routes/calibration/router";
 import type { Storage } from "./storage/types";
 import type { JobQueue } from "./jobs/queue";
@@ -82,6 +83,7 @@ export function buildApp(deps: AppDeps) {
   registerRubricRoutes(kit, ctx);
   registerFeedbackRoutes(kit, ctx);
   registerReportRoutes(kit, ctx);
+  registerProgressRoutes(kit, ctx);
   registerCalibrationRoutes(kit, ctx);
 
   let openapi: unknown;

@@ -15,18 +15,23 @@ import { replyPosted, runAfterCommit } from "../../services/notify";
 import type { AuthUser } from "../../auth/types";
 
 export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log }: RouteContext) {
-  const reviewedOwn = (user: AuthUser) =>
+  const reviewedOf = (programId: string, sonographerId: string) =>
     db("exams as e")
       .join("applications as ap", "ap.id", "e.application_id")
       .join("exam_results as r", "r.exam_id", "e.id")
-      .where({ "e.program_id": user.programId, "e.sonographer_id": user.id, "e.status": "reviewed" });
+      .where({ "e.program_id": programId, "e.sonographer_id": sonographerId, "e.status": "reviewed" });
+  const reviewedOwn = (user: AuthUser) => reviewedOf(user.programId, user.id);
 
-  async function feedbackDetail(user: AuthUser, examId: string) {
-    const row = await reviewedOwn(user)
+  /**
+   * One reviewed exam's feedback as its sonographer sees it. `lead` views (a QA lead's page
+   * about a sonographer) always carry the reviewers' names.
+   */
+  async function feedbackDetail(user: AuthUser, examId: string, sonographerId = user.id, lead = false) {
+    const row = await reviewedOf(user.programId, sonographerId)
       .where("e.id", examId)
       .first("e.*", "ap.code as app_code", "ap.name as app_name", "r.scores", "r.reads", "r.credit", "r.source", "r.decided_at", "r.rubric_id", "r.note");
     if (!row) throw notFound("Feedback");
-    const [rubric, settings, reviews, outcomes, snippets, messages] = await Promise.all([
+    const [rubric, programSettings, reviews, outcomes, snippets, messages] = await Promise.all([
       getRubric(db, user.programId, row.rubric_id),
       getSettings(db, user.programId),
       db("reviews as v")
@@ -47,6 +52,7 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log 
         .orderBy("m.created_at")
         .select("m.id", "m.body", "m.created_at", "u.name", "m.author_id"),
     ]);
+    const settings = lead ? { ...programSettings, showReviewerName: true } : programSettings;
     const criteria = rubric ? criteriaFor(rubric.criteria, row.app_code) : [];
     const significant = row.setting === "clinical" && outcomes.some((o) => o.outcome === "FP" || o.outcome === "FN");
     const creditReasons = rubric ? creditFor(rubric.criteria, row.app_code, row.scores, significant, { minQuality: settings.minQualityForCredit }).reasons : [];
@@ -102,6 +108,25 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log 
       const unread = new Set(await db("notifications").where({ user_id: user.id, kind: "feedback_ready" }).whereNull("read_at").pluck("exam_id"));
       const items = [];
       for (const r of rows) items.push({ ...(await feedbackDetail(user, r.id)), unread: unread.has(r.id) });
+      return { items };
+    },
+  });
+
+  defineRoute(kit, {
+    method: "get",
+    path: "/roster/:id/feedback",
+    summary: "A sonographer's reviewed exams with their feedback and the reviewers' names (QA lead)",
+    tag: "progress",
+    access: ["qa_lead"],
+    params: idParamsSchema,
+    responses: { 200: { description: "Feedback" }, 404: { description: "Not a sonographer of this program" } },
+    handler: async ({ user, params }) => {
+      const member = await db("memberships").where({ program_id: user.programId, user_id: params.id }).whereRaw(`'sonographer' = ANY(roles)`).first("id");
+      if (!member) throw notFound("Sonographer");
+      const rows = await reviewedOf(user.programId, params.id).orderBy("r.decided_at", "desc").limit(200).select("e.id");
+      const unread = new Set(await db("notifications").where({ user_id: params.id, kind: "feedback_ready" }).whereNull("read_at").pluck("exam_id"));
+      const items = [];
+      for (const r of rows) items.push({ ...(await feedbackDetail(user, r.id, params.id, true)), unread: unread.has(r.id) });
       return { items };
     },
   });
