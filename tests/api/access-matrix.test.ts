@@ -233,6 +233,22 @@ const MATRIX: Row[] = [
     call: fixed("/api/calibration-sets/00000000-0000-4000-8000-000000000000/results"),
     expect: only(["qa_lead"], 404),
   },
+  { route: "GET /me/progress", call: fixed("/api/me/progress"), expect: only(["sonographer"], 200) },
+  { route: "GET /roster", call: fixed("/api/roster"), expect: only(["qa_lead"], 200) },
+  { route: "GET /roster/:id/progress", call: async () => ({ path: `/api/roster/${members.sonographer.id}/progress` }), expect: only(["qa_lead"], 200) },
+  { route: "GET /roster/:id/feedback", call: async () => ({ path: `/api/roster/${members.sonographer.id}/feedback` }), expect: only(["qa_lead"], 200) },
+  // The exam's sonographer and a QA lead; a reviewer without an assignment meets the role gate.
+  {
+    route: "GET /exams/:id/confirmations",
+    call: async () => ({ path: `/api/exams/${(await ownExam()).id}/confirmations` }),
+    expect: { anonymous: 401, sonographer: 200, reviewer: 403, qa_lead: 200, admin: 403 },
+  },
+  // A draft takes no confirmatory results yet.
+  {
+    route: "PUT /exams/:id/confirmations",
+    call: async () => ({ path: `/api/exams/${(await ownExam()).id}/confirmations`, body: { items: [] } }),
+    expect: { anonymous: 401, sonographer: 409, reviewer: 403, qa_lead: 409, admin: 403 },
+  },
   { route: "GET /notifications", call: fixed("/api/notifications"), expect: signedIn(200) },
   { route: "POST /notifications/read", call: fixed("/api/notifications/read", {}), expect: signedIn(204) },
 ];
