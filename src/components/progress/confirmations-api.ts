@@ -1,0 +1,39 @@
+// Confirmatory results of one exam (GET/PUT /api/exams/:id/confirmations), shared by the
+// sonographer's exam page and the QA lead's page of a sonographer. Saving refreshes every
+// progress figure that may count them (the learner's ["progress"] and the lead's ["roster"]).
+import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import type { Confirmation, ConfirmationsInput } from "../../../shared/schemas/progress";
+import { api } from "../../lib/api-client";
+
+export const confirmationKeys = {
+  all: ["confirmations"] as const,
+  exam: (examId: string) => ["confirmations", examId] as const,
+};
+
+/** One exam's confirmatory results: one item per finding of its application. */
+export const confirmationsQuery = (examId: string) =>
+  queryOptions({
+    queryKey: confirmationKeys.exam(examId),
+    queryFn: ({ signal }) => api<{ items: Confirmation[] }>(`/exams/${examId}/confirmations`, { signal }),
+    // A 403/404 is an answer (not the exam's sonographer nor a QA lead), not a hiccup to retry.
+    retry: (count, error) => count < 2 && !(error instanceof Error && "status" in error && [403, 404, 409].includes(Number(error.status))),
+  });
+
+export function useConfirmations(examId: string, enabled = true) {
+  return useQuery({ ...confirmationsQuery(examId), enabled: enabled && !!examId });
+}
+
+/** Replaces the exam's confirmatory results with the entered ones. */
+export function useSaveConfirmations(examId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (body: ConfirmationsInput) => api<{ items: Confirmation[] }>(`/exams/${examId}/confirmations`, { method: "PUT", body }),
+    onSuccess: (result) => queryClient.setQueryData(confirmationKeys.exam(examId), result),
+    onSettled: () =>
+      Promise.all([
+        queryClient.invalidateQueries({ queryKey: confirmationKeys.exam(examId) }),
+        queryClient.invalidateQueries({ queryKey: ["progress"] }),
+        queryClient.invalidateQueries({ queryKey: ["roster"] }),
+      ]),
+  });
+}
