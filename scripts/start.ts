@@ -8,6 +8,7 @@ import { loadConfig } from "../server/config";
 import { createRuntime } from "../server/runtime";
 import { seedDemoIfEmpty, DEMO_PASSWORD, DEMO_PROGRAMS } from "../seeds/demo";
 import { seedDemoExams } from "../seeds/demo-exams";
+import { seedLearningHistory } from "../seeds/demo-history";
 import { clusterDir, freePort, portInUse, startCluster, type Cluster } from "./lib/postgres";
 import { startFakeMail, type FakeMail } from "./lib/mail-server";
 
@@ -58,10 +59,10 @@ try {
   cleanups.push(() => runtime.close());
   if (await seedDemoIfEmpty(runtime.db)) console.log("Seeded the demo programs.");
   if (env.SEED_DEMO_EXAMS !== "false") {
-    await seedDemoExams(
-      { db: runtime.db, storage: runtime.storage, jobs: runtime.queue },
-      { libraryDir: path.join(root, ".data", "demo-clips"), log: (s) => console.log(s) },
-    );
+    const deps = { db: runtime.db, storage: runtime.storage, jobs: runtime.queue };
+    const libraryDir = path.join(root, ".data", "demo-clips");
+    if ((await seedDemoExams(deps, { libraryDir, log: (s) => console.log(s) })) > 0)
+      await seedLearningHistory(deps, { libraryDir, log: (s) => console.log(s) });
   }
 
   console.log("Building the client…");

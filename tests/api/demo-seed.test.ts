@@ -6,6 +6,8 @@ import os from "node:os";
 import path from "node:path";
 import { makeKit, makeMember, makeProgram, type TestKit } from "./helpers";
 import { seedDemoExams } from "../../seeds/demo-exams";
+import { seedLearningHistory } from "../../seeds/demo-history";
+import { computeProgress } from "../../server/services/progress";
 import { startMediaWorker, type MediaWorker } from "../../server/jobs/worker";
 import { insertCatalogue } from "../../server/repositories/applications";
 import { DEFAULT_CATALOGUE } from "../../shared/catalogue";
@@ -70,5 +72,38 @@ describe("demo exam seed", () => {
     // Submitted exams keep no originals once their clips are done.
     const submittedIds = new Set(exams.filter((e) => e.status === "submitted").map((e) => e.id));
     expect(clips.filter((c) => submittedIds.has(c.exam_id)).every((c) => c.original_key === null)).toBe(true);
+  }, 120_000);
+
+  it("seeds learning histories whose progress the demo screens can show", async () => {
+    const p = await makeProgram(kit.db);
+    const improving = await makeMember(kit.db, p.id, ["sonographer"]);
+    const clean = await makeMember(kit.db, p.id, ["sonographer"]);
+    await makeMember(kit.db, p.id, ["reviewer"]);
+    await makeMember(kit.db, p.id, ["reviewer", "qa_lead"]);
+    const deps = { db: kit.db, storage: kit.storage, jobs: await kit.queue() };
+    // The library clip comes from the exam seed (efast is part of the default catalogue).
+    await seedDemoExams(deps, { libraryDir: dir, programId: (await makeProgram(kit.db)).id, apps: ["efast"], count: 0 });
+    const made = await seedLearningHistory(deps, {
+      libraryDir: dir,
+      programId: p.id,
+      learners: [
+        { email: improving.email, exams: 12, failures: [2, 5], slips: [0.5, 0.1] },
+        { email: clean.email, exams: 22, failures: [], slips: [0.2, 0.05] },
+      ],
+    });
+    expect(made).toBe(34);
+    const [a, b] = await computeProgress(kit.db, p.id, [improving.id, clean.id], { window: 10 });
+    const efastA = a.applications.find((x) => x.application.code === "efast")!;
+    expect([efastA.reviewed, efastA.credited]).toEqual([12, 10]);
+    expect(efastA.cusum.points.filter((x) => x.failed).map((x) => x.n)).toEqual([2, 5]);
+    // p0 = .1, p1 = .2, alpha = beta = .1: s = .145244 and h0 = -2.709511 (Wald 1945, worked
+    // in shared/stats/cusum.test.ts), so an unbroken run first reaches h0 at the 19th success.
+    const efastB = b.applications.find((x) => x.application.code === "efast")!;
+    expect(efastB.cusum.signal).toBe("competent");
+    expect(efastB.cusum.signalAtAttempt).toBe(19);
+    expect(b.total.credited).toBe(22);
+    expect(a.focusAreas.length + a.strengths.length).toBeGreaterThan(0);
+    const confirmations = await kit.db("confirmations").where("program_id", p.id);
+    expect(confirmations.length).toBeGreaterThan(0);
   }, 120_000);
 });
