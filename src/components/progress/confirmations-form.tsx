@@ -85,7 +85,10 @@ function FindingRow({
             onChange({ method, result: method === "none" || method === "" ? "" : row.result });
           }}
         >
-          <option value="">Not entered</option>
+          {/* The API replaces entries but does not remove them: once saved, a finding keeps a method. */}
+          <option value="" disabled={c.method !== null}>
+            Not entered
+          </option>
           {CONFIRMATION_METHODS.map((m) => (
             <option key={m} value={m}>
               {m === "none" ? "None (no confirmatory test)" : CONFIRMATION_METHOD_LABELS[m]}

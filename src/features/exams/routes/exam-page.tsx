@@ -1,9 +1,11 @@
 // One exam: its details, the sonographer's reads and every clip with its player and live
 // processing state. A draft can still be labelled, redacted and fixed here; a submitted
-// exam is read-only.
+// exam is read-only, except for its confirmatory results (what a later CT, formal echo,
+// surgery or follow-up showed), which its sonographer or a QA lead records here.
 import { useEffect } from "react";
 import { Link, useLocation, useParams } from "react-router-dom";
 import { useQuery } from "@tanstack/react-query";
+import { ConfirmationsForm } from "../../../components/progress/confirmations-form";
 import { buttonClasses } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { PageHeader } from "../../../components/ui/page-header";
@@ -11,6 +13,7 @@ import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/sta
 import { isApiError } from "../../../lib/api-client";
 import { READ_LABELS, SETTING_LABELS, TRANSDUCER_LABELS, applicationsQuery } from "../../../lib/catalogue";
 import { formatDateTime } from "../../../lib/format";
+import { hasAnyRole, sessionQuery } from "../../../lib/session";
 import { isProcessing, useExam } from "../api/exams";
 import { ClipPanel } from "../components/clip-panel";
 import { DiscardDraftButton } from "../components/discard-draft-button";
@@ -34,6 +37,9 @@ export default function ExamPage() {
   const exam = query.data;
   const application = apps.data?.applications.find((a) => a.code === exam?.application.code);
   const editable = exam?.status === "draft";
+  const session = useQuery(sessionQuery);
+  // Hiding the section only spares others a refusal: the server decides who may enter results.
+  const mayConfirm = !!exam && !editable && (hasAnyRole(session.data, ["qa_lead"]) || (!!session.data && exam.sonographer?.id === session.data.id));
 
   // A link to one clip (#clip-…) scrolls to it once the exam is there.
   const loaded = !!exam;
@@ -113,6 +119,8 @@ export default function ExamPage() {
               </dl>
             )}
           </section>
+
+          {mayConfirm ? <ConfirmationsForm examId={query.data.id} /> : null}
 
           <section aria-labelledby="clips-heading">
             <div className="mb-3 flex flex-wrap items-center gap-3">
