@@ -7,20 +7,25 @@
 // units on which both agree. Units with fewer than two ratings carry no pair and are
 // skipped; if none is left the value is null.
 
-import { prepareMatrix, unitCounts } from "./matrix";
+import { codeMatrix, groupUnits } from "./matrix";
 import type { Category, PercentAgreementResult, RatingsMatrix } from "./types";
 
-/** Mean per-unit share of agreeing rater pairs (units with at least two ratings). */
-export function percentAgreement(matrix: RatingsMatrix, options: { categories?: readonly Category[] } = {}): PercentAgreementResult {
-  const p = prepareMatrix(matrix, "percentAgreement", options.categories);
-  const { counts, totals } = unitCounts(p);
+/**
+ * Mean per-unit share of agreeing rater pairs (units with at least two ratings).
+ * `multiplicity` (optional): how many identical units each row stands for.
+ */
+export function percentAgreement(
+  matrix: RatingsMatrix,
+  options: { categories?: readonly Category[]; multiplicity?: readonly number[] } = {},
+): PercentAgreementResult {
+  const g = groupUnits(codeMatrix(matrix, "percentAgreement", options.categories, options.multiplicity));
   let sum = 0;
   let units = 0;
-  counts.forEach((c, i) => {
-    const r = totals[i];
+  g.counts.forEach((c, i) => {
+    const r = g.totals[i];
     if (r < 2) return;
-    sum += c.reduce((s, x) => s + x * (x - 1), 0) / (r * (r - 1));
-    units += 1;
+    sum += (g.weights[i] * c.reduce((s, x) => s + x * (x - 1), 0)) / (r * (r - 1));
+    units += g.weights[i];
   });
   if (units === 0) return { value: null, units: 0, reason: "no unit has ratings from two or more raters" };
   return { value: sum / units, units };

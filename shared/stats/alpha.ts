@@ -16,9 +16,19 @@
 // resamples pairs of values; resampling whole units keeps each exam's reviewers together.
 // Resamples without variation (alpha undefined) are skipped and counted; if fewer than
 // half are usable no interval is given.
+//
+// Alpha depends on a unit only through its vector of category counts, so units are
+// grouped by that vector first (matrix.ts, groupUnits) and every sum runs over the
+// groups. A bootstrap resample of N units then is a multinomial draw of how many times
+// each group is picked — N uniform picks of a unit, counted per group, have exactly this
+// distribution — drawn as a chain of binomials (group g gets Binomial(N − picked so far,
+// w_g / units in the groups not yet drawn)). The cost per resample follows the number of
+// distinct vectors, not the number of units. Groups come in an order fixed by the data,
+// so the same units give the same interval for a seed whatever their row order and
+// whether they arrive as rows or as grouped rows with multiplicities.
 
-import { mulberry32 } from "./random";
-import { categoryValues, prepareMatrix, unitCounts } from "./matrix";
+import { binomialDraw, mulberry32 } from "./random";
+import { categoryValues, codeMatrix, groupUnits } from "./matrix";
 import type { AlphaResult, Category, Interval, RatingsMatrix } from "./types";
 
 export type AlphaLevel = "nominal" | "ordinal" | "interval" | "ratio";
@@ -28,6 +38,8 @@ export interface AlphaOptions {
   /** Order of ordinal categories (else numeric / natural order); ranks serve as values for interval/ratio on labels. */
   categories?: readonly Category[];
   bootstrap?: { samples: number; seed?: number };
+  /** How many identical units each row stands for; the result (bootstrap included) equals that of the matrix with each row repeated so often. */
+  multiplicity?: readonly number[];
 }
 
 const LEVELS: readonly AlphaLevel[] = ["nominal", "ordinal", "interval", "ratio"];
@@ -39,64 +51,65 @@ export function krippendorffAlpha(matrix: RatingsMatrix, options: AlphaOptions):
   const boot = options.bootstrap;
   if (boot !== undefined && (!Number.isInteger(boot.samples) || boot.samples < 1 || boot.samples > 1_000_000))
     throw new RangeError(`krippendorffAlpha: bootstrap.samples must be an integer from 1 to 1000000 (got ${String(boot.samples)})`);
-  const p = prepareMatrix(matrix, "krippendorffAlpha", options.categories);
+  const p = codeMatrix(matrix, "krippendorffAlpha", options.categories, options.multiplicity);
   const q = p.keys.length;
   let values: number[] = [];
   if (level === "interval" || level === "ratio") {
     values = q === 0 ? [] : categoryValues(p, "krippendorffAlpha");
     if (level === "ratio" && values.some((v) => v < 0)) throw new Error("krippendorffAlpha: the ratio level needs non-negative values");
   }
-  const { counts, totals } = unitCounts(p);
-  // Each pairable unit's contribution to the coincidence matrix, flattened, so that a
-  // bootstrap resample is just a sum of precomputed rows.
-  const contributions: Float64Array[] = [];
-  counts.forEach((c, u) => {
-    const m = totals[u];
+  const all = groupUnits(p);
+  // The pairable groups (m_u ≥ 2) and each one's contribution to the coincidence matrix,
+  // flattened into one array: group g's row a, column b at (g·q + a)·q + b.
+  const weight: number[] = [];
+  let units = 0;
+  let pairableValues = 0;
+  const pairable: number[] = [];
+  all.totals.forEach((m, g) => {
     if (m < 2) return;
-    const o = new Float64Array(q * q);
+    pairable.push(g);
+    weight.push(all.weights[g]);
+    units += all.weights[g];
+    pairableValues += all.weights[g] * m;
+  });
+  if (units < 2) return { value: null, units, pairableValues, reason: "fewer than two units have ratings from two or more raters" };
+  const G = pairable.length;
+  const qq = q * q;
+  const contributions = new Float64Array(G * qq);
+  pairable.forEach((g, i) => {
+    const c = all.counts[g];
+    const m = all.totals[g];
     for (let a = 0; a < q; a++) {
       if (c[a] === 0) continue;
-      for (let b = 0; b < q; b++) o[a * q + b] = (c[a] * (a === b ? c[a] - 1 : c[b])) / (m - 1);
+      for (let b = 0; b < q; b++) contributions[i * qq + a * q + b] = (c[a] * (a === b ? c[a] - 1 : c[b])) / (m - 1);
     }
-    contributions.push(o);
   });
-  const units = contributions.length;
-  const pairableValues = totals.reduce((s, m) => s + (m >= 2 ? m : 0), 0);
-  if (units < 2) return { value: null, units, pairableValues, reason: "fewer than two units have ratings from two or more raters" };
 
-  const delta = (a: number, b: number, marg: Float64Array): number => {
-    if (a === b) return 0;
-    switch (level) {
-      case "nominal":
-        return 1;
-      case "ordinal": {
-        const lo = Math.min(a, b);
-        const hi = Math.max(a, b);
-        let s = 0;
-        for (let g = lo; g <= hi; g++) s += marg[g];
-        const d = s - (marg[a] + marg[b]) / 2;
-        return d * d;
+  // Fixed distances for nominal, interval and ratio; ordinal ones depend on the
+  // marginals of each (resampled) coincidence matrix and are filled per call.
+  const delta = new Float64Array(qq);
+  if (level !== "ordinal")
+    for (let a = 0; a < q; a++)
+      for (let b = 0; b < q; b++) {
+        if (a === b) continue;
+        if (level === "nominal") delta[a * q + b] = 1;
+        else if (level === "interval") delta[a * q + b] = (values[a] - values[b]) ** 2;
+        else {
+          const sum = values[a] + values[b];
+          delta[a * q + b] = sum === 0 ? 0 : ((values[a] - values[b]) / sum) ** 2;
+        }
       }
-      case "interval": {
-        const d = values[a] - values[b];
-        return d * d;
-      }
-      case "ratio": {
-        const sum = values[a] + values[b];
-        if (sum === 0) return 0;
-        const d = (values[a] - values[b]) / sum;
-        return d * d;
-      }
-    }
-  };
 
-  const o = new Float64Array(q * q);
+  const o = new Float64Array(qq);
   const marg = new Float64Array(q);
-  const alphaOf = (pick: (i: number) => Float64Array): number | null => {
+  /** Alpha of the units picked `times[i]` times from pairable group i. */
+  const alphaOf = (times: ArrayLike<number>): number | null => {
     o.fill(0);
-    for (let i = 0; i < units; i++) {
-      const row = pick(i);
-      for (let j = 0; j < q * q; j++) o[j] += row[j];
+    for (let i = 0; i < G; i++) {
+      const t = times[i];
+      if (t === 0) continue;
+      const base = i * qq;
+      for (let j = 0; j < qq; j++) o[j] += t * contributions[base + j];
     }
     marg.fill(0);
     let n = 0;
@@ -105,12 +118,25 @@ export function krippendorffAlpha(matrix: RatingsMatrix, options: AlphaOptions):
         marg[a] += o[a * q + b];
         n += o[a * q + b];
       }
+    if (level === "ordinal") {
+      // δ²_ck = (Σ_{g=c..k} n_g − (n_c + n_k)/2)².
+      for (let a = 0; a < q; a++)
+        for (let b = 0; b < q; b++) {
+          if (a === b) continue;
+          const lo = Math.min(a, b);
+          const hi = Math.max(a, b);
+          let s = 0;
+          for (let g = lo; g <= hi; g++) s += marg[g];
+          const d = s - (marg[a] + marg[b]) / 2;
+          delta[a * q + b] = d * d;
+        }
+    }
     let observed = 0;
     let expected = 0;
     for (let a = 0; a < q; a++)
       for (let b = 0; b < q; b++) {
         if (a === b) continue;
-        const d = delta(a, b, marg);
+        const d = delta[a * q + b];
         observed += o[a * q + b] * d;
         expected += marg[a] * marg[b] * d;
       }
@@ -120,16 +146,25 @@ export function krippendorffAlpha(matrix: RatingsMatrix, options: AlphaOptions):
     return 1 - ((n - 1) * observed) / expected;
   };
 
-  const value = alphaOf((i) => contributions[i]);
+  const value = alphaOf(weight);
   if (value === null) return { value: null, units, pairableValues, reason: "all pairable ratings are identical; alpha is undefined (no variation)" };
   const result: AlphaResult = { value, units, pairableValues };
   if (boot !== undefined) {
     const seed = boot.seed ?? 1;
     const rand = mulberry32(seed);
     const draws: number[] = [];
+    const times = new Float64Array(G);
     for (let s = 0; s < boot.samples; s++) {
-      const picks = Array.from({ length: units }, () => contributions[Math.floor(rand() * units)]);
-      const a = alphaOf((i) => picks[i]);
+      // Multinomial(units; w_g / units) as a chain of binomials.
+      let left = units;
+      let rest = units;
+      for (let i = 0; i < G; i++) {
+        const t = i === G - 1 ? left : left === 0 ? 0 : binomialDraw(left, weight[i] / rest, rand);
+        times[i] = t;
+        left -= t;
+        rest -= weight[i];
+      }
+      const a = alphaOf(times);
       if (a !== null) draws.push(a);
     }
     result.bootstrap = { samples: boot.samples, used: draws.length, seed };

@@ -7,9 +7,17 @@
 // are ordered as given in `categories`, else numerically when every label is numeric,
 // else in natural order ("grade 2" before "grade 10").
 //
+// Grouped input: percentAgreement, cohensKappa, fleissKappa, gwetAC1 and krippendorffAlpha
+// take an optional `multiplicity` (one whole number ≥ 0 per row: how many identical units
+// the row stands for), e.g. counted rating pairs from a GROUP BY. The result equals that
+// of the matrix with every row repeated so often — alpha's bootstrap interval included,
+// since units are grouped by their category counts internally either way (matrix.ts) and
+// resampled by group (alpha.ts). Rows of multiplicity 0 count as absent.
+//
 // Structurally bad input throws an Error: ragged rows, cells that are not finite
 // numbers / non-empty strings / null, ratings outside a given `categories` list,
-// cohensKappa with a number of columns other than 2, unknown options.
+// cohensKappa with a number of columns other than 2, unknown options, a multiplicity list
+// of the wrong length or with entries other than whole numbers ≥ 0.
 //
 // Degenerate input never yields NaN or Infinity. The rule is uniform: the result has
 // `value: null` (and `se`/`ci95` null where present) plus a `reason` string when
@@ -30,7 +38,7 @@
 export type { AlphaResult, Category, IccResult, Interval, KappaResult, PercentAgreementResult, Rating, RatingsMatrix } from "./types";
 export { percentAgreement } from "./agreement";
 export { cohensKappa, fleissKappa } from "./kappa";
-export type { CohensKappaOptions, KappaWeights } from "./kappa";
+export type { CohensKappaOptions, KappaWeights, MultiRaterOptions } from "./kappa";
 export { gwetAC1 } from "./gwet";
 export { krippendorffAlpha } from "./alpha";
 export type { AlphaLevel, AlphaOptions } from "./alpha";
@@ -41,5 +49,5 @@ export { cusum } from "./cusum";
 export type { CusumOptions, CusumResult, CusumSignal } from "./cusum";
 export { agreementBand } from "./bands";
 export type { AgreementBand } from "./bands";
-export { mulberry32 } from "./random";
+export { binomialDraw, mulberry32 } from "./random";
 export { fQuantile, incompleteBeta, inverseIncompleteBeta, normalCdf, normalQuantile } from "./distributions";

@@ -3,7 +3,7 @@
 // reviewers with missing ratings allowed.
 
 import { normalQuantile } from "./distributions";
-import { prepareMatrix, unitCounts } from "./matrix";
+import { codeMatrix, groupUnits, type UnitGroups } from "./matrix";
 import type { Category, Interval, KappaResult, RatingsMatrix } from "./types";
 
 export type KappaWeights = "unweighted" | "linear" | "quadratic";
@@ -12,6 +12,15 @@ export interface CohensKappaOptions {
   weights?: KappaWeights;
   /** Category order (needed for weighted kappa on string labels); unused categories are allowed. */
   categories?: readonly Category[];
+  /** How many identical units each row stands for (e.g. counted rating pairs); the result equals that of the matrix with each row repeated so often. */
+  multiplicity?: readonly number[];
+}
+
+/** Options of the multi-rater coefficients (Fleiss' kappa, Gwet's AC1). */
+export interface MultiRaterOptions {
+  categories?: readonly Category[];
+  /** How many identical units each row stands for; the result equals that of the matrix with each row repeated so often. */
+  multiplicity?: readonly number[];
 }
 
 // 1 − pe below this is treated as 0: chance agreement is then total (one category used)
@@ -49,16 +58,19 @@ export function cohensKappa(matrix: RatingsMatrix, options: CohensKappaOptions =
   const weights = options.weights ?? "unweighted";
   if (weights !== "unweighted" && weights !== "linear" && weights !== "quadratic")
     throw new Error(`cohensKappa: weights must be "unweighted", "linear" or "quadratic" (got ${String(weights)})`);
-  const p = prepareMatrix(matrix, "cohensKappa", options.categories);
+  const p = codeMatrix(matrix, "cohensKappa", options.categories, options.multiplicity);
   if (p.units === 0) return nullKappa(0, "no units");
   if (p.raters !== 2) throw new Error(`cohensKappa: needs exactly 2 rater columns, got ${p.raters}`);
   const k = p.keys.length;
   const table = Array.from({ length: k }, () => new Array<number>(k).fill(0));
   let n = 0;
-  for (const [a, b] of p.codes) {
-    if (a === null || b === null) continue;
-    table[a][b] += 1;
-    n += 1;
+  for (let i = 0; i < p.rows; i++) {
+    const a = p.codes[2 * i];
+    const b = p.codes[2 * i + 1];
+    if (a < 0 || b < 0) continue;
+    const w = p.weights === null ? 1 : p.weights[i];
+    table[a][b] += w;
+    n += w;
   }
   if (n < 2) return nullKappa(n, "fewer than two units were rated by both raters");
   const w = (i: number, j: number): number => {
@@ -105,31 +117,36 @@ export function cohensKappa(matrix: RatingsMatrix, options: CohensKappaOptions =
  *   c_i  = (n / n2)(pa_i − pe·[r_i ≥ 2]) / (1 − pe)
  *   c*_i = c_i − 2(1 − c)(pe_i − pe) / (1 − pe)
  * (sampling fraction taken as 0, i.e. units are a sample from a large population).
+ * Units come grouped by count vector; each sum over units is a weighted sum over groups.
  */
 export function multiRaterCoefficient(
-  counts: number[][],
-  totals: number[],
+  groups: UnitGroups,
+  q: number,
   chance: (pi: number[]) => { pe: number; peUnit: (count: number[], total: number) => number },
-): { value: number; se: number; pe: number } | { value: null; reason: string; units: number } {
-  const rated = counts.map((c, i) => ({ c, r: totals[i] })).filter((u) => u.r >= 1);
-  const n = rated.length;
-  const n2 = rated.filter((u) => u.r >= 2).length;
+): { value: number; se: number; pe: number; units: number } | { value: null; reason: string; units: number } {
+  const { counts, totals, weights } = groups;
+  let n = 0;
+  let n2 = 0;
+  for (let g = 0; g < counts.length; g++) {
+    n += weights[g];
+    if (totals[g] >= 2) n2 += weights[g];
+  }
   if (n2 < 2) return { value: null, reason: "fewer than two units have ratings from two or more raters", units: n2 };
-  const q = counts[0].length;
   const pi = new Array<number>(q).fill(0);
-  for (const { c, r } of rated) for (let k = 0; k < q; k++) pi[k] += c[k] / r / n;
-  const paUnit = rated.map(({ c, r }) => (r >= 2 ? c.reduce((s, x) => s + x * (x - 1), 0) / (r * (r - 1)) : 0));
-  const pa = paUnit.reduce((s, x) => s + x, 0) / n2;
+  for (let g = 0; g < counts.length; g++) for (let k = 0; k < q; k++) pi[k] += (weights[g] * (counts[g][k] / totals[g])) / n;
+  const paUnit = counts.map((c, g) => (totals[g] >= 2 ? c.reduce((s, x) => s + x * (x - 1), 0) / (totals[g] * (totals[g] - 1)) : 0));
+  const pa = paUnit.reduce((s, x, g) => s + weights[g] * x, 0) / n2;
   const { pe, peUnit } = chance(pi);
   if (1 - pe < DEGENERATE) return { value: null, reason: "chance agreement is 1 (a single category was used); the coefficient is undefined", units: n2 };
   const value = (pa - pe) / (1 - pe);
   let ss = 0;
-  rated.forEach(({ c, r }, i) => {
-    const ci = ((n / n2) * (paUnit[i] - (r >= 2 ? pe : 0))) / (1 - pe);
+  counts.forEach((c, g) => {
+    const r = totals[g];
+    const ci = ((n / n2) * (paUnit[g] - (r >= 2 ? pe : 0))) / (1 - pe);
     const star = ci - (2 * (1 - value) * (peUnit(c, r) - pe)) / (1 - pe);
-    ss += (star - value) * (star - value);
+    ss += weights[g] * (star - value) * (star - value);
   });
-  return { value, se: Math.sqrt(ss / (n * (n - 1))), pe };
+  return { value, se: Math.sqrt(ss / (n * (n - 1))), pe, units: n };
 }
 
 /**
@@ -138,15 +155,13 @@ export function multiRaterCoefficient(
  * complete data this equals Fleiss' original statistic. SE as in multiRaterCoefficient,
  * with pe_i = Σ_k (r_ik / r_i) π_k.
  */
-export function fleissKappa(matrix: RatingsMatrix, options: { categories?: readonly Category[] } = {}): KappaResult {
-  const p = prepareMatrix(matrix, "fleissKappa", options.categories);
+export function fleissKappa(matrix: RatingsMatrix, options: MultiRaterOptions = {}): KappaResult {
+  const p = codeMatrix(matrix, "fleissKappa", options.categories, options.multiplicity);
   if (p.units === 0 || p.keys.length === 0) return nullKappa(0, "no ratings");
-  const { counts, totals } = unitCounts(p);
-  const res = multiRaterCoefficient(counts, totals, (pi) => ({
+  const res = multiRaterCoefficient(groupUnits(p), p.keys.length, (pi) => ({
     pe: pi.reduce((s, x) => s + x * x, 0),
     peUnit: (c, r) => c.reduce((s, x, k) => s + (x / r) * pi[k], 0),
   }));
   if (res.value === null) return nullKappa(res.units, res.reason);
-  const units = totals.filter((r) => r >= 1).length;
-  return { value: res.value, se: res.se, ci95: kappaInterval(res.value, res.se), units };
+  return { value: res.value, se: res.se, ci95: kappaInterval(res.value, res.se), units: res.units };
 }
