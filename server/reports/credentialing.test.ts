@@ -185,22 +185,14 @@ describe("credentialing report PDF, whole program", () => {
     });
   });
 
-  it("renders 60 sonographers in well under a few seconds", async () => {
+  // Speed lives in `npm run bench:report`; this checks a 60-person program report is whole.
+  it("renders a program report of 60 sonographers, one section each", async () => {
     const people = Array.from({ length: 60 }, (_, i) => {
       const p = i % 2 ? zdenka() : ansel();
       return { ...p, sonographer: { ...p.sonographer, name: `Learner ${i + 1} Testperson`, email: `learner${i + 1}@cedarhollow.example` } };
     });
     const data: CredentialingReportData = { programName: PROGRAM, generatedAt, range, scope: "program", sonographers: people };
-    await renderCredentialingPdf(one(zdenka())); // fonts read and code warmed
-    const started = process.hrtime.bigint();
-    const cpu = process.cpuUsage();
     const pdf = await renderCredentialingPdf(data);
-    const used = process.cpuUsage(cpu);
-    const wallMs = Number(process.hrtime.bigint() - started) / 1e6;
-    const cpuMs = (used.user + used.system) / 1000;
-    console.log(`60 sonographers: ${pdf.length} bytes, ${wallMs.toFixed(0)} ms wall, ${cpuMs.toFixed(0)} ms CPU`);
-    // CPU time, not wall time: other test runs share this machine's two cores.
-    expect(cpuMs).toBeLessThan(3000);
     const pages = pdfText(writePdf(pdf))
       .split("\f")
       .filter((p) => p.trim());

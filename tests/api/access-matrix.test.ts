@@ -233,6 +233,7 @@ const MATRIX: Row[] = [
     call: fixed("/api/calibration-sets/00000000-0000-4000-8000-000000000000/results"),
     expect: only(["qa_lead"], 404),
   },
+  { route: "GET /reports/credentialing", call: fixed("/api/reports/credentialing?format=csv"), expect: only(["sonographer", "qa_lead"], 200) },
   { route: "GET /me/progress", call: fixed("/api/me/progress"), expect: only(["sonographer"], 200) },
   { route: "GET /roster", call: fixed("/api/roster"), expect: only(["qa_lead"], 200) },
   { route: "GET /roster/:id/progress", call: async () => ({ path: `/api/roster/${members.sonographer.id}/progress` }), expect: only(["qa_lead"], 200) },

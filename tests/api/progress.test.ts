@@ -2,6 +2,10 @@
 // recomputation straight from the raw rows (exams, exam_results, finding_outcomes,
 // confirmations), done here without the progress service. Also: who may see whose progress,
 // confirmatory results, the roster, and the learning-curve settings.
+import { execFileSync } from "node:child_process";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
 import { makeExam, makeKit, makeMember, makeProgram, tokenFor, type TestKit, type TestMember } from "./helpers";
@@ -323,5 +327,78 @@ describe("roster and settings", () => {
       .get("/api/settings")
       .set("Authorization", await bearer(lead));
     expect(s.body.settings.cusumAcceptableRate).toBe(0.1);
+  });
+});
+
+describe("GET /api/reports/credentialing", () => {
+  const pdfText = (pdf: Buffer) => {
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), "soundings-report-"));
+    const file = path.join(dir, "report.pdf");
+    fs.writeFileSync(file, pdf);
+    // pdftotext from Debian's poppler-utils (installed by scripts/ensure-deps.sh --test).
+    const text = execFileSync("pdftotext", ["-layout", file, "-"], { encoding: "utf8" });
+    fs.rmSync(dir, { recursive: true, force: true });
+    return text;
+  };
+  const binary = (res: request.Response, cb: (err: Error | null, body: Buffer) => void) => {
+    const chunks: Buffer[] = [];
+    res.on("data", (c: Buffer) => chunks.push(c));
+    res.on("end", () => cb(null, Buffer.concat(chunks)));
+  };
+
+  it("gives a sonographer their own PDF, whose text holds the counts recomputed from the raw rows", async () => {
+    const res = await request(kit.app)
+      .get("/api/reports/credentialing?format=pdf")
+      .set("Authorization", await bearer(learner))
+      .buffer(true)
+      .parse(binary);
+    expect(res.status).toBe(200);
+    expect(res.headers["content-type"]).toBe("application/pdf");
+    expect(res.headers["content-disposition"]).toMatch(/^attachment; filename="?credentialing-[a-z0-9-]+\.pdf"?$/);
+    const text = pdfText(res.body as Buffer);
+    expect(text).toContain(learner.name);
+    for (const code of ["efast", "aorta"]) {
+      const raw = await rawExams(code);
+      const reviewed = raw.filter((r) => r.status === "reviewed");
+      const credited = reviewed.filter((r) => r.credit).length;
+      const { name } = await kit.db("applications").where({ program_id: programId, code }).first("name");
+      expect(text).toMatch(new RegExp(`${name.replace(/[()/]/g, "\\$&")}\\s+${raw.length}\\s+${reviewed.length}\\s+${credited} / 25`));
+    }
+    expect(text.replace(/\s+/g, " ")).toContain("Local policy and licensed practice govern");
+    expect(text).toMatch(/Program director/i);
+  });
+
+  it("lets a QA lead export the whole program as CSV, and one sonographer as PDF", async () => {
+    const token = await bearer(lead);
+    const csv = await request(kit.app).get("/api/reports/credentialing?format=csv").set("Authorization", token);
+    expect(csv.status).toBe(200);
+    expect(csv.headers["content-type"]).toMatch(/^text\/csv/);
+    expect(csv.text).toContain(learner.email);
+    expect(csv.text).toContain(other.email);
+    const pdf = await request(kit.app)
+      .get(`/api/reports/credentialing?format=pdf&userId=${learner.id}&from=2026-06-01&to=2026-06-10`)
+      .set("Authorization", token)
+      .buffer(true)
+      .parse(binary);
+    expect(pdf.status).toBe(200);
+    const text = pdfText(pdf.body as Buffer);
+    expect(text).toContain("2026-06-01");
+    expect(text).not.toContain(other.name);
+  });
+
+  it("refuses another person's report to a sonographer, and bad input by field", async () => {
+    const forbidden = await request(kit.app)
+      .get(`/api/reports/credentialing?format=pdf&userId=${learner.id}`)
+      .set("Authorization", await bearer(other));
+    expect(forbidden.status).toBe(403);
+    const token = await bearer(lead);
+    const format = await request(kit.app).get("/api/reports/credentialing?format=docx").set("Authorization", token);
+    expect(format.status).toBe(400);
+    expect(format.body.error.message).toMatch(/^format:/);
+    const order = await request(kit.app).get("/api/reports/credentialing?format=csv&from=2026-07-01&to=2026-06-01").set("Authorization", token);
+    expect(order.status).toBe(400);
+    expect(order.body.error.message).toMatch(/^to:/);
+    const stranger = await request(kit.app).get(`/api/reports/credentialing?format=csv&userId=${reviewer.id}`).set("Authorization", token);
+    expect(stranger.status).toBe(404);
   });
 });

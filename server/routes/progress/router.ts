@@ -9,6 +9,7 @@ import { confirmationsInputSchema, progressQuerySchema, type Confirmation } from
 import { computeProgress, roster } from "../../services/progress";
 import { assertCanView } from "../../policies/exam";
 import { audit } from "../../repositories/audit";
+import { registerCredentialingReportRoute } from "./report";
 import type { Db } from "../../db/knex";
 import type { Knex } from "knex";
 
@@ -42,7 +43,9 @@ async function confirmationsOf(db: Db | Knex.Transaction, examId: string, applic
   }));
 }
 
-export function registerProgressRoutes(kit: RouteKit, { db }: RouteContext) {
+export function registerProgressRoutes(kit: RouteKit, ctx: RouteContext) {
+  const { db } = ctx;
+  registerCredentialingReportRoute(kit, ctx);
   defineRoute(kit, {
     method: "get",
     path: "/me/progress",
