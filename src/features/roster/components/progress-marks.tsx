@@ -16,12 +16,9 @@ const toneClasses: Record<Tone, string> = {
 
 function Tag({ tone, Icon, children, title }: { tone: Tone; Icon: LucideIcon; children: string; title?: string }) {
   return (
-    <span
-      title={title}
-      className={`inline-flex items-center gap-1 whitespace-nowrap rounded-full px-2 py-0.5 text-xs font-semibold ring-1 ring-inset ${toneClasses[tone]}`}
-    >
+    <span title={title} className={`inline-flex items-center gap-1 rounded-xl px-2 py-0.5 text-xs font-semibold ring-1 ring-inset ${toneClasses[tone]}`}>
       <Icon aria-hidden="true" className="size-3.5 shrink-0" />
-      {children}
+      <span className="min-w-0">{children}</span>
     </span>
   );
 }

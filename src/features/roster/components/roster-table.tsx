@@ -44,7 +44,7 @@ const columns = [
       const shown = active(r);
       const quiet = r.applications.length - shown.length;
       return (
-        <div className="min-w-[20rem]">
+        <div className="min-w-[17rem]">
           <p className="mb-1 text-xs text-slate-600">
             <span className="tabular-nums">{metCount(r)}</span> of <span className="tabular-nums">{r.applications.length}</span> thresholds met
           </p>
@@ -53,12 +53,12 @@ const columns = [
           ) : (
             <ul className="space-y-1">
               {shown.map((a) => (
-                <li key={a.code} className="grid grid-cols-[minmax(6rem,10rem)_auto_auto] items-center gap-x-3">
-                  <span className="truncate text-xs font-semibold text-ink-900" title={a.name}>
-                    {a.name}
-                  </span>
+                <li key={a.code} className="grid grid-cols-[7rem_auto] items-center gap-x-3 gap-y-0.5 xl:grid-cols-[8rem_auto_auto]">
+                  <span className="text-xs font-semibold leading-tight text-ink-900">{a.name}</span>
                   <CompactProgress credited={a.credited} threshold={a.threshold} met={a.met} label={`${a.name}: credited exams of ${r.name}`} />
-                  <SignalTag signal={a.signal} />
+                  <span className="col-start-2 xl:col-start-auto">
+                    <SignalTag signal={a.signal} />
+                  </span>
                 </li>
               ))}
             </ul>

@@ -60,32 +60,49 @@ function Choice({
   );
 }
 
+interface Choices {
+  scope: "program" | "sonographer";
+  userId: string;
+  /** "" = no limit on that side. */
+  from: string;
+  to: string;
+  format: ReportFormat;
+}
+
+function choicesFrom(params: URLSearchParams): Choices {
+  const userId = params.get("userId") ?? "";
+  const day = (k: string, fallback: string) => (params.has(k) ? (isIsoDay(params.get(k)) ? params.get(k)! : "") : fallback);
+  return {
+    scope: params.get("scope") === "sonographer" || userId ? "sonographer" : "program",
+    userId,
+    // Empty dates mean "no limit"; the first visit starts with the last twelve months.
+    from: day("from", daysAgo(365)),
+    to: day("to", isoDay(new Date())),
+    format: params.get("format") === "csv" ? "csv" : "pdf",
+  };
+}
+
 export default function ReportsPage() {
   const [params, setParams] = useSearchParams();
-  const userId = params.get("userId") ?? "";
-  const scope = params.get("scope") === "sonographer" || userId ? "sonographer" : "program";
-  // Empty dates mean "no limit"; the first visit starts with the last twelve months.
-  const from = params.has("from") ? (isIsoDay(params.get("from")) ? params.get("from")! : "") : daysAgo(365);
-  const to = params.has("to") ? (isIsoDay(params.get("to")) ? params.get("to")! : "") : isoDay(new Date());
-  const format: ReportFormat = params.get("format") === "csv" ? "csv" : "pdf";
+  // The choices are held here so the controls answer at once, and copied into the URL so a
+  // link (from the roster or a sonographer's page) asks for the same report.
+  const [choices, setChoices] = useState(() => choicesFrom(params));
+  const { scope, userId, from, to, format } = choices;
   const roster = useQuery({ ...rosterQuery, enabled: scope === "sonographer" });
   const { state, run, busy } = useReportDownload();
 
-  const set = (changes: Record<string, string>) =>
-    setParams(
-      (prev) => {
-        const next = new URLSearchParams(prev);
-        // The dates in effect go into the URL with any change, so a shared link asks for the same report.
-        next.set("from", from);
-        next.set("to", to);
-        for (const [k, v] of Object.entries(changes)) {
-          if (v || k === "from" || k === "to") next.set(k, v);
-          else next.delete(k);
-        }
-        return next;
-      },
-      { replace: true },
-    );
+  const set = (changes: Partial<Choices>) => {
+    const next = { ...choices, ...changes };
+    if (next.scope === "program") next.userId = "";
+    setChoices(next);
+    const url = new URLSearchParams();
+    if (next.scope === "sonographer") url.set("scope", "sonographer");
+    if (next.userId) url.set("userId", next.userId);
+    url.set("from", next.from);
+    url.set("to", next.to);
+    if (next.format === "csv") url.set("format", "csv");
+    setParams(url, { replace: true });
+  };
 
   const rangeProblem = from && to && from > to ? "The start of the range is after its end." : null;
   const scopeProblem = scope === "sonographer" && !userId ? "Choose a sonographer." : null;
@@ -117,7 +134,7 @@ export default function ReportsPage() {
             name="scope"
             value="program"
             checked={scope === "program"}
-            onChange={() => set({ scope: "", userId: "" })}
+            onChange={() => set({ scope: "program" })}
             label="Whole program"
             hint="A summary of the program, then a section for each sonographer."
           />
@@ -188,7 +205,7 @@ export default function ReportsPage() {
 
         <fieldset className="space-y-3 rounded-lg border border-slate-200 bg-white p-5">
           <legend className="px-1 text-lg font-semibold text-ink-950">Format</legend>
-          <Choice name="format" value="pdf" checked={format === "pdf"} onChange={() => set({ format: "" })} label="PDF" hint="To print, sign and file." />
+          <Choice name="format" value="pdf" checked={format === "pdf"} onChange={() => set({ format: "pdf" })} label="PDF" hint="To print, sign and file." />
           <Choice
             name="format"
             value="csv"
@@ -207,7 +224,7 @@ export default function ReportsPage() {
           <DownloadStatus state={state} />
         </div>
       </form>
-      <p className="mt-8 max-w-prose text-xs text-slate-600">{CREDENTIALING_CAUTION}</p>
+      <p className="mt-8 max-w-prose text-xs text-slate-600">Every report is printed with this caution: {CREDENTIALING_CAUTION}</p>
     </div>
   );
 }
