@@ -81,7 +81,15 @@ describe("GET /api/reports/agreement", () => {
     expect(row.units).toBe(EXAMS);
     expect(row.kappa.weights).toBe("quadratic");
     expect(row.kappa.value).toBeCloseTo(cohensKappa(q, { weights: "quadratic", categories: [0, 1, 2, 3, 4] }).value!, 12);
-    expect(row.alpha.value).toBeCloseTo(krippendorffAlpha(q, { level: "ordinal" }).value!, 12);
+    // Alpha's bootstrap interval: the report draws a bounded, seeded number of resamples;
+    // the module on the raw rows with the same resamples and seed gives the same interval.
+    expect(row.alpha.bootstrap).toMatchObject({ samples: 1000, used: 1000 });
+    const alphaRaw = krippendorffAlpha(q, { level: "ordinal", bootstrap: { samples: row.alpha.bootstrap.samples, seed: row.alpha.bootstrap.seed } });
+    expect(row.alpha.value).toBeCloseTo(alphaRaw.value!, 12);
+    expect(row.alpha.ci95[0]).toBeCloseTo(alphaRaw.ci95![0], 12);
+    expect(row.alpha.ci95[1]).toBeCloseTo(alphaRaw.ci95![1], 12);
+    expect(row.alpha.ci95[0]).toBeLessThan(row.alpha.value);
+    expect(row.alpha.ci95[1]).toBeGreaterThan(row.alpha.value);
     expect(row.ac1.value).toBeCloseTo(gwetAC1(q, { categories: [0, 1, 2, 3, 4] }).value!, 12);
     expect(row.percentAgreement).toBeCloseTo(percentAgreement(q).value!, 12);
 
@@ -89,7 +97,10 @@ describe("GET /api/reports/agreement", () => {
     const depth = res.body.criteria.find((c: { key: string }) => c.key === "depth");
     expect(depth.kappa.weights).toBe("unweighted");
     expect(depth.kappa.value).toBeCloseTo(cohensKappa(d, { categories: ["too_shallow", "fits", "too_deep"] }).value!, 12);
-    expect(depth.alpha.value).toBeCloseTo(krippendorffAlpha(d, { level: "nominal" }).value!, 12);
+    const depthAlpha = krippendorffAlpha(d, { level: "nominal", bootstrap: { samples: depth.alpha.bootstrap.samples, seed: depth.alpha.bootstrap.seed } });
+    expect(depth.alpha.value).toBeCloseTo(depthAlpha.value!, 12);
+    expect(depth.alpha.ci95[0]).toBeCloseTo(depthAlpha.ci95![0], 12);
+    expect(depth.alpha.ci95[1]).toBeCloseTo(depthAlpha.ci95![1], 12);
 
     const reads = pairs.flatMap((p) =>
       p.primary.reads.map((r: { key: string; read: string }) => [r.read, p.second.reads.find((s: { key: string }) => s.key === r.key).read]),
@@ -97,6 +108,26 @@ describe("GET /api/reports/agreement", () => {
     const interpretation = res.body.criteria.find((c: { key: string }) => c.key === "read");
     expect(interpretation.units).toBe(EXAMS * EFAST.length);
     expect(interpretation.kappa.value).toBeCloseTo(cohensKappa(reads, { categories: ["positive", "negative", "indeterminate"] }).value!, 12);
+
+    const readsAlpha = krippendorffAlpha(reads, {
+      level: "nominal",
+      bootstrap: { samples: interpretation.alpha.bootstrap.samples, seed: interpretation.alpha.bootstrap.seed },
+    });
+    expect(interpretation.alpha.value).toBeCloseTo(readsAlpha.value!, 12);
+    expect(interpretation.alpha.ci95[0]).toBeCloseTo(readsAlpha.ci95![0], 12);
+    expect(interpretation.alpha.ci95[1]).toBeCloseTo(readsAlpha.ci95![1], 12);
+
+    // Each reviewer pair's figures equal the module on that pair's raw rows, oriented as the
+    // report orients the pair (reviewer a's value first).
+    for (const pair of res.body.pairs as { a: { id: string }; b: { id: string }; units: number; percentAgreement: number; kappa: number }[]) {
+      const mine = pairs
+        .filter((p) => [p.primary.reviewer_id, p.second.reviewer_id].sort().join() === [pair.a.id, pair.b.id].sort().join())
+        .map((p) => (p.primary.reviewer_id === pair.a.id ? [p.primary, p.second] : [p.second, p.primary]))
+        .map(([x, y]) => [rank(x.scores.quality), rank(y.scores.quality)]);
+      expect(pair.units).toBe(mine.length);
+      expect(pair.percentAgreement).toBeCloseTo(percentAgreement(mine).value!, 12);
+      expect(pair.kappa).toBeCloseTo(cohensKappa(mine, { weights: "quadratic", categories: [0, 1, 2, 3, 4] }).value!, 12);
+    }
 
     // Every pair of first and second read lands in exactly one reviewer pair and one confusion cell.
     expect(res.body.pairs.reduce((s: number, p: { units: number }) => s + p.units, 0)).toBe(EXAMS);

@@ -5,7 +5,7 @@ import { z } from "zod";
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../app";
 import { activeRubricFor, getRubric } from "../../repositories/rubrics";
-import { agreementOf, pairCounts, readPairs, ratingOf, expand } from "../../services/agreement";
+import { agreementOf, biasAgainstConsensus, countedRows, pairCounts, readPairs, ratingOf, reviewerPairs, type PairCount } from "../../services/agreement";
 import { cohensKappa, percentAgreement } from "../../../shared/stats/index";
 import type { Criterion } from "../../../shared/rubric/types";
 import { FINDING_READS } from "../../../shared/catalogue";
@@ -34,12 +34,24 @@ export function registerReportRoutes(kit: RouteKit, { db }: RouteContext) {
     responses: { 200: { description: "Agreement report" } },
     handler: async ({ user, query }) => {
       const f = { programId: user.programId, from: query.from, to: query.to, application: query.application };
-      const rubric = await activeRubricFor(db, user.programId);
+      const chosenKey = query.criterion ?? "quality";
+      const disagreementQuery = readPairs(db, f).orderBy("e.performed_at", "desc").limit(100);
+      const [rubric, counts, disagreements] = await Promise.all([
+        activeRubricFor(db, user.programId),
+        pairCounts(db, f),
+        chosenKey === "read"
+          ? disagreementQuery
+              .whereRaw("p.reads::jsonb <> s.reads::jsonb")
+              .select("e.id as examId", "e.code", "ap.name as application", db.raw("'reads differ' as a"), db.raw("'' as b"))
+          : disagreementQuery
+              .whereRaw("(p.scores->>?) IS DISTINCT FROM (s.scores->>?)", [chosenKey, chosenKey])
+              .select("e.id as examId", "e.code", "ap.name as application", db.raw("p.scores->>? as a", [chosenKey]), db.raw("s.scores->>? as b", [chosenKey])),
+      ]);
       const criteria: Criterion[] = rubric?.criteria ?? [];
+      const byKey = new Map<string, PairCount[]>();
+      for (const c of counts) byKey.set(c.key, [...(byKey.get(c.key) ?? []), c]);
       // Criteria of older versions that no longer exist still count, by their last known definition.
-      const counts = await pairCounts(db, f);
-      const keys = [...new Set(counts.map((c) => c.key))];
-      for (const key of keys) {
+      for (const key of byKey.keys()) {
         if (key !== "read" && !criteria.some((c) => c.key === key)) {
           const old = await db("rubric_criteria as c")
             .join("rubrics as r", "r.id", "c.rubric_id")
@@ -50,79 +62,39 @@ export function registerReportRoutes(kit: RouteKit, { db }: RouteContext) {
           if (def) criteria.push(def);
         }
       }
-      const rows = [
-        ...criteria.map((c) =>
-          agreementOf(
-            c,
-            counts.filter((x) => x.key === c.key),
-          ),
-        ),
-        agreementOf(
-          READ_CRITERION,
-          counts.filter((x) => x.key === "read"),
-        ),
-      ];
-      const chosenKey = query.criterion ?? "quality";
+      const rows = [...criteria.map((c) => agreementOf(c, byKey.get(c.key) ?? [])), agreementOf(READ_CRITERION, byKey.get("read") ?? [])];
       const chosen = criteria.find((c) => c.key === chosenKey);
       const toRating = ratingOf(chosen);
       const weights = chosen && (chosen.kind === "ordinal" || chosen.kind === "number") ? "quadratic" : "unweighted";
       const categoryValues = chosen ? chosen.levels.map((l) => ({ value: l.value, label: l.label })) : FINDING_READS.map((r) => ({ value: r, label: r }));
       const cats = chosen?.kind === "ordinal" ? chosen.levels.map((_, i) => i) : categoryValues.map((c) => c.value);
 
-      // The chosen criterion's value of a read, as SQL.
-      const valueOf = (alias: "p" | "s") => (chosenKey === "read" ? null : db.raw(`${alias}.scores->>?`, [chosenKey]));
-      const pairRows: { a: string | null; b: string | null; ra: string; rb: string; na: string; nb: string; n: number }[] =
-        chosenKey === "read"
-          ? []
-          : await readPairs(db, f)
-              .join("users as ua", "ua.id", "p.reviewer_id")
-              .join("users as ub", "ub.id", "s.reviewer_id")
-              .groupBy("p.reviewer_id", "s.reviewer_id", "ua.name", "ub.name", db.raw("1"), db.raw("2"))
-              .select(
-                db.raw("p.scores->>? as a", [chosenKey]),
-                db.raw("s.scores->>? as b", [chosenKey]),
-                "p.reviewer_id as ra",
-                "s.reviewer_id as rb",
-                "ua.name as na",
-                "ub.name as nb",
-                db.raw("count(*)::int as n"),
-              );
-      // Pairs are unordered: (A,B) and (B,A) are one pair; kappa is the same either way round.
-      const pairMap = new Map<
-        string,
-        { a: { id: string; name: string }; b: { id: string; name: string }; counts: { a: string | null; b: string | null; n: number }[] }
-      >();
-      for (const r of pairRows) {
-        const flip = r.ra > r.rb;
-        const key = flip ? `${r.rb}|${r.ra}` : `${r.ra}|${r.rb}`;
-        const entry = pairMap.get(key) ?? {
-          a: { id: flip ? r.rb : r.ra, name: flip ? r.nb : r.na },
-          b: { id: flip ? r.ra : r.rb, name: flip ? r.na : r.nb },
-          counts: [],
-        };
-        entry.counts.push(flip ? { a: r.b, b: r.a, n: r.n } : { a: r.a, b: r.b, n: r.n });
-        pairMap.set(key, entry);
-      }
-      const pairs = [...pairMap.values()].map((p) => {
-        const m = expand(p.counts, toRating).filter((x) => x[0] !== null && x[1] !== null);
+      const ids = [...new Set(counts.flatMap((c) => [c.ra, c.rb]))];
+      const names = new Map<string, string>(
+        ids.length
+          ? (await db("users").whereIn("id", ids).select("id", "name")).map((u: { id: string; name: string }) => [u.id, u.name] as [string, string])
+          : [],
+      );
+      // The chosen criterion per reviewer pair (none for the reads of findings).
+      const chosenCounts = chosenKey === "read" ? [] : (byKey.get(chosenKey) ?? []);
+      const pairList = reviewerPairs(chosenCounts, names);
+      const pairs = pairList.map((p) => {
+        const m = countedRows(p.counts, toRating, { complete: true });
         return {
           a: p.a,
           b: p.b,
-          units: m.length,
-          percentAgreement: m.length ? percentAgreement(m).value : null,
-          kappa: m.length >= 2 ? cohensKappa(m, { weights, categories: cats }).value : null,
+          units: m.units,
+          percentAgreement: m.units ? percentAgreement(m.rows, { multiplicity: m.multiplicity }).value : null,
+          kappa: m.units >= 2 ? cohensKappa(m.rows, { weights, categories: cats, multiplicity: m.multiplicity }).value : null,
         };
       });
 
       // Confusion matrix: two chosen reviewers, or first read against second read.
-      const confusionCounts =
-        chosenKey === "read"
-          ? counts.filter((c) => c.key === "read")
-          : query.reviewerA && query.reviewerB
-            ? ([...pairMap.values()]
-                .find((p) => [p.a.id, p.b.id].sort().join() === [query.reviewerA, query.reviewerB].sort().join())
-                ?.counts.map((c) => (pairMap.get(`${query.reviewerA}|${query.reviewerB}`) ? c : { a: c.b, b: c.a, n: c.n })) ?? [])
-            : counts.filter((c) => c.key === chosenKey);
+      const byReviewers = chosenKey !== "read" && query.reviewerA && query.reviewerB;
+      const chosenPair = byReviewers ? pairList.find((p) => [p.a.id, p.b.id].sort().join() === [query.reviewerA, query.reviewerB].sort().join()) : undefined;
+      const confusionCounts = byReviewers
+        ? (chosenPair?.counts.map((c) => (chosenPair.a.id === query.reviewerA ? c : { a: c.b, b: c.a, n: c.n })) ?? [])
+        : (byKey.get(chosenKey) ?? []);
       const index = new Map(categoryValues.map((c, i) => [c.value, i]));
       const grid = categoryValues.map(() => categoryValues.map(() => 0));
       for (const c of confusionCounts) {
@@ -130,57 +102,9 @@ export function registerReportRoutes(kit: RouteKit, { db }: RouteContext) {
         const j = index.get(c.b ?? "");
         if (i !== undefined && j !== undefined) grid[i][j] += c.n;
       }
-      const names = new Map(
-        pairRows.flatMap(
-          (r) =>
-            [
-              [r.ra, r.na],
-              [r.rb, r.nb],
-            ] as [string, string][],
-        ),
-      );
 
       // Bias against consensus: own rank minus the mean of the exam's two reads, per reviewer.
-      const bias: { reviewer: { id: string; name: string }; n: number; meanDifference: number | null; ci95: [number, number] | null }[] = [];
-      if (chosen && (chosen.kind === "ordinal" || chosen.kind === "number")) {
-        const diffs = new Map<string, number[]>();
-        for (const r of pairRows) {
-          const a = toRating(r.a);
-          const b = toRating(r.b);
-          if (typeof a !== "number" || typeof b !== "number") continue;
-          for (const [who, d] of [
-            [r.ra, (a - b) / 2],
-            [r.rb, (b - a) / 2],
-          ] as [string, number][]) {
-            const xs = diffs.get(who) ?? [];
-            for (let i = 0; i < r.n; i++) xs.push(d);
-            diffs.set(who, xs);
-          }
-        }
-        for (const [id, xs] of diffs) {
-          const n = xs.length;
-          const mean = xs.reduce((s, x) => s + x, 0) / n;
-          const sd = n > 1 ? Math.sqrt(xs.reduce((s, x) => s + (x - mean) ** 2, 0) / (n - 1)) : null;
-          // Normal-approximation interval of the mean (1.96 standard errors); none from one read.
-          bias.push({
-            reviewer: { id, name: names.get(id) ?? "" },
-            n,
-            meanDifference: mean,
-            ci95: sd === null ? null : [mean - (1.96 * sd) / Math.sqrt(n), mean + (1.96 * sd) / Math.sqrt(n)],
-          });
-        }
-        bias.sort((x, y) => x.reviewer.name.localeCompare(y.reviewer.name));
-      }
-
-      const disagreementQuery = readPairs(db, f).orderBy("e.performed_at", "desc").limit(100);
-      const disagreements =
-        chosenKey === "read"
-          ? await disagreementQuery
-              .whereRaw("p.reads::jsonb <> s.reads::jsonb")
-              .select("e.id as examId", "e.code", "ap.name as application", db.raw("'reads differ' as a"), db.raw("'' as b"))
-          : await disagreementQuery
-              .whereRaw("(p.scores->>?) IS DISTINCT FROM (s.scores->>?)", [chosenKey, chosenKey])
-              .select("e.id as examId", "e.code", "ap.name as application", valueOf("p")!.wrap("", " as a"), valueOf("s")!.wrap("", " as b"));
+      const bias = chosen && (chosen.kind === "ordinal" || chosen.kind === "number") ? biasAgainstConsensus(chosenCounts, toRating, names) : [];
 
       return {
         from: query.from ?? null,
@@ -190,8 +114,8 @@ export function registerReportRoutes(kit: RouteKit, { db }: RouteContext) {
         criteria: rows,
         pairs,
         confusion: {
-          rowLabel: query.reviewerA && query.reviewerB ? (names.get(query.reviewerA) ?? "Reviewer A") : "First read",
-          colLabel: query.reviewerA && query.reviewerB ? (names.get(query.reviewerB) ?? "Reviewer B") : "Second read",
+          rowLabel: byReviewers ? (names.get(query.reviewerA!) ?? "Reviewer A") : "First read",
+          colLabel: byReviewers ? (names.get(query.reviewerB!) ?? "Reviewer B") : "Second read",
           categories: categoryValues,
           counts: grid,
         },
