@@ -106,7 +106,7 @@ export function AccuracyTable({ application }: { application: ApplicationProgres
   const methods = CONFIRMATION_METHODS.filter((m) => (conf.byMethod[m] ?? 0) > 0);
   const byMethod = methods.map((m: ConfirmationMethod) => `${CONFIRMATION_METHOD_LABELS[m]} ${conf.byMethod[m]}`).join(" · ");
   return (
-    <div className="grid gap-6 xl:grid-cols-2">
+    <div className="space-y-6">
       <AccuracyBlock
         title="Against the reviewer’s final read"
         accuracy={application.accuracyVsReviewer}

@@ -6,7 +6,8 @@ import { formatDate } from "../../lib/format";
 /** 0.873 → "87%" (null → "—"). */
 export function percent(value: number | null | undefined, digits = 0): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return "—";
-  return `${(value * 100).toFixed(digits)}%`;
+  // Whole percentages round the way the interval's lower bound does (Math.round), so both ends of "87% (72–95%)" agree.
+  return digits === 0 ? `${Math.round(value * 100)}%` : `${(value * 100).toFixed(digits)}%`;
 }
 
 /** A rate with its Wilson 95% interval: "87% (72–95%)", or "—" when nothing was counted. */

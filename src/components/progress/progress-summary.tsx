@@ -39,7 +39,9 @@ export function ThresholdStatus({ met, remaining }: { met: boolean; remaining: n
 /** Totals and per-application progress toward the credentialing threshold. */
 export function ProgressSummary({ progress }: { progress: Progress }) {
   const { total, applications } = progress;
+  // Applications without a single exam would fill the table with zeros: they are named in one line beneath it.
   const active = applications.filter((a) => a.submitted > 0 || a.reviewed > 0);
+  const notStarted = applications.filter((a) => a.submitted === 0 && a.reviewed === 0);
   return (
     <div className="space-y-4">
       <dl className="grid grid-cols-2 gap-3 md:grid-cols-4">
@@ -53,7 +55,7 @@ export function ProgressSummary({ progress }: { progress: Progress }) {
         <Figure
           label="Submitted exams"
           value={String(total.submitted)}
-          detail={progress.lastActivityAt ? `Last on ${formatDate(progress.lastActivityAt)}` : undefined}
+          detail={progress.lastActivityAt ? `Last submitted ${formatDate(progress.lastActivityAt)}` : undefined}
         />
       </dl>
       {active.length === 0 ? (
@@ -84,8 +86,8 @@ export function ProgressSummary({ progress }: { progress: Progress }) {
               </tr>
             </thead>
             <tbody className={t.tbody}>
-              {applications.map((a) => (
-                <tr key={a.application.code} className={a.submitted === 0 && a.reviewed === 0 ? "text-slate-600" : undefined}>
+              {active.map((a) => (
+                <tr key={a.application.code}>
                   <th scope="row" className="px-3 py-2 font-semibold text-ink-900">
                     {a.application.name}
                   </th>
@@ -106,6 +108,12 @@ export function ProgressSummary({ progress }: { progress: Progress }) {
           </table>
         </div>
       )}
+      {active.length > 0 && notStarted.length > 0 ? (
+        <p className="text-sm text-slate-700">
+          <span className="font-semibold">No exams yet in:</span> {notStarted.map((a) => a.application.name).join(", ")}
+          <span className="text-slate-600"> (0 of {notStarted[0].threshold} credited each)</span>.
+        </p>
+      ) : null}
       <p className="text-xs text-slate-600">
         An exam counts toward the threshold when its final review gives it credentialing credit (overall image quality at least{" "}
         {progress.settings.minQualityForCredit}, no critical criterion at a failing level, and no clinically significant disagreement in the reads).

@@ -3,9 +3,10 @@
 // on every entry, and filters (application, unread only, not yet acknowledged, credited or
 // not) kept in the address so Back and a shared link keep them.
 import { Fragment } from "react";
-import { Link, useSearchParams } from "react-router-dom";
+import { Link } from "react-router-dom";
 import { useQuery } from "@tanstack/react-query";
 import { CircleCheck, CircleDashed, Mail, MailOpen, MessageSquare } from "lucide-react";
+import { useSearchState } from "../../../components/progress/use-search-state";
 import { Button } from "../../../components/ui/button";
 import { PageHeader } from "../../../components/ui/page-header";
 import { SelectField } from "../../../components/ui/select-field";
@@ -110,7 +111,7 @@ function Entry({ item }: { item: FeedbackListItem }) {
 }
 
 export default function FeedbackListPage() {
-  const [params, setParams] = useSearchParams();
+  const [params, update] = useSearchState();
   const filters = readFilters(params);
   const list = useFeedbackList();
   const apps = useQuery(applicationsQuery);
@@ -128,25 +129,8 @@ export default function FeedbackListPage() {
     else months.push({ month, items: [item] });
   }
 
-  const set = (key: (typeof FILTER_KEYS)[number], value: string) =>
-    setParams(
-      (prev) => {
-        const next = new URLSearchParams(prev);
-        if (value) next.set(key, value);
-        else next.delete(key);
-        return next;
-      },
-      { replace: true },
-    );
-  const clear = () =>
-    setParams(
-      (prev) => {
-        const next = new URLSearchParams(prev);
-        for (const k of FILTER_KEYS) next.delete(k);
-        return next;
-      },
-      { replace: true },
-    );
+  const set = (key: (typeof FILTER_KEYS)[number], value: string) => update({ [key]: value });
+  const clear = () => update(Object.fromEntries(FILTER_KEYS.map((k) => [k, null])));
 
   return (
     <div>

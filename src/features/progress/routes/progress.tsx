@@ -4,7 +4,7 @@
 // of "my credentialing report". Application, rolling-mean window and date range live in the
 // address, so Back and a shared link keep them.
 import { useState } from "react";
-import { Link, useSearchParams } from "react-router-dom";
+import { Link } from "react-router-dom";
 import { useQuery } from "@tanstack/react-query";
 import { Download, Mail } from "lucide-react";
 import { CREDENTIALING_CAUTION, type ApplicationProgress, type Progress } from "../../../../shared/schemas/progress";
@@ -14,6 +14,7 @@ import { cusumSentence } from "../../../components/progress/format";
 import { LearningCurve } from "../../../components/progress/learning-curve";
 import { ProgressSummary, ThresholdStatus } from "../../../components/progress/progress-summary";
 import { StrengthsAndFocus } from "../../../components/progress/strengths-and-focus";
+import { useSearchState } from "../../../components/progress/use-search-state";
 import { Button, buttonClasses } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { PageHeader } from "../../../components/ui/page-header";
@@ -107,7 +108,7 @@ function ApplicationDetail({ app, progress }: { app: ApplicationProgress; progre
 }
 
 export default function ProgressPage() {
-  const [params, setParams] = useSearchParams();
+  const [params, set] = useSearchState();
   const from = isIsoDay(params.get("from")) ? params.get("from")! : undefined;
   const to = isIsoDay(params.get("to")) ? params.get("to")! : undefined;
   const windowParam = Number(params.get("window"));
@@ -115,19 +116,6 @@ export default function ProgressPage() {
   const badRange = !!from && !!to && from > to;
   const query = useQuery({ ...myProgressQuery({ from, to, window: windowSize }), enabled: !badRange });
   const progress = query.data;
-
-  const set = (changes: Record<string, string | undefined>) =>
-    setParams(
-      (prev) => {
-        const next = new URLSearchParams(prev);
-        for (const [k, v] of Object.entries(changes)) {
-          if (v) next.set(k, v);
-          else next.delete(k);
-        }
-        return next;
-      },
-      { replace: true },
-    );
 
   const app = progress ? pickApplication(progress, params.get("application")) : undefined;
 
