@@ -229,6 +229,11 @@ const MATRIX: Row[] = [
   },
   { route: "GET /calibration-sets", call: fixed("/api/calibration-sets"), expect: only(["qa_lead"], 200) },
   {
+    route: "GET /calibration-sets/exams/:id",
+    call: async () => ({ path: `/api/calibration-sets/exams/${(await makeExam(kit.db, programId, members.sonographer.id, { status: "submitted" })).id}` }),
+    expect: only(["qa_lead"], 200),
+  },
+  {
     route: "GET /calibration-sets/:id/results",
     call: fixed("/api/calibration-sets/00000000-0000-4000-8000-000000000000/results"),
     expect: only(["qa_lead"], 404),

@@ -102,4 +102,170 @@ describe("calibration sets", () => {
     const list = await request(kit.app).get("/api/calibration-sets").set("Authorization", L);
     expect(list.body.items[0]).toMatchObject({ name: "Autumn calibration", exams: 4, reads: 12, done: 12 });
   });
+
+  it("gives the QA lead an exam's reference form: the criteria calibration reads use and the application's findings", async () => {
+    const p = await makeProgram(kit.db);
+    const other = await makeProgram(kit.db);
+    const lead = await makeMember(kit.db, p.id, ["qa_lead"]);
+    const sono = await makeMember(kit.db, p.id, ["sonographer"]);
+    const foreignSono = await makeMember(kit.db, other.id, ["sonographer"]);
+    const submitted = await makeExam(kit.db, p.id, sono.id, { application: "aorta", status: "submitted" });
+    const draft = await makeExam(kit.db, p.id, sono.id, { application: "aorta" });
+    const foreign = await makeExam(kit.db, other.id, foreignSono.id, { status: "submitted" });
+    const L = `Bearer ${await tokenFor(kit, lead)}`;
+
+    const res = await request(kit.app).get(`/api/calibration-sets/exams/${submitted.id}`).set("Authorization", L);
+    expect(res.status).toBe(200);
+    expect(res.body.exam).toEqual({ id: submitted.id, code: submitted.code, application: { code: "aorta", name: "Abdominal aorta" } });
+    expect(res.body.rubric.version).toBe(1);
+    // The default rubric (PRODUCT.md section 5) applies all seven criteria to every application.
+    expect(res.body.criteria.map((c: { key: string }) => c.key)).toEqual(["transducer", "marker", "depth", "gain", "plane", "labels", "quality"]);
+    expect(res.body.criteria.find((c: { key: string }) => c.key === "quality").levels[0]).toMatchObject({ value: "1", anchor: "No recognisable structures." });
+    expect(res.body.findings).toEqual([{ key: "aneurysm", label: "Aneurysm (3 cm or more)" }]);
+    // A draft is not yet an exam anyone may calibrate on; another program's exam does not exist here.
+    expect((await request(kit.app).get(`/api/calibration-sets/exams/${draft.id}`).set("Authorization", L)).status).toBe(404);
+    expect((await request(kit.app).get(`/api/calibration-sets/exams/${foreign.id}`).set("Authorization", L)).status).toBe(404);
+  });
+
+  it("refuses a reference answer a reviewer could not give, naming the field", async () => {
+    const p = await makeProgram(kit.db);
+    const lead = await makeMember(kit.db, p.id, ["qa_lead"]);
+    const sono = await makeMember(kit.db, p.id, ["sonographer"]);
+    await makeMember(kit.db, p.id, ["reviewer"]);
+    await makeMember(kit.db, p.id, ["reviewer"]);
+    const efast = await makeExam(kit.db, p.id, sono.id, { status: "submitted" });
+    const aorta = await makeExam(kit.db, p.id, sono.id, { application: "aorta", status: "submitted" });
+    const L = `Bearer ${await tokenFor(kit, lead)}`;
+    const post = (exams: object[]) => request(kit.app).post("/api/calibration-sets").set("Authorization", L).send({ name: "Checks", exams });
+    const paths = (res: request.Response) => (res.body.error.details as { path: string }[]).map((d) => d.path);
+
+    const badValues = await post([
+      { examId: efast.id, reference: { scores: { colour: "blue", quality: "4" }, reads: [{ key: "aneurysm", read: "positive" }] } },
+      { examId: aorta.id, reference: { scores: { quality: "6" }, reads: [] } },
+    ]);
+    expect(badValues.status).toBe(400);
+    expect(badValues.body.error.code).toBe("validation_failed");
+    expect(badValues.body.error.message).toMatch(/^exams\.0\.reference\.scores\.colour: /);
+    // The aneurysm is an aorta finding, not an eFAST one.
+    expect(paths(badValues)).toEqual(["exams.0.reference.scores.colour", "exams.0.reference.reads.0.key", "exams.1.reference.scores.quality"]);
+
+    const empty = await post([{ examId: efast.id, reference: { scores: {}, reads: [] } }, { examId: aorta.id }]);
+    expect(empty.status).toBe(400);
+    expect(paths(empty)).toEqual(["exams.0.reference"]);
+
+    const badRead = await post([{ examId: efast.id }, { examId: aorta.id, reference: { scores: {}, reads: [{ key: "aneurysm", read: "maybe" }] } }]);
+    expect(badRead.status).toBe(400);
+    expect(paths(badRead)[0]).toBe("exams.1.reference.reads.0.read");
+
+    const twice = await post([{ examId: efast.id }, { examId: efast.id }]);
+    expect(twice.status).toBe(400);
+    expect(twice.body.error.message).toMatch(/^exams: Pick each exam once/);
+
+    const unknown = await post([{ examId: efast.id }, { examId: "00000000-0000-4000-8000-000000000000" }]);
+    expect(unknown.status).toBe(400);
+    expect(paths(unknown)).toEqual(["exams.1.examId"]);
+    expect(await kit.db("calibration_sets").where("program_id", p.id)).toHaveLength(0);
+  });
+
+  it("compares each reviewer's scores and finding reads with the reference, and reports agreement on the reads", async () => {
+    const p = await makeProgram(kit.db);
+    const lead = await makeMember(kit.db, p.id, ["qa_lead"]);
+    const sono = await makeMember(kit.db, p.id, ["sonographer"]);
+    const r1 = await makeMember(kit.db, p.id, ["reviewer"]);
+    const r2 = await makeMember(kit.db, p.id, ["reviewer"]);
+    const efast = await makeExam(kit.db, p.id, sono.id, { status: "submitted" });
+    const aorta = await makeExam(kit.db, p.id, sono.id, { application: "aorta", status: "submitted" });
+    await kit
+      .db("exam_findings")
+      .insert([
+        ...EFAST.map((key) => ({ exam_id: efast.id, finding_key: key, read: "negative" })),
+        { exam_id: aorta.id, finding_key: "aneurysm", read: "positive" },
+      ]);
+    const L = `Bearer ${await tokenFor(kit, lead)}`;
+    const created = await request(kit.app)
+      .post("/api/calibration-sets")
+      .set("Authorization", L)
+      .send({
+        name: "Reads",
+        exams: [
+          {
+            examId: efast.id,
+            reference: {
+              scores: { quality: "4", depth: "fits" },
+              reads: [
+                { key: "free_fluid_ruq", read: "positive" },
+                { key: "pericardial_effusion", read: "negative" },
+              ],
+            },
+          },
+          { examId: aorta.id, reference: { scores: { quality: "3", transducer: "suitable" }, reads: [{ key: "aneurysm", read: "positive" }] } },
+        ],
+      });
+    expect(created.status).toBe(201);
+
+    // r1 reads every eFAST finding negative; r2 sees free fluid in the right upper quadrant. Both see the aneurysm.
+    const plan = new Map([
+      [r1.id, { efast: { quality: "4", ruq: "negative" }, aorta: "3" }],
+      [r2.id, { efast: { quality: "3", ruq: "positive" }, aorta: "3" }],
+    ]);
+    for (const r of [r1, r2]) {
+      const auth = `Bearer ${await tokenFor(kit, r)}`;
+      const mine = plan.get(r.id)!;
+      for (let k = 0; k < 2; k++) {
+        const claim = await request(kit.app).post("/api/queue/next").set("Authorization", auth).send({});
+        expect(claim.status).toBe(200);
+        const isEfast = claim.body.exam.id === efast.id;
+        const body = isEfast
+          ? { scores: scores(mine.efast.quality), reads: EFAST.map((key) => ({ key, read: key === "free_fluid_ruq" ? mine.efast.ruq : "negative" })) }
+          : { scores: scores(mine.aorta), reads: [{ key: "aneurysm", read: "positive" }] };
+        const res = await request(kit.app).post(`/api/assignments/${claim.body.assignment.id}/review`).set("Authorization", auth).send(body);
+        expect(res.status, JSON.stringify(res.body)).toBe(201);
+      }
+    }
+
+    const results = await request(kit.app).get(`/api/calibration-sets/${created.body.id}/results`).set("Authorization", L);
+    expect(results.status).toBe(200);
+    expect(results.body.exams).toEqual([
+      { id: efast.id, code: efast.code, application: { code: "efast", name: "Trauma (FAST / eFAST)" }, hasReference: true },
+      { id: aorta.id, code: aorta.code, application: { code: "aorta", name: "Abdominal aorta" }, hasReference: true },
+    ]);
+    const vs = Object.fromEntries(
+      results.body.vsReference.map((v: { reviewer: { id: string }; matched: number; compared: number; reads: { matched: number; compared: number } }) => [
+        v.reviewer.id,
+        { scores: [v.matched, v.compared], reads: [v.reads.matched, v.reads.compared] },
+      ]),
+    );
+    // Counted by hand from the plan (both give the transducer "suitable", as scores() does): r1 misses the
+    // reference's free fluid; r2 scores quality 3 where the reference says 4.
+    expect(vs[r1.id]).toEqual({ scores: [4, 4], reads: [2, 3] });
+    expect(vs[r2.id]).toEqual({ scores: [3, 4], reads: [3, 3] });
+
+    const detail = results.body.referenceDetail as {
+      examId: string;
+      rows: { kind: string; key: string; label: string; reference: { label: string }; given: { reviewerId: string; label: string; matches: boolean }[] }[];
+    }[];
+    expect(detail.map((d) => d.examId)).toEqual([efast.id, aorta.id]);
+    // Rows follow the rubric (transducer before quality) and then the catalogue, not the order stored.
+    expect(detail[1].rows.map((r) => r.key)).toEqual(["transducer", "quality", "aneurysm"]);
+    const ruq = detail[0].rows.find((r) => r.kind === "read" && r.key === "free_fluid_ruq")!;
+    expect(ruq.label).toBe("Free fluid, right upper quadrant");
+    expect(ruq.reference.label).toBe("Positive");
+    expect(Object.fromEntries(ruq.given.map((g) => [g.reviewerId, [g.label, g.matches]]))).toEqual({
+      [r1.id]: ["Negative", false],
+      [r2.id]: ["Positive", true],
+    });
+    const quality = detail[0].rows.find((r) => r.kind === "score" && r.key === "quality")!;
+    expect(quality.label).toBe("Overall image quality");
+    expect(Object.fromEntries(quality.given.map((g) => [g.reviewerId, g.matches]))).toEqual({ [r1.id]: true, [r2.id]: false });
+
+    // Agreement on the reads: 7 units (6 eFAST findings, the aneurysm); one splits, 5 are both
+    // negative, 1 both positive. By hand with Fleiss (1971), eq. for P-bar and P-bar-e:
+    // P = 6/7, Pe = (11² + 3²)/14² = 130/196, kappa = (6/7 − 130/196)/(1 − 130/196) = 19/33.
+    // Krippendorff's nominal alpha from the coincidence matrix (Krippendorff 2011, "Computing
+    // Krippendorff's Alpha-Reliability", section C): 1 − (n − 1)·Σo(c≠k)/Σ n_c n_k(c≠k) = 1 − 13·2/(2·11·3) = 20/33.
+    const read = results.body.criteria.find((c: { key: string }) => c.key === "read");
+    expect(read.units).toBe(7);
+    expect(read.fleiss.value).toBeCloseTo(19 / 33, 12);
+    expect(read.alpha.value).toBeCloseTo(20 / 33, 12);
+  });
 });

@@ -2,32 +2,30 @@
 // them to all or some reviewers as blinded calibration reads; the results show multi-rater
 // agreement per criterion (Fleiss' kappa, Krippendorff's alpha) and each reviewer against
 // the reference.
-import { z } from "zod";
+import type { Knex } from "knex";
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../app";
 import { HttpError, notFound } from "../../http/errors";
 import { idParamsSchema } from "../../../shared/schemas/common";
-import { scoreValueSchema, readSchema } from "../../../shared/schemas/reviews";
 import { activeRubricFor, getRubric } from "../../repositories/rubrics";
 import { audit } from "../../repositories/audit";
-import { ratingOf } from "../../services/agreement";
-import { fleissKappa, krippendorffAlpha, agreementBand } from "../../../shared/stats/index";
 import { criteriaFor } from "../../../shared/rubric/logic";
+import { createCalibrationSetSchema, type ReferenceAnswer } from "./schema";
+import { referenceIssues } from "./reference";
+import { calibrationResults } from "./results";
 
-const createSchema = z.object({
-  name: z.string().trim().min(1, "Name the calibration set").max(120),
-  exams: z
-    .array(
-      z.object({
-        examId: z.uuid(),
-        reference: z.object({ scores: z.record(z.string(), scoreValueSchema), reads: z.array(readSchema).default([]) }).optional(),
-      }),
-    )
-    .min(2, "Pick at least two exams")
-    .max(50),
-  /** Reviewers to calibrate; all active reviewers when left out. */
-  reviewerIds: z.array(z.uuid()).min(2, "Pick at least two reviewers").optional(),
-});
+/** Each application's findings (key and label), in catalogue order, for the given application ids. */
+async function findingsByApplication(db: Knex | Knex.Transaction, applicationIds: string[]) {
+  const rows: { application_id: string; key: string; label: string }[] = await db("application_findings")
+    .whereIn("application_id", [...new Set(applicationIds)])
+    .orderBy(["application_id", "position"])
+    .select("application_id", "key", "label");
+  const out = new Map<string, { key: string; label: string }[]>();
+  for (const r of rows) out.set(r.application_id, [...(out.get(r.application_id) ?? []), { key: r.key, label: r.label }]);
+  return out;
+}
+
+const reviewerError = (message: string) => new HttpError(400, "validation_failed", `reviewerIds: ${message}`, [{ path: "reviewerIds", message }]);
 
 export function registerCalibrationRoutes(kit: RouteKit, { db }: RouteContext) {
   defineRoute(kit, {
@@ -36,22 +34,44 @@ export function registerCalibrationRoutes(kit: RouteKit, { db }: RouteContext) {
     summary: "Send chosen exams to reviewers as blinded calibration reads",
     tag: "calibration",
     access: ["qa_lead"],
-    body: createSchema,
+    body: createCalibrationSetSchema,
     responses: { 201: { description: "Created" } },
     handler: async ({ req, res, user, body }) => {
       const id = await db.transaction(async (trx) => {
         const examIds = body.exams.map((e) => e.examId);
-        const exams = await trx("exams").where("program_id", user.programId).whereIn("id", examIds).whereNot("status", "draft").select("id", "sonographer_id");
+        const exams: { id: string; sonographer_id: string; application_id: string; app_code: string }[] = await trx("exams as e")
+          .join("applications as ap", "ap.id", "e.application_id")
+          .where("e.program_id", user.programId)
+          .whereIn("e.id", examIds)
+          .whereNot("e.status", "draft")
+          .select("e.id", "e.sonographer_id", "e.application_id", "ap.code as app_code");
         const missing = examIds.findIndex((x) => !exams.some((e) => e.id === x));
-        if (missing >= 0) throw new HttpError(400, "validation_failed", `exams.${missing}.examId: no submitted exam with this id in the program`);
+        if (missing >= 0) {
+          const message = "No submitted exam with this id in the program";
+          throw new HttpError(400, "validation_failed", `exams.${missing}.examId: ${message}`, [{ path: `exams.${missing}.examId`, message }]);
+        }
         const reviewerRows = trx("memberships").where("program_id", user.programId).whereNull("deactivated_at").whereRaw(`'reviewer' = ANY(roles)`);
         if (body.reviewerIds) reviewerRows.whereIn("user_id", body.reviewerIds);
         const reviewers: string[] = await reviewerRows.pluck("user_id");
-        if (body.reviewerIds && reviewers.length !== new Set(body.reviewerIds).size)
-          throw new HttpError(400, "validation_failed", "reviewerIds: every id must be an active reviewer of this program");
-        if (reviewers.length < 2) throw new HttpError(400, "validation_failed", "reviewerIds: calibration needs at least two reviewers");
+        if (body.reviewerIds && reviewers.length !== new Set(body.reviewerIds).size) throw reviewerError("every id must be an active reviewer of this program");
+        if (reviewers.length < 2) throw reviewerError("calibration needs at least two reviewers");
         const rubric = await activeRubricFor(trx, user.programId);
         if (!rubric) throw new HttpError(409, "no_rubric", "Publish a rubric first");
+        // A reference answer must be an answer a reviewer could give: the calibration reads' rubric, the exam's findings.
+        const findings = await findingsByApplication(
+          trx,
+          exams.map((e) => e.application_id),
+        );
+        const issues = body.exams.flatMap((item, i) => {
+          if (!item.reference) return [];
+          const exam = exams.find((e) => e.id === item.examId)!;
+          const keys = (findings.get(exam.application_id) ?? []).map((f) => f.key);
+          return referenceIssues(rubric.criteria, exam.app_code, rubric.version, keys, item.reference).map((issue) => ({
+            path: issue.path === "reference" ? `exams.${i}.reference` : `exams.${i}.reference.${issue.path}`,
+            message: issue.message,
+          }));
+        });
+        if (issues.length) throw new HttpError(400, "validation_failed", `${issues[0].path}: ${issues[0].message}`, issues);
         const [set] = await trx("calibration_sets").insert({ program_id: user.programId, name: body.name, created_by: user.id }).returning("id");
         await trx("calibration_items").insert(
           body.exams.map((e, i) => ({ set_id: set.id, exam_id: e.examId, reference: e.reference ? JSON.stringify(e.reference) : null, position: i })),
@@ -112,6 +132,34 @@ export function registerCalibrationRoutes(kit: RouteKit, { db }: RouteContext) {
 
   defineRoute(kit, {
     method: "get",
+    path: "/calibration-sets/exams/:id",
+    summary: "An exam as the new-set form needs it for a reference answer: its application, the criteria calibration reads would use, its findings",
+    tag: "calibration",
+    access: ["qa_lead"],
+    params: idParamsSchema,
+    responses: { 200: { description: "The exam's reference form" }, 404: { description: "No submitted exam with this id in the program" } },
+    handler: async ({ user, params }) => {
+      const exam = await db("exams as e")
+        .join("applications as ap", "ap.id", "e.application_id")
+        .where({ "e.id": params.id, "e.program_id": user.programId })
+        .whereNot("e.status", "draft")
+        .first("e.id", "e.code", "e.application_id", "ap.code as app_code", "ap.name as app_name");
+      if (!exam) throw notFound("Submitted exam");
+      // The same rubric version the set's calibration reads will be made under.
+      const rubric = await activeRubricFor(db, user.programId);
+      if (!rubric) throw new HttpError(409, "no_rubric", "Publish a rubric first");
+      const findings = (await findingsByApplication(db, [exam.application_id])).get(exam.application_id) ?? [];
+      return {
+        exam: { id: exam.id, code: exam.code, application: { code: exam.app_code, name: exam.app_name } },
+        rubric: { id: rubric.id, name: rubric.name, version: rubric.version },
+        criteria: criteriaFor(rubric.criteria, exam.app_code),
+        findings,
+      };
+    },
+  });
+
+  defineRoute(kit, {
+    method: "get",
     path: "/calibration-sets/:id/results",
     summary: "Multi-rater agreement per criterion and each reviewer against the reference",
     tag: "calibration",
@@ -121,12 +169,13 @@ export function registerCalibrationRoutes(kit: RouteKit, { db }: RouteContext) {
     handler: async ({ user, params }) => {
       const set = await db("calibration_sets").where({ id: params.id, program_id: user.programId }).first();
       if (!set) throw notFound("Calibration set");
-      const items = await db("calibration_items as i")
-        .join("exams as e", "e.id", "i.exam_id")
-        .join("applications as ap", "ap.id", "e.application_id")
-        .where("i.set_id", set.id)
-        .orderBy("i.position")
-        .select("i.exam_id", "i.reference", "e.code", "ap.code as app_code");
+      const items: { exam_id: string; reference: ReferenceAnswer | null; code: string; application_id: string; app_code: string; app_name: string }[] =
+        await db("calibration_items as i")
+          .join("exams as e", "e.id", "i.exam_id")
+          .join("applications as ap", "ap.id", "e.application_id")
+          .where("i.set_id", set.id)
+          .orderBy("i.position")
+          .select("i.exam_id", "i.reference", "e.code", "e.application_id", "ap.code as app_code", "ap.name as app_name");
       const reads = await db("reviews as r")
         .join("assignments as a", "a.id", "r.assignment_id")
         .join("users as u", "u.id", "r.reviewer_id")
@@ -134,56 +183,27 @@ export function registerCalibrationRoutes(kit: RouteKit, { db }: RouteContext) {
         .select("r.exam_id", "r.reviewer_id", "u.name", "r.scores", "r.reads", "r.rubric_id");
       const rubricId = reads[0]?.rubric_id ?? (await db("assignments").where("calibration_set_id", set.id).first("rubric_id"))?.rubric_id;
       const rubric = rubricId ? await getRubric(db, user.programId, rubricId) : undefined;
-      const reviewers = [...new Map(reads.map((r) => [r.reviewer_id, r.name])).entries()]
+      const reviewers = [...new Map(reads.map((r) => [r.reviewer_id as string, r.name as string])).entries()]
         .map(([id, name]) => ({ id, name }))
         .sort((a, b) => a.name.localeCompare(b.name));
-      const criteria = rubric ? criteriaFor(rubric.criteria, items[0]?.app_code ?? "") : [];
-      const perCriterion = criteria.map((c) => {
-        const rate = ratingOf(c);
-        // One row per exam, one column per reviewer; a missing read is null.
-        const matrix = items.map((it) =>
-          reviewers.map(
-            (rv) => rate(reads.find((r) => r.exam_id === it.exam_id && r.reviewer_id === rv.id)?.scores?.[c.key] ?? null) as string | number | null,
-          ),
-        );
-        const categories = c.kind === "ordinal" ? c.levels.map((_, i) => i) : c.levels.map((l) => l.value);
-        // Only exams every reviewer has read; with fewer than two readers there is nothing to compare.
-        const completeRows = reviewers.length < 2 ? [] : matrix.filter((row) => row.every((v) => v !== null));
-        const fleiss = completeRows.length && c.kind !== "number" ? fleissKappa(completeRows, { categories }) : null;
-        const alpha = krippendorffAlpha(matrix, { level: c.kind === "ordinal" ? "ordinal" : c.kind === "number" ? "interval" : "nominal" });
-        return {
-          key: c.key,
-          label: c.label,
-          units: completeRows.length,
-          fleiss: fleiss ? { value: fleiss.value, ci95: fleiss.ci95 } : null,
-          alpha: { value: alpha.value },
-          band: fleiss?.value == null ? null : agreementBand(fleiss.value),
-        };
-      });
-      // Each reviewer against the reference answer: the share of reference scores matched exactly.
-      const withReference = items.filter((it) => it.reference);
-      const vsReference = reviewers.map((rv) => {
-        let compared = 0;
-        let matched = 0;
-        for (const it of withReference) {
-          const mine = reads.find((r) => r.exam_id === it.exam_id && r.reviewer_id === rv.id);
-          if (!mine) continue;
-          for (const [key, value] of Object.entries(it.reference.scores as Record<string, unknown>)) {
-            if (mine.scores[key] === undefined) continue;
-            compared++;
-            if (String(mine.scores[key]) === String(value)) matched++;
-          }
-        }
-        return { reviewer: rv, compared, matched, share: compared ? matched / compared : null };
-      });
-      return {
-        id: set.id,
-        name: set.name,
-        exams: items.map((i) => ({ id: i.exam_id, code: i.code, hasReference: Boolean(i.reference) })),
+      const findings = await findingsByApplication(
+        db,
+        items.map((i) => i.application_id),
+      );
+      const byCode = new Map(items.map((i) => [i.app_code, findings.get(i.application_id) ?? []]));
+      const results = calibrationResults(
+        items.map((i) => ({
+          examId: i.exam_id,
+          code: i.code,
+          application: { code: i.app_code, name: i.app_name },
+          reference: i.reference ? { scores: i.reference.scores ?? {}, reads: i.reference.reads ?? [] } : null,
+        })),
+        reads.map((r) => ({ examId: r.exam_id, reviewerId: r.reviewer_id, scores: r.scores ?? {}, reads: r.reads ?? [] })),
         reviewers,
-        criteria: perCriterion,
-        vsReference,
-      };
+        rubric?.criteria ?? [],
+        (app) => byCode.get(app) ?? [],
+      );
+      return { id: set.id, name: set.name, ...results };
     },
   });
 }
