@@ -2,7 +2,9 @@
 // exams and reviewers, and a set's results (multi-rater agreement, matches with a reference).
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import type { Role } from "../../../../shared/roles";
-import { api } from "../../../lib/api-client";
+import type { FindingRead } from "../../../../shared/catalogue";
+import type { Criterion, ScoreValue } from "../../../../shared/rubric/types";
+import { api, isApiError } from "../../../lib/api-client";
 
 export type Interval = [number, number];
 
@@ -33,20 +35,50 @@ export interface CalibrationCriterion {
   band: string | null;
 }
 
-export interface ReviewerVsReference {
-  reviewer: Person;
+export interface MatchCount {
   compared: number;
   matched: number;
   share: number | null;
 }
 
+/** One reviewer against the reference answers: scores (top level) and reads of findings. */
+export interface ReviewerVsReference extends MatchCount {
+  reviewer: Person;
+  reads: MatchCount;
+}
+
+/** One value of a reference answer beside each reviewer's (null while a reviewer has not read the exam). */
+export interface ReferenceRow {
+  kind: "score" | "read";
+  key: string;
+  label: string;
+  reference: { value: ScoreValue; label: string };
+  given: { reviewerId: string; value: ScoreValue | null; label: string | null; matches: boolean | null }[];
+}
+
 export interface CalibrationResults {
   id: string;
   name: string;
-  exams: { id: string; code: string; hasReference: boolean }[];
+  exams: { id: string; code: string; application: { code: string; name: string }; hasReference: boolean }[];
   reviewers: Person[];
   criteria: CalibrationCriterion[];
   vsReference: ReviewerVsReference[];
+  referenceDetail: { examId: string; code: string; rows: ReferenceRow[] }[];
+}
+
+/** What the new-set form needs to take a reference answer for one exam. */
+export interface ReferenceForm {
+  exam: { id: string; code: string; application: { code: string; name: string } };
+  rubric: { id: string; name: string; version: number };
+  /** The rubric's criteria for the exam's application, in display order. */
+  criteria: Criterion[];
+  findings: { key: string; label: string }[];
+}
+
+/** The QA lead's answer for one exam, as sent: either part may be partial. */
+export interface ReferenceAnswer {
+  scores: Record<string, ScoreValue>;
+  reads: { key: string; read: FindingRead }[];
 }
 
 /** An exam two reviewers scored differently, from the agreement report: a natural calibration pick. */
@@ -68,7 +100,7 @@ export interface ProgramMember {
 
 export interface NewCalibrationSet {
   name: string;
-  exams: { examId: string }[];
+  exams: { examId: string; reference?: ReferenceAnswer }[];
   /** Left out to send the set to every active reviewer. */
   reviewerIds?: string[];
 }
@@ -77,6 +109,7 @@ export const calibrationKeys = {
   all: ["calibration-sets"] as const,
   list: () => ["calibration-sets", "list"] as const,
   results: (id: string) => ["calibration-sets", "results", id] as const,
+  referenceForm: (examId: string) => ["calibration-sets", "reference-form", examId] as const,
 };
 
 export const calibrationSetsQuery = queryOptions({
@@ -88,6 +121,16 @@ export const calibrationResultsQuery = (id: string) =>
   queryOptions({
     queryKey: calibrationKeys.results(id),
     queryFn: ({ signal }) => api<CalibrationResults>(`/calibration-sets/${encodeURIComponent(id)}/results`, { signal }),
+  });
+
+/** An exam's application, criteria and findings for its reference answer; a missing or draft exam is a 404. */
+export const referenceFormQuery = (examId: string) =>
+  queryOptions({
+    queryKey: calibrationKeys.referenceForm(examId),
+    queryFn: ({ signal }) => api<ReferenceForm>(`/calibration-sets/exams/${encodeURIComponent(examId)}`, { signal }),
+    staleTime: 5 * 60_000,
+    // A 404 (no such submitted exam) will not change by asking again.
+    retry: (count, error) => !isApiError(error, 404) && count < 2,
   });
 
 /** Exams where two reviewers disagreed on overall image quality over the report's default range. */

@@ -25,7 +25,7 @@ export function CriteriaAgreementTable({ criteria }: { criteria: CalibrationCrit
       description={
         <>
           Fleiss&apos; kappa over the exams every reviewer has read, with its 95 % interval; Krippendorff&apos;s alpha over all reads, missing ones included.
-          The band is read from kappa.
+          The band is read from kappa. For the reads of findings, each finding of each exam counts as one unit.
         </>
       }
     >

@@ -1,5 +1,6 @@
-// Oversight → Calibration → one set: who takes part, which exams, how closely the
-// reviewers agree per criterion, and how each compares with the reference answers.
+// Oversight → Calibration → one set: who takes part, which exams (and which carry a reference
+// answer), how closely the reviewers agree per criterion, and how each compares with the
+// reference answers.
 import { Link, useLocation, useParams } from "react-router-dom";
 import { buttonClasses } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
@@ -47,11 +48,12 @@ export default function CalibrationResultsPage() {
               <dt className="text-xs font-semibold uppercase tracking-wide text-slate-700">Exams ({data.exams.length})</dt>
               <dd className="mt-1 flex flex-wrap gap-x-4 gap-y-1">
                 {data.exams.map((e) => (
-                  <span key={e.id} className="inline-flex items-center gap-1.5">
+                  <span key={e.id} className="inline-flex items-center gap-1.5" data-exam={e.code}>
                     <Link to={`/exams/${e.id}`} className="font-mono text-sm font-semibold text-sea-700 underline-offset-2 hover:underline">
                       {e.code}
                     </Link>
-                    {e.hasReference ? <StatusTag tone="neutral">Reference</StatusTag> : null}
+                    <span className="text-xs text-slate-600">{e.application.name}</span>
+                    {e.hasReference ? <StatusTag tone="neutral">Reference answer</StatusTag> : null}
                   </span>
                 ))}
               </dd>
@@ -72,7 +74,7 @@ export default function CalibrationResultsPage() {
               ) : (
                 <CriteriaAgreementTable criteria={data.criteria} />
               )}
-              <ReferenceTable rows={data.vsReference} />
+              <ReferenceTable results={data} />
             </>
           )}
         </>
