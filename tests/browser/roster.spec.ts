@@ -258,3 +258,25 @@ test("the QA lead sets the learning-curve rates, and the server's refusal of an 
     await lead.dispose();
   }
 });
+
+test("a refused report download shows the server's own message", async ({ browser }) => {
+  const page = await (await browser.newContext()).newPage();
+  try {
+    await page.goto("/sign-in");
+    await page.getByLabel("E-mail").fill(LEAD);
+    await page.getByLabel("Password").fill(PASSWORD);
+    await page.getByRole("button", { name: "Sign in" }).click();
+    await expect(page.getByRole("heading", { level: 1, name: "Home" })).toBeVisible();
+    // A well-formed id that names nobody in the program: GET /api/reports/credentialing answers
+    // 404 with a JSON error body instead of a file.
+    await page.goto("/oversight/reports?userId=00000000-0000-4000-8000-000000000000&from=&to=");
+    await expect(page.getByLabel("One sonographer")).toBeChecked();
+    let downloaded = false;
+    page.on("download", () => (downloaded = true));
+    await page.getByRole("button", { name: "Download", exact: true }).click();
+    await expect(page.getByRole("alert")).toContainText("Sonographer not found");
+    expect(downloaded).toBe(false);
+  } finally {
+    await page.context().close();
+  }
+});

@@ -14,9 +14,12 @@ const toneClasses: Record<Tone, string> = {
   problem: "bg-coral-50 text-coral-800 ring-coral-200",
 };
 
-function Tag({ tone, Icon, children, title }: { tone: Tone; Icon: LucideIcon; children: string; title?: string }) {
+function Tag({ tone, Icon, children, title, nowrap = false }: { tone: Tone; Icon: LucideIcon; children: string; title?: string; nowrap?: boolean }) {
   return (
-    <span title={title} className={`inline-flex items-center gap-1 rounded-xl px-2 py-0.5 text-xs font-semibold ring-1 ring-inset ${toneClasses[tone]}`}>
+    <span
+      title={title}
+      className={`inline-flex items-center gap-1 rounded-xl px-2 py-0.5 text-xs font-semibold ring-1 ring-inset ${nowrap ? "whitespace-nowrap" : ""} ${toneClasses[tone]}`}
+    >
       <Icon aria-hidden="true" className="size-3.5 shrink-0" />
       <span className="min-w-0">{children}</span>
     </span>
@@ -61,7 +64,7 @@ export function SignalTag({ signal }: { signal: CusumView["signal"] }) {
         ? { tone: "problem" as const, Icon: CircleAlert }
         : { tone: "neutral" as const, Icon: CircleDashed };
   return (
-    <Tag tone={look.tone} Icon={look.Icon} title={SIGNAL_TITLES[signal]}>
+    <Tag tone={look.tone} Icon={look.Icon} title={SIGNAL_TITLES[signal]} nowrap>
       {SIGNAL_WORDS[signal]}
     </Tag>
   );

@@ -44,7 +44,7 @@ const columns = [
       const shown = active(r);
       const quiet = r.applications.length - shown.length;
       return (
-        <div className="min-w-[17rem]">
+        <div className="min-w-[16rem]">
           <p className="mb-1 text-xs text-slate-600">
             <span className="tabular-nums">{metCount(r)}</span> of <span className="tabular-nums">{r.applications.length}</span> thresholds met
           </p>
@@ -72,9 +72,29 @@ const columns = [
       );
     },
   }),
-  col.accessor((r) => r.total.credited, { id: "credited", header: "Credited", meta: { numeric: true } }),
-  col.accessor((r) => r.total.reviewed, { id: "reviewed", header: "Reviewed", meta: { numeric: true } }),
-  col.accessor((r) => r.total.submitted, { id: "submitted", header: "Submitted", meta: { numeric: true } }),
+  col.accessor((r) => r.total.credited, {
+    id: "totals",
+    header: "Exams",
+    meta: { numeric: true },
+    // Sorted by credited exams, then reviewed, then submitted.
+    sortingFn: (a, b) =>
+      a.original.total.credited - b.original.total.credited ||
+      a.original.total.reviewed - b.original.total.reviewed ||
+      a.original.total.submitted - b.original.total.submitted,
+    cell: (c) => {
+      const { credited, reviewed, submitted } = c.row.original.total;
+      return (
+        <dl className="grid grid-cols-[auto_auto] justify-end gap-x-2 text-xs">
+          <dt className="text-slate-600">credited</dt>
+          <dd className="text-sm font-semibold">{credited}</dd>
+          <dt className="text-slate-600">reviewed</dt>
+          <dd>{reviewed}</dd>
+          <dt className="text-slate-600">submitted</dt>
+          <dd>{submitted}</dd>
+        </dl>
+      );
+    },
+  }),
   col.accessor("lastActivityAt", {
     header: "Last activity",
     meta: { numeric: true },
