@@ -75,14 +75,25 @@ export function krippendorffAlpha(matrix: RatingsMatrix, options: AlphaOptions):
   if (units < 2) return { value: null, units, pairableValues, reason: "fewer than two units have ratings from two or more raters" };
   const G = pairable.length;
   const qq = q * q;
-  const contributions = new Float64Array(G * qq);
+  // Each pairable group's contribution to the coincidence matrix, kept sparse (a unit with
+  // m values touches at most m² cells, whatever the number of categories): group i's
+  // cells are cell[start[i]] … cell[start[i + 1] − 1] with values share[…].
+  const start = new Int32Array(G + 1);
+  const cell: number[] = [];
+  const share: number[] = [];
   pairable.forEach((g, i) => {
     const c = all.counts[g];
     const m = all.totals[g];
     for (let a = 0; a < q; a++) {
       if (c[a] === 0) continue;
-      for (let b = 0; b < q; b++) contributions[i * qq + a * q + b] = (c[a] * (a === b ? c[a] - 1 : c[b])) / (m - 1);
+      for (let b = 0; b < q; b++) {
+        const v = c[a] * (a === b ? c[a] - 1 : c[b]);
+        if (v === 0) continue;
+        cell.push(a * q + b);
+        share.push(v / (m - 1));
+      }
     }
+    start[i + 1] = cell.length;
   });
 
   // Fixed distances for nominal, interval and ratio; ordinal ones depend on the
@@ -108,8 +119,7 @@ export function krippendorffAlpha(matrix: RatingsMatrix, options: AlphaOptions):
     for (let i = 0; i < G; i++) {
       const t = times[i];
       if (t === 0) continue;
-      const base = i * qq;
-      for (let j = 0; j < qq; j++) o[j] += t * contributions[base + j];
+      for (let e = start[i]; e < start[i + 1]; e++) o[cell[e]] += t * share[e];
     }
     marg.fill(0);
     let n = 0;

@@ -204,10 +204,14 @@ describe("binomialDraw", () => {
     return out;
   }
 
+  // Both ways of searching: from 0 (mean below 16) and from the mode.
   it.each([
     [20, 0.3],
     [7, 0.9],
     [60, 0.05],
+    [400, 0.4],
+    [1000, 0.03],
+    [50, 0.97],
   ])("follows Binomial(%i, %f) (Pearson chi-square, p > 0.001)", (n, p) => {
     const r = mulberry32(n * 1000 + Math.round(p * 100));
     const draws = 20000;

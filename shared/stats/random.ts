@@ -18,19 +18,31 @@ export function mulberry32(seed: number): () => number {
 }
 
 /**
- * One draw from Binomial(n, p) using the uniform generator `rand`: exact inversion,
- * searched outward from the mode (alternately above and below), so a draw costs about
- * one step per standard deviation however large n is. The probability at the mode comes
- * from log-gamma, the others by the ratio f(k + 1)/f(k) = (n − k)/(k + 1) · p/(1 − p).
+ * One draw from Binomial(n, p) using the uniform generator `rand`, by exact inversion.
+ * Probabilities follow from one another by f(k + 1)/f(k) = (n − k)/(k + 1) · p/(1 − p).
+ * With a small mean (np < 16) the search starts at 0 from f(0) = (1 − p)^n; otherwise it
+ * starts at the mode (f from log-gamma) and goes outward, alternately above and below, so
+ * a draw costs about one step per standard deviation however large n is.
  */
 export function binomialDraw(n: number, p: number, rand: () => number): number {
   if (!Number.isSafeInteger(n) || n < 0) throw new RangeError(`binomialDraw: n must be a whole number ≥ 0 (got ${n})`);
   if (!(p >= 0 && p <= 1)) throw new RangeError(`binomialDraw: p must lie in [0, 1] (got ${p})`);
   if (n === 0 || p === 0) return 0;
   if (p === 1) return n;
+  const odds = p / (1 - p);
+  if (n * p < 16) {
+    let f = Math.exp(n * Math.log1p(-p));
+    let u = rand();
+    let k = 0;
+    while (u >= f && k < n && f > 0) {
+      u -= f;
+      f *= ((n - k) / (k + 1)) * odds;
+      k += 1;
+    }
+    return k;
+  }
   const mode = Math.min(n, Math.floor((n + 1) * p));
   const fMode = Math.exp(logGamma(n + 1) - logGamma(mode + 1) - logGamma(n - mode + 1) + mode * Math.log(p) + (n - mode) * Math.log1p(-p));
-  const odds = p / (1 - p);
   let u = rand() - fMode;
   if (u < 0) return mode;
   let hi = mode;
