@@ -285,6 +285,8 @@ test("a learner sees threshold, learning curve, trends and accuracy, and a confi
     await page.goto(`/exams/${examIds[0]}`);
     const confirmations = page.getByRole("region", { name: "Confirmatory results" });
     await expect(confirmations).toBeVisible();
+    // Folded on the exam page until asked for.
+    await confirmations.getByText("Enter confirmatory results").click();
     const firstGroup = confirmations.getByRole("group", { name: first_.label });
     const secondGroup = confirmations.getByRole("group", { name: second_.label });
     await expect(firstGroup).toContainText("Your read: Positive");
@@ -298,6 +300,7 @@ test("a learner sees threshold, learning curve, trends and accuracy, and a confi
     await secondGroup.getByLabel(/Note/).fill("No chest imaging was done.");
     await confirmations.getByRole("button", { name: "Save confirmatory results" }).click();
     await expect(confirmations.getByText("Confirmatory results saved.")).toBeVisible();
+    await expect(confirmations.getByText(`Change confirmatory results (2 of ${lung.findings.length} findings entered)`)).toBeVisible();
     await expect(firstGroup).toContainText(/entered .+ by Noa Hartwell/);
     await shot(page, testInfo, "progress-confirmations");
 

@@ -3,7 +3,7 @@
 // showed, with a note. The sonographer enters them on their exam's page and the QA lead on
 // the sonographer's page; accuracy against confirmatory results counts them. Errors from the
 // shared schema (or the server's 400) are shown next to the field they concern.
-import { useId, useState } from "react";
+import { useId, useState, type ReactNode } from "react";
 import type { Confirmation, ConfirmationMethod } from "../../../shared/schemas/progress";
 import { CONFIRMATION_METHOD_LABELS, CONFIRMATION_METHODS, confirmationInputSchema } from "../../../shared/schemas/progress";
 import { fieldErrors, isApiError } from "../../lib/api-client";
@@ -139,8 +139,23 @@ function FindingRow({
   );
 }
 
-/** Loads, edits and saves the confirmatory results of one submitted exam. Renders nothing for viewers the server refuses. */
-export function ConfirmationsForm({ examId, headingLevel = 2 }: { examId: string; headingLevel?: 2 | 3 }) {
+/** The form as it is, or folded behind a disclosure. */
+function Fold({ collapsible, summary, children }: { collapsible: boolean; summary: string; children: ReactNode }) {
+  if (!collapsible) return <>{children}</>;
+  return (
+    <details className="mt-3 rounded-md border border-slate-200">
+      <summary className="cursor-pointer px-3 py-2 text-sm font-semibold text-sea-700">{summary}</summary>
+      <div className="border-t border-slate-200 px-3 pb-3">{children}</div>
+    </details>
+  );
+}
+
+/**
+ * Loads, edits and saves the confirmatory results of one submitted exam. Renders nothing for
+ * viewers the server refuses. `collapsible` folds the fields behind a disclosure (the exam
+ * page, where results arrive long after the exam) with a count of what is entered.
+ */
+export function ConfirmationsForm({ examId, headingLevel = 2, collapsible = false }: { examId: string; headingLevel?: 2 | 3; collapsible?: boolean }) {
   const headingId = useId();
   const query = useConfirmations(examId);
   const save = useSaveConfirmations(examId);
@@ -187,6 +202,7 @@ export function ConfirmationsForm({ examId, headingLevel = 2 }: { examId: string
     );
   };
 
+  const entered = (items ?? []).filter((c) => c.method !== null).length;
   const unmatchedServerError = save.isError && Object.keys(errors).length === 0 ? save.error.message : null;
 
   return (
@@ -205,36 +221,45 @@ export function ConfirmationsForm({ examId, headingLevel = 2 }: { examId: string
       ) : query.data.items.length === 0 ? (
         <p className="mt-3 text-sm text-slate-700">This application asks about no findings, so there is nothing to confirm.</p>
       ) : rows ? (
-        <form onSubmit={submit} noValidate className="mt-4 space-y-3">
-          {query.data.items.map((c) => {
-            const row = rows.find((r) => r.findingKey === c.findingKey) ?? toRow(c);
-            return (
-              <FindingRow
-                key={c.findingKey}
-                c={c}
-                row={row}
-                errors={errors}
-                disabled={save.isPending}
-                onChange={(patch) => {
-                  setSaved(false);
-                  setRows((prev) => (prev ?? []).map((r) => (r.findingKey === c.findingKey ? { ...r, ...patch } : r)));
-                  setErrors((prev) => {
-                    const next = { ...prev };
-                    for (const k of Object.keys(patch)) delete next[`${c.findingKey}.${k}`];
-                    return next;
-                  });
-                }}
-              />
-            );
-          })}
-          <FormMessage message={Object.keys(errors).length ? "Check the marked fields." : unmatchedServerError} />
-          <FormMessage tone="success" message={saved && !dirty ? "Confirmatory results saved." : null} />
-          <div className="flex justify-end">
-            <Button type="submit" busy={save.isPending} disabled={!dirty}>
-              Save confirmatory results
-            </Button>
-          </div>
-        </form>
+        <Fold
+          collapsible={collapsible}
+          summary={
+            entered === 0
+              ? "Enter confirmatory results"
+              : `Change confirmatory results (${entered} of ${query.data.items.length} ${query.data.items.length === 1 ? "finding" : "findings"} entered)`
+          }
+        >
+          <form onSubmit={submit} noValidate className="mt-4 space-y-3">
+            {query.data.items.map((c) => {
+              const row = rows.find((r) => r.findingKey === c.findingKey) ?? toRow(c);
+              return (
+                <FindingRow
+                  key={c.findingKey}
+                  c={c}
+                  row={row}
+                  errors={errors}
+                  disabled={save.isPending}
+                  onChange={(patch) => {
+                    setSaved(false);
+                    setRows((prev) => (prev ?? []).map((r) => (r.findingKey === c.findingKey ? { ...r, ...patch } : r)));
+                    setErrors((prev) => {
+                      const next = { ...prev };
+                      for (const k of Object.keys(patch)) delete next[`${c.findingKey}.${k}`];
+                      return next;
+                    });
+                  }}
+                />
+              );
+            })}
+            <FormMessage message={Object.keys(errors).length ? "Check the marked fields." : unmatchedServerError} />
+            <FormMessage tone="success" message={saved && !dirty ? "Confirmatory results saved." : null} />
+            <div className="flex justify-end">
+              <Button type="submit" busy={save.isPending} disabled={!dirty}>
+                Save confirmatory results
+              </Button>
+            </div>
+          </form>
+        </Fold>
       ) : null}
     </section>
   );

@@ -120,7 +120,7 @@ export default function ExamPage() {
             )}
           </section>
 
-          {mayConfirm ? <ConfirmationsForm examId={query.data.id} /> : null}
+          {mayConfirm ? <ConfirmationsForm examId={query.data.id} collapsible /> : null}
 
           <section aria-labelledby="clips-heading">
             <div className="mb-3 flex flex-wrap items-center gap-3">
