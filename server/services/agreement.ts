@@ -60,10 +60,13 @@ export interface PairCount {
  */
 export async function pairCounts(db: Db, f: AgreementFilters): Promise<PairCount[]> {
   return db.transaction(async (trx) => {
-    // The planner's cost estimate for this aggregate makes PostgreSQL compile it with JIT,
-    // which takes longer than running it (~0.5 s against ~0.1 s on the bench data); and the
-    // hash tables of the pairing fit in memory with a little more than the default.
+    // Settings for this one aggregate (measured on the bench program, 2 cores): its cost
+    // estimate makes PostgreSQL compile it with JIT, which took longer (~0.5 s) than running
+    // it; parallel workers spent more CPU in all and answered later whenever other work ran
+    // (median 600 against 450 ms); and the pairing's hash tables spill to disk at the
+    // default work_mem.
     await trx.raw("SET LOCAL jit = off");
+    await trx.raw("SET LOCAL max_parallel_workers_per_gather = 0");
     await trx.raw("SET LOCAL work_mem = '32MB'");
     // Pairs first grouped by their whole score and read documents (reviews of one rubric
     // repeat a few patterns), then each pattern's values taken apart once and counted.
