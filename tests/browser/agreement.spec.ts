@@ -3,11 +3,12 @@
 // reviewers score them (same values everywhere except overall image quality, which varies
 // and sometimes differs by more than one step), and in the browser the QA lead opens
 // Oversight → Agreement for today and finds the quadratic-weighted Cohen's kappa of
-// "Overall image quality" equal to the one this test computes with shared/stats.
+// "Overall image quality" equal to the one this test computes with shared/stats, and the
+// same for Krippendorff's alpha and its bootstrap interval.
 import fs from "node:fs";
 import path from "node:path";
 import { expect, request as playwrightRequest, test, type APIRequestContext, type Page, type TestInfo } from "@playwright/test";
-import { cohensKappa } from "../../shared/stats/index";
+import { cohensKappa, krippendorffAlpha } from "../../shared/stats/index";
 import { fixtureDir, h264Mp4 } from "../api/media-fixtures";
 
 const PASSWORD = "soundings-demo";
@@ -163,6 +164,18 @@ test("the agreement screen shows the weighted kappa of image quality that shared
     await expect(qualityRow.getByRole("cell").first()).toHaveText(String(QUALITY.length));
     await expect(qualityRow.locator('[data-stat="kappa"]')).toHaveText(shown);
     await expect(qualityRow).toContainText("quadratic weights");
+
+    // Ordinal alpha with its bootstrap interval: the resamples and seed the report states,
+    // applied by shared/stats to the same pairs, give the figures on screen.
+    const report = (await (await lead.get(`/api/reports/agreement?from=${firstDay}&to=${today}`)).json()) as {
+      criteria: { key: string; alpha: { bootstrap: { samples: number; seed: number } } }[];
+    };
+    const boot = report.criteria.find((c) => c.key === "quality")!.alpha.bootstrap;
+    const alpha = krippendorffAlpha(pairs, { level: "ordinal", bootstrap: { samples: boot.samples, seed: boot.seed } });
+    expect(alpha.ci95, "the bootstrap gives an interval for these reads").toBeDefined();
+    const two = (x: number) => (x.toFixed(2) === "-0.00" ? "0.00" : x.toFixed(2).replace("-", "\u2212"));
+    await expect(qualityRow.locator('[data-stat="alpha"]')).toHaveText(two(alpha.value!));
+    await expect(qualityRow.locator('[data-stat-interval="alpha"]')).toHaveText(`[${two(alpha.ci95![0])}, ${two(alpha.ci95![1])}]`);
 
     // The drill-down lists exams whose quality differs (at least the two apart by two steps),
     // each linking to the exam page.

@@ -14,7 +14,15 @@ export interface CriterionAgreement {
   units: number;
   percentAgreement: number | null;
   kappa: { value: number | null; ci95: Interval | null; weights: "quadratic" | "unweighted"; reason?: string };
-  alpha: { value: number | null; level: "ordinal" | "nominal" | "interval"; ci95?: Interval | null; reason?: string };
+  alpha: {
+    value: number | null;
+    level: "ordinal" | "nominal" | "interval";
+    /** Percentile bootstrap over exams; null when alpha or the interval is not computable. */
+    ci95?: Interval | null;
+    /** Resamples drawn, seed, and resamples with a defined alpha. */
+    bootstrap?: { samples: number; seed: number; used: number } | null;
+    reason?: string;
+  };
   ac1: { value: number | null; ci95: Interval | null; reason?: string };
   band: string | null;
 }

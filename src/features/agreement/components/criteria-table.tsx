@@ -21,12 +21,24 @@ function Coefficient({ value, ci, reason, label }: { value: number | null; ci?: 
       <span data-stat={label} className="font-semibold">
         {formatCoefficient(value)}
       </span>
-      {ci ? <span className="text-xs text-slate-600">{formatInterval(ci)}</span> : <span className="text-xs text-slate-500">no interval</span>}
+      {ci ? (
+        <span data-stat-interval={label} className="text-xs text-slate-600">
+          {formatInterval(ci)}
+        </span>
+      ) : (
+        <span className="text-xs text-slate-500">no interval</span>
+      )}
     </span>
   );
 }
 
 const KAPPA_WEIGHTS = { quadratic: "quadratic weights", unweighted: "unweighted" } as const;
+
+/** ", 1,000 resamples" from the first criterion with a bootstrap, else nothing. */
+function bootstrapNote(criteria: CriterionAgreement[]): string {
+  const samples = criteria.find((c) => c.alpha.bootstrap)?.alpha.bootstrap?.samples;
+  return samples ? `, ${samples.toLocaleString("en")} resamples` : "";
+}
 
 export function CriteriaTable({ criteria, filename }: { criteria: CriterionAgreement[]; filename: string }) {
   const csvRows = () =>
@@ -55,7 +67,8 @@ export function CriteriaTable({ criteria, filename }: { criteria: CriterionAgree
       description={
         <>
           Cohen&apos;s kappa uses quadratic weights on ordinal criteria and is unweighted otherwise; Krippendorff&apos;s alpha at the level named; Gwet&apos;s
-          AC1. Intervals are 95 %. The band follows Landis &amp; Koch (1977) on kappa.
+          AC1. Intervals are 95 %; alpha&apos;s comes from resampling the double-read exams (the findings, for interpretation) with a fixed seed (bootstrap
+          {bootstrapNote(criteria)}), so the same reads always give the same interval. The band follows Landis &amp; Koch (1977) on kappa.
         </>
       }
       actions={
