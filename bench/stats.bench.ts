@@ -88,4 +88,5 @@ console.log(
   `Krippendorff α ours ${alpha.ms.toFixed(0)} ms (α ${a.value.toFixed(6)})  numpy ${ref.alpha_ms.toFixed(0)} ms (α ${ref.alpha.toFixed(6)})  ratio ${(alpha.ms / ref.alpha_ms).toFixed(2)}`,
 );
 console.log("target: ratio below 1 (faster than the reference); values must agree");
+console.log(`load average while measuring: ${os.loadavg()[0].toFixed(1)} on ${os.cpus().length} cores`);
 if (Math.abs(f.value - ref.fleiss) > 1e-9 || Math.abs(a.value - ref.alpha) > 1e-9) process.exitCode = 1;
