@@ -137,6 +137,7 @@ test("a learner sees threshold, learning curve, trends and accuracy, and a confi
     const buffer = fs.readFileSync(h264Mp4(dir, "lung.mp4", { seconds: 1, seed: 61 }));
 
     const examIds: string[] = [];
+    const examCodes: string[] = [];
     for (const [i, at] of performed.entries()) {
       const created = await learner.post("/api/exams", {
         data: {
@@ -150,12 +151,13 @@ test("a learner sees threshold, learning curve, trends and accuracy, and a confi
         },
       });
       expect(created.status(), await created.text()).toBe(201);
-      const { exam } = (await created.json()) as { exam: { id: string } };
+      const { exam } = (await created.json()) as { exam: { id: string; code: string } };
       const upload = await learner.post(`/api/exams/${exam.id}/clips`, {
         multipart: { view: "anterior_right", file: { name: "lung.mp4", mimeType: "video/mp4", buffer } },
       });
       expect(upload.status()).toBe(202);
       examIds.push(exam.id);
+      examCodes.push(exam.code);
     }
     for (const id of examIds) {
       await expect
@@ -313,6 +315,29 @@ test("a learner sees threshold, learning curve, trends and accuracy, and a confi
     expect(rateText(1, 1)).toBe("100% (21–100%)");
     await expect(page.getByText(/Confirmed by method:/).locator("..")).toContainText("Confirmed by method: CT 1 · None 1");
     await shot(page, testInfo, "progress-confirmed");
+
+    // --- Feedback: the timeline filtered to lung exams without credit, the filters in the address.
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Feedback" }).click();
+    await expect(page.getByRole("heading", { level: 1, name: "Feedback" })).toBeVisible();
+    await page.getByLabel("Application", { exact: true }).selectOption(APP.code);
+    await page.getByLabel("Credit", { exact: true }).selectOption("no");
+    await page.getByLabel("Not yet acknowledged").check();
+    await expect(page).toHaveURL(/application=lung/);
+    await expect(page).toHaveURL(/credit=no/);
+    await expect(page).toHaveURL(/unacknowledged=1/);
+    const entries = page.getByRole("main").getByRole("link", { name: /^EX-/ });
+    // Only the exam reviewed at a quality below the minimum earned no credit.
+    await expect(entries).toHaveCount(QUALITY.filter((q) => Number(q) < minQuality).length);
+    const failedCode = examCodes[QUALITY.findIndex((q) => Number(q) < minQuality)];
+    const entry = page.getByRole("row").filter({ has: page.getByRole("link", { name: failedCode }) });
+    await expect(entries).toHaveText([failedCode]);
+    await expect(entry).toContainText("No credit");
+    await expect(entry).toContainText("Unread");
+    await expect(entry).toContainText("Not yet acknowledged");
+    // Back to every credit state: all four lung exams, newest review first.
+    await page.getByLabel("Credit", { exact: true }).selectOption("");
+    await expect(entries).toHaveCount(QUALITY.length);
+    await shot(page, testInfo, "progress-feedback-timeline");
   } finally {
     await lead.patch("/api/settings", {
       data: {
