@@ -158,7 +158,7 @@ export default function FeedbackListPage() {
           ))}
         </SelectField>
         <SelectField label="Credit" compact className="w-44" value={filters.credit} onChange={(e) => set("credit", e.target.value)}>
-          <option value="">Credited or not</option>
+          <option value="">Any</option>
           <option value="yes">Credited</option>
           <option value="no">Not credited</option>
         </SelectField>
