@@ -337,6 +337,7 @@ export async function roster(db: Q, programId: string, now = new Date()): Promis
       applications: p.applications.map((a) => ({
         code: a.application.code,
         name: a.application.name,
+        submitted: a.submitted,
         credited: a.credited,
         reviewed: a.reviewed,
         threshold: a.threshold,

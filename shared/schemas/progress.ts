@@ -18,11 +18,16 @@ export const CONFIRMED_RESULTS = ["positive", "negative"] as const;
 export const confirmationInputSchema = z
   .object({
     findingKey: z.string().min(1).max(60),
-    method: z.enum(CONFIRMATION_METHODS, { message: "Choose CT, formal echo, surgery, clinical follow-up or none" }),
+    /** null clears what was entered for the finding. */
+    method: z.enum(CONFIRMATION_METHODS, { message: "Choose CT, formal echo, surgery, clinical follow-up or none" }).nullable(),
     result: z.enum(CONFIRMED_RESULTS, { message: "Choose positive or negative" }).nullable().default(null),
     note: z.string().trim().max(1000).default(""),
   })
   .superRefine((c, ctx) => {
+    if (c.method === null) {
+      if (c.result !== null) ctx.addIssue({ code: "custom", path: ["result"], message: "Nothing entered: leave the result empty" });
+      return;
+    }
     if (c.method !== "none" && c.result === null) ctx.addIssue({ code: "custom", path: ["result"], message: "Say what the confirmatory test showed" });
     if (c.method === "none" && c.result !== null) ctx.addIssue({ code: "custom", path: ["result"], message: "No confirmatory test: leave the result empty" });
   });
@@ -149,7 +154,16 @@ export interface RosterRow {
   email: string;
   lastActivityAt: string | null;
   total: { submitted: number; reviewed: number; credited: number };
-  applications: { code: string; name: string; credited: number; reviewed: number; threshold: number; met: boolean; signal: CusumView["signal"] }[];
+  applications: {
+    code: string;
+    name: string;
+    submitted: number;
+    credited: number;
+    reviewed: number;
+    threshold: number;
+    met: boolean;
+    signal: CusumView["signal"];
+  }[];
   flags: RosterFlag[];
 }
 

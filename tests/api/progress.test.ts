@@ -293,6 +293,15 @@ describe("confirmatory results", () => {
     const acc2 = after.body.applications.find((a: { application: { code: string } }) => a.application.code === "aorta").accuracyVsConfirmatory;
     expect(acc2.byMethod).toEqual({ none: 1 });
     expect(acc2.tp + acc2.fp + acc2.tn + acc2.fn).toBe(0);
+
+    // method null clears the entry.
+    const cleared = await request(kit.app)
+      .put(url)
+      .set("Authorization", token)
+      .send({ items: [{ findingKey: "aneurysm", method: null, result: null }] });
+    expect(cleared.status).toBe(200);
+    expect(cleared.body.items[0]).toMatchObject({ method: null, result: null, enteredBy: null });
+    expect(await kit.db("confirmations").where("exam_id", exam.id)).toHaveLength(0);
   });
 });
 

@@ -104,7 +104,8 @@ export function registerProgressRoutes(kit: RouteKit, ctx: RouteContext) {
   defineRoute(kit, {
     method: "put",
     path: "/exams/:id/confirmations",
-    summary: "Record what confirmatory tests later showed (the exam's sonographer or a QA lead); replaces the listed findings' entries",
+    summary:
+      "Record what confirmatory tests later showed (the exam's sonographer or a QA lead); replaces the listed findings' entries, and method null clears one",
     tag: "progress",
     access: ["sonographer", "qa_lead"],
     params: idParamsSchema,
@@ -124,19 +125,21 @@ export function registerProgressRoutes(kit: RouteKit, ctx: RouteContext) {
       });
       return db.transaction(async (trx) => {
         for (const item of body.items)
-          await trx("confirmations")
-            .insert({
-              exam_id: exam!.id,
-              program_id: user.programId,
-              finding_key: item.findingKey,
-              method: item.method,
-              result: item.result,
-              note: item.note,
-              entered_by: user.id,
-              entered_at: trx.fn.now(),
-            })
-            .onConflict(["exam_id", "finding_key"])
-            .merge();
+          if (item.method === null) await trx("confirmations").where({ exam_id: exam!.id, finding_key: item.findingKey }).delete();
+          else
+            await trx("confirmations")
+              .insert({
+                exam_id: exam!.id,
+                program_id: user.programId,
+                finding_key: item.findingKey,
+                method: item.method,
+                result: item.result,
+                note: item.note,
+                entered_by: user.id,
+                entered_at: trx.fn.now(),
+              })
+              .onConflict(["exam_id", "finding_key"])
+              .merge();
         await audit(trx, {
           programId: user.programId,
           actorUserId: user.id,

@@ -8,10 +8,10 @@ import { tableClasses as t } from "../ui/report-section";
 import { rateCount, rateText } from "./format";
 
 const MEASURES: { key: "sensitivity" | "specificity" | "ppv" | "npv"; name: string; meaning: string }[] = [
-  { key: "sensitivity", name: "Sensitivity", meaning: "Of findings that were present, the share you called positive" },
-  { key: "specificity", name: "Specificity", meaning: "Of findings that were absent, the share you called negative" },
-  { key: "ppv", name: "Positive predictive value (PPV)", meaning: "Of your positive calls, the share that were present" },
-  { key: "npv", name: "Negative predictive value (NPV)", meaning: "Of your negative calls, the share that were absent" },
+  { key: "sensitivity", name: "Sensitivity", meaning: "Of findings that were present, the share read as positive" },
+  { key: "specificity", name: "Specificity", meaning: "Of findings that were absent, the share read as negative" },
+  { key: "ppv", name: "Positive predictive value (PPV)", meaning: "Of the positive reads, the share that were present" },
+  { key: "npv", name: "Negative predictive value (NPV)", meaning: "Of the negative reads, the share that were absent" },
 ];
 
 /** A 0–100 % track with the interval as a whisker and the value as a dot (decoration: the text carries the figures). */
@@ -118,7 +118,7 @@ export function AccuracyTable({ application }: { application: ApplicationProgres
           title="Against confirmatory results"
           accuracy={conf}
           empty="No confirmatory results entered yet. Add them on an exam’s page once CT, a formal echo, surgery or follow-up has shown the answer."
-          note="The result of the later test is taken as the reference for the finding; it is compared with your own read."
+          note="The result of the later test is taken as the reference for the finding; it is compared with the sonographer’s own read."
         />
         <p className="text-sm text-slate-700">
           <span className="font-semibold">Confirmed by method:</span> {methods.length ? byMethod : "none yet"}

@@ -21,16 +21,14 @@ const READ_WORDS: Record<Confirmation["sonographerRead"], string> = { positive: 
 
 const toRow = (c: Confirmation): Row => ({ findingKey: c.findingKey, method: c.method ?? "", result: c.result ?? "", note: c.note ?? "" });
 
-/** The entered rows as the PUT body wants them; rows without a method are "nothing entered". */
+/** Every row as the PUT body wants it; a row without a method clears anything saved for it. */
 function toBody(rows: Row[]) {
-  return rows
-    .filter((r) => r.method !== "")
-    .map((r) => ({
-      findingKey: r.findingKey,
-      method: r.method as ConfirmationMethod,
-      result: r.method === "none" || r.result === "" ? null : r.result,
-      note: r.note.trim(),
-    }));
+  return rows.map((r) => ({
+    findingKey: r.findingKey,
+    method: r.method === "" ? null : r.method,
+    result: r.method === "" || r.method === "none" || r.result === "" ? null : r.result,
+    note: r.method === "" ? "" : r.note.trim(),
+  }));
 }
 
 /** Client-side check with the shared schema: messages keyed "findingKey.field". */
@@ -64,7 +62,7 @@ function FindingRow({
     <fieldset className="rounded-md border border-slate-200 bg-paper-50 p-3" aria-describedby={`${id}-read`}>
       <legend className="px-1 font-semibold text-ink-950">{c.label}</legend>
       <p id={`${id}-read`} className="mb-2 text-sm text-slate-700">
-        Your read: <span className="font-semibold text-ink-900">{READ_WORDS[c.sonographerRead]}</span>
+        Sonographer’s read: <span className="font-semibold text-ink-900">{READ_WORDS[c.sonographerRead]}</span>
         {c.enteredAt ? (
           <span className="text-slate-600">
             {" "}
@@ -85,10 +83,7 @@ function FindingRow({
             onChange({ method, result: method === "none" || method === "" ? "" : row.result });
           }}
         >
-          {/* The API replaces entries but does not remove them: once saved, a finding keeps a method. */}
-          <option value="" disabled={c.method !== null}>
-            Not entered
-          </option>
+          <option value="">Not entered</option>
           {CONFIRMATION_METHODS.map((m) => (
             <option key={m} value={m}>
               {m === "none" ? "None (no confirmatory test)" : CONFIRMATION_METHOD_LABELS[m]}
@@ -211,8 +206,8 @@ export function ConfirmationsForm({ examId, headingLevel = 2, collapsible = fals
         Confirmatory results
       </Heading>
       <p className="mt-1 max-w-prose text-sm text-slate-600">
-        When a later test showed whether a finding was there — CT, a formal echo, surgery or clinical follow-up — record it here. Your accuracy against
-        confirmatory results on the Progress screen counts these. Leave a finding &ldquo;Not entered&rdquo; until you know.
+        When a later test showed whether a finding was there — CT, a formal echo, surgery or clinical follow-up — record it here. Accuracy against confirmatory
+        results on the Progress screen counts these. Leave a finding &ldquo;Not entered&rdquo; until the result is known.
       </p>
       {query.isPending ? (
         <LoadingState label="Loading confirmatory results…" />

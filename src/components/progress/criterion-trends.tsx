@@ -64,7 +64,7 @@ export function CriterionTrends({ application, window }: { application: Applicat
   const series = application.trends.filter((s) => s.points.length > 0);
   const [hidden, setHidden] = useState<ReadonlySet<string>>(new Set());
   const name = application.application.name;
-  if (series.length === 0) return <EmptyState title="No reviewed exams yet">Trends appear once a reviewer has scored one of your {name} exams.</EmptyState>;
+  if (series.length === 0) return <EmptyState title="No reviewed exams yet">Trends appear once a reviewer has scored a {name} exam.</EmptyState>;
 
   const exams = examAxis(series);
   const index = new Map(exams.map((e, i) => [e.examId, i]));

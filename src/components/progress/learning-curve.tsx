@@ -53,7 +53,7 @@ export function LearningCurve({ application, viewer = "learner" }: { application
         {sentence}.
       </p>
       {c.points.length === 0 ? (
-        <EmptyState title="No reviewed exams yet">The learning curve starts with your first reviewed {name} exam.</EmptyState>
+        <EmptyState title="No reviewed exams yet">The learning curve starts with the first reviewed {name} exam.</EmptyState>
       ) : (
         <figure className="rounded-lg border border-slate-200 bg-white p-3">
           <ChartImage

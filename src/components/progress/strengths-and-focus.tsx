@@ -31,7 +31,7 @@ function Standing({ s, showAdvice }: { s: CriterionStanding; showAdvice: boolean
 export function StrengthsAndFocus({ strengths, focusAreas, window }: { strengths: CriterionStanding[]; focusAreas: CriterionStanding[]; window?: number }) {
   const id = useId();
   if (strengths.length === 0 && focusAreas.length === 0)
-    return <EmptyState title="No reviewed exams yet">Strengths and focus areas appear once reviewers have scored a few of your exams.</EmptyState>;
+    return <EmptyState title="No reviewed exams yet">Strengths and focus areas appear once reviewers have scored a few exams.</EmptyState>;
   const over = window ? ` (mean over the last ${window} reviewed exams)` : "";
   return (
     <div className="grid gap-4 md:grid-cols-2">
@@ -56,7 +56,7 @@ export function StrengthsAndFocus({ strengths, focusAreas, window }: { strengths
           <Sparkles aria-hidden="true" className="size-4 text-sea-700" />
           Strengths
         </h3>
-        <p className="mb-2 text-xs text-slate-600">The criteria you meet most reliably{over}.</p>
+        <p className="mb-2 text-xs text-slate-600">The criteria met most reliably{over}.</p>
         {strengths.length === 0 ? (
           <p className="text-sm text-slate-700">None yet — strengths show once a criterion is mostly at the level aimed for.</p>
         ) : (

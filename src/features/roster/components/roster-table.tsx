@@ -49,7 +49,7 @@ const columns = [
             <span className="tabular-nums">{metCount(r)}</span> of <span className="tabular-nums">{r.applications.length}</span> thresholds met
           </p>
           {shown.length === 0 ? (
-            <p className="text-xs text-slate-600">No reviewed exam yet.</p>
+            <p className="text-xs text-slate-600">No reviewed exam yet{r.total.submitted > 0 ? ` (${r.total.submitted} waiting for review)` : ""}.</p>
           ) : (
             <ul className="space-y-1">
               {shown.map((a) => (
