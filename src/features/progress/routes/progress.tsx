@@ -7,7 +7,7 @@ import { useState } from "react";
 import { Link } from "react-router-dom";
 import { useQuery } from "@tanstack/react-query";
 import { Download, Mail } from "lucide-react";
-import { CREDENTIALING_CAUTION, type ApplicationProgress, type Progress } from "../../../../shared/schemas/progress";
+import type { ApplicationProgress, Progress } from "../../../../shared/schemas/progress";
 import { AccuracyTable } from "../../../components/progress/accuracy-table";
 import { CriterionTrends } from "../../../components/progress/criterion-trends";
 import { cusumSentence } from "../../../components/progress/format";
@@ -243,8 +243,6 @@ export default function ProgressPage() {
           ) : null}
         </>
       )}
-
-      <p className="mt-8 max-w-prose border-t border-slate-200 pt-4 text-xs text-slate-600">{CREDENTIALING_CAUTION}</p>
     </div>
   );
 }
