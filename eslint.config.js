@@ -8,7 +8,7 @@ import reactHooks from "eslint-plugin-react-hooks";
 import globals from "globals";
 
 export default tseslint.config(
-  { ignores: ["dist/**", "node_modules/**", "storage/**", "test-results/**", ".data/**", "playwright-report/**"] },
+  { ignores: ["dist/**", "dist-*/**", "node_modules/**", "storage/**", "test-results/**", ".data/**", "playwright-report/**"] },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   {
