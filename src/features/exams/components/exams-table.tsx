@@ -4,11 +4,12 @@
 import { useMemo } from "react";
 import { Link, useNavigate } from "react-router-dom";
 import { flexRender, getCoreRowModel, useReactTable, type ColumnDef, type SortingState } from "@tanstack/react-table";
-import { ArrowDown, ArrowUp, ArrowUpDown, CircleAlert, Film } from "lucide-react";
+import { CircleAlert, Film } from "lucide-react";
 import type { ExamListItem } from "../../../../shared/schemas/exams";
 import { formatDateTime } from "../../../lib/format";
 import { SETTING_LABELS } from "../../../lib/catalogue";
 import { ExamStatusTag } from "./exam-status-tag";
+import { SortableHeader } from "../../../components/ui/sortable-header";
 
 /** Columns the server can sort by, keyed by column id (TanStack sorts only columns with an accessor). */
 export const SORTABLE = ["performedAt", "application", "status"] as const;
@@ -119,38 +120,9 @@ export function ExamsTable({ items, sorting, onSortingChange, busy }: Props) {
         <thead className="border-b border-slate-200 bg-paper-200 text-xs uppercase tracking-wide text-slate-700">
           {table.getHeaderGroups().map((group) => (
             <tr key={group.id}>
-              {group.headers.map((header) => {
-                const sorted = header.column.getIsSorted();
-                const canSort = header.column.getCanSort();
-                const label = flexRender(header.column.columnDef.header, header.getContext());
-                return (
-                  <th
-                    key={header.id}
-                    scope="col"
-                    className="px-3 py-2 font-semibold"
-                    aria-sort={sorted ? (sorted === "asc" ? "ascending" : "descending") : canSort ? "none" : undefined}
-                  >
-                    {canSort ? (
-                      <button
-                        type="button"
-                        onClick={header.column.getToggleSortingHandler()}
-                        className="inline-flex items-center gap-1 rounded uppercase tracking-wide hover:text-ink-950"
-                      >
-                        {label}
-                        {sorted === "asc" ? (
-                          <ArrowUp aria-hidden="true" className="size-3.5" />
-                        ) : sorted === "desc" ? (
-                          <ArrowDown aria-hidden="true" className="size-3.5" />
-                        ) : (
-                          <ArrowUpDown aria-hidden="true" className="size-3.5 text-slate-400" />
-                        )}
-                      </button>
-                    ) : (
-                      label
-                    )}
-                  </th>
-                );
-              })}
+              {group.headers.map((header) => (
+                <SortableHeader key={header.id} header={header} className="px-3 py-2 font-semibold" />
+              ))}
             </tr>
           ))}
         </thead>

@@ -2,11 +2,11 @@
 // review and claims held now. Sorting is by column header buttons, announced via aria-sort.
 import { useState } from "react";
 import { createColumnHelper, flexRender, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
-import { ArrowDown, ArrowUp, ArrowUpDown } from "lucide-react";
 import { ExportCsvButton } from "../../../components/ui/export-csv-button";
 import { ReportSection, tableClasses as t } from "../../../components/ui/report-section";
 import { formatElapsed } from "../../../lib/duration";
 import type { ReviewerWorkload } from "../api/program";
+import { SortableHeader } from "../../../components/ui/sortable-header";
 
 const col = createColumnHelper<ReviewerWorkload>();
 const columns = [
@@ -59,28 +59,13 @@ export function WorkloadTable({ reviewers, filename }: { reviewers: ReviewerWork
             <thead className={t.thead}>
               {table.getHeaderGroups().map((hg) => (
                 <tr key={hg.id}>
-                  {hg.headers.map((h) => {
-                    const numeric = (h.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric;
-                    const dir = h.column.getIsSorted();
-                    const Icon = dir === "asc" ? ArrowUp : dir === "desc" ? ArrowDown : ArrowUpDown;
-                    return (
-                      <th
-                        key={h.id}
-                        scope="col"
-                        className={numeric ? t.thNum : t.th}
-                        aria-sort={dir === "asc" ? "ascending" : dir === "desc" ? "descending" : "none"}
-                      >
-                        <button
-                          type="button"
-                          onClick={h.column.getToggleSortingHandler()}
-                          className={`inline-flex items-center gap-1 rounded uppercase tracking-wide hover:text-ink-950 focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-sea-600 ${numeric ? "flex-row-reverse" : ""}`}
-                        >
-                          {flexRender(h.column.columnDef.header, h.getContext())}
-                          <Icon aria-hidden="true" className="size-3.5" />
-                        </button>
-                      </th>
-                    );
-                  })}
+                  {hg.headers.map((h) => (
+                    <SortableHeader
+                      key={h.id}
+                      header={h}
+                      className={(h.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric ? t.thNum : t.th}
+                    />
+                  ))}
                 </tr>
               ))}
             </thead>

@@ -4,12 +4,12 @@
 import { useState } from "react";
 import { Link } from "react-router-dom";
 import { createColumnHelper, flexRender, getCoreRowModel, getSortedRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
-import { ArrowDown, ArrowUp, ArrowUpDown } from "lucide-react";
 import { ROSTER_FLAG_LABELS, type RosterRow } from "../../../../shared/schemas/progress";
 import { ExportCsvButton } from "../../../components/ui/export-csv-button";
 import { tableClasses as t } from "../../../components/ui/report-section";
 import { formatDate, formatDateTime } from "../../../lib/format";
 import { CompactProgress, FlagTag, SIGNAL_WORDS, SignalTag } from "./progress-marks";
+import { SortableHeader } from "../../../components/ui/sortable-header";
 
 const metCount = (r: RosterRow) => r.applications.filter((a) => a.met).length;
 /** Applications worth a line: any reviewed or credited exam. The rest are counted, not listed. */
@@ -193,28 +193,13 @@ export function RosterTable({ rows, filename }: { rows: RosterRow[]; filename: s
           <thead className={t.thead}>
             {table.getHeaderGroups().map((hg) => (
               <tr key={hg.id}>
-                {hg.headers.map((h) => {
-                  const numeric = (h.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric;
-                  const dir = h.column.getIsSorted();
-                  const Icon = dir === "asc" ? ArrowUp : dir === "desc" ? ArrowDown : ArrowUpDown;
-                  return (
-                    <th
-                      key={h.id}
-                      scope="col"
-                      className={`${numeric ? t.thNum : t.th} align-bottom`}
-                      aria-sort={dir === "asc" ? "ascending" : dir === "desc" ? "descending" : "none"}
-                    >
-                      <button
-                        type="button"
-                        onClick={h.column.getToggleSortingHandler()}
-                        className={`inline-flex items-center gap-1 rounded uppercase tracking-wide hover:text-ink-950 focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-sea-600 ${numeric ? "flex-row-reverse" : ""}`}
-                      >
-                        {flexRender(h.column.columnDef.header, h.getContext())}
-                        <Icon aria-hidden="true" className="size-3.5" />
-                      </button>
-                    </th>
-                  );
-                })}
+                {hg.headers.map((h) => (
+                  <SortableHeader
+                    key={h.id}
+                    header={h}
+                    className={`${(h.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric ? t.thNum : t.th} align-bottom`}
+                  />
+                ))}
               </tr>
             ))}
           </thead>
