@@ -6,12 +6,11 @@
 // "Overall image quality" equal to the one this test computes with shared/stats, and the
 // same for Krippendorff's alpha and its bootstrap interval.
 import fs from "node:fs";
-import path from "node:path";
-import { expect, request as playwrightRequest, test, type APIRequestContext, type Page, type TestInfo } from "@playwright/test";
+import { expect, test, type APIRequestContext } from "@playwright/test";
 import { cohensKappa, krippendorffAlpha } from "../../shared/stats/index";
 import { fixtureDir, h264Mp4 } from "../api/media-fixtures";
+import { apiAs, PASSWORD, scores, shot } from "./support";
 
-const PASSWORD = "soundings-demo";
 const LEAD = "lead@cedarhollow.example";
 const SONOGRAPHER = "sonographer@cedarhollow.example";
 const REVIEWER = "reviewer@cedarhollow.example";
@@ -29,23 +28,6 @@ const QUALITY: [string, string][] = [
 ];
 
 type Workspace = { assignment: { id: string; kind: string }; exam: { id: string } };
-
-async function apiAs(baseURL: string, email: string): Promise<APIRequestContext> {
-  const ctx = await playwrightRequest.newContext({ baseURL });
-  const res = await ctx.post("/api/auth/login", { data: { email, password: PASSWORD } });
-  expect(res.ok(), `sign-in of ${email}`).toBeTruthy();
-  return ctx;
-}
-
-async function shot(page: Page, testInfo: TestInfo, name: string) {
-  const file = path.join(testInfo.project.outputDir, `${name}.png`);
-  await page.screenshot({ path: file, fullPage: true });
-  await testInfo.attach(name, { path: file, contentType: "image/png" });
-}
-
-function scores(quality: string): Record<string, string> {
-  return { transducer: "suitable", marker: "follows", depth: "fits", gain: "balanced", plane: "standard", labels: "complete", quality };
-}
 
 /** Claims the next eFAST read, submits it with the quality this exam gets from this reader, and says which read it was. */
 async function readNext(

@@ -7,12 +7,11 @@
 // works out by hand (and cross-checks with shared/stats), and each reviewer's matches with the
 // reference answer.
 import fs from "node:fs";
-import path from "node:path";
-import { expect, request as playwrightRequest, test, type APIRequestContext, type Page, type TestInfo } from "@playwright/test";
+import { expect, test } from "@playwright/test";
 import { fleissKappa, krippendorffAlpha } from "../../shared/stats/index";
 import { fixtureDir, h264Mp4 } from "../api/media-fixtures";
+import { apiAs, PASSWORD, shot } from "./support";
 
-const PASSWORD = "soundings-demo";
 const LEAD = "lead@cedarhollow.example";
 const SONOGRAPHER = "sonographer@cedarhollow.example";
 const REVIEWER_A = { email: "reviewer@cedarhollow.example", name: "Imani Castellane" };
@@ -37,19 +36,6 @@ const READS: Record<string, [{ scores: Scores; aneurysm: string }, { scores: Sco
     { scores: { ...IDEAL, quality: "3" }, aneurysm: "negative" },
   ],
 };
-
-async function apiAs(baseURL: string, email: string): Promise<APIRequestContext> {
-  const ctx = await playwrightRequest.newContext({ baseURL });
-  const res = await ctx.post("/api/auth/login", { data: { email, password: PASSWORD } });
-  expect(res.status(), `sign-in of ${email}`).toBe(200);
-  return ctx;
-}
-
-async function shot(page: Page, testInfo: TestInfo, name: string) {
-  const file = path.join(testInfo.project.outputDir, `${name}.png`);
-  await page.screenshot({ path: file, fullPage: true });
-  await testInfo.attach(name, { path: file, contentType: "image/png" });
-}
 
 /** Two-decimal coefficient as the screen writes it (true minus sign). */
 const shown = (v: number) => {

@@ -5,11 +5,10 @@
 // final result keeping the positive finding, finds the follow-up for a possible callback and
 // updates it; the sonographer then reads the feedback and acknowledges it.
 import fs from "node:fs";
-import path from "node:path";
-import { expect, request as playwrightRequest, test, type APIRequestContext, type Browser, type Page, type TestInfo } from "@playwright/test";
+import { expect, test, type APIRequestContext, type Browser, type Page } from "@playwright/test";
 import { fixtureDir, h264Mp4 } from "../api/media-fixtures";
+import { apiAs, PASSWORD, shot } from "./support";
 
-const PASSWORD = "soundings-demo";
 const LEAD = "lead@cedarhollow.example";
 const SONOGRAPHER = "sonographer@cedarhollow.example";
 const REVIEWER = "reviewer@cedarhollow.example";
@@ -18,19 +17,6 @@ const POSITIVE_FINDING = "free_fluid_ruq";
 
 type Criterion = { key: string; kind: string; levels: { value: string; ideal: boolean }[] };
 type Workspace = { assignment: { id: string }; exam: { id: string }; rubric: { criteria: Criterion[] } };
-
-async function apiAs(baseURL: string, email: string): Promise<APIRequestContext> {
-  const ctx = await playwrightRequest.newContext({ baseURL });
-  const res = await ctx.post("/api/auth/login", { data: { email, password: PASSWORD } });
-  expect(res.ok(), `sign-in of ${email}`).toBeTruthy();
-  return ctx;
-}
-
-async function shot(page: Page, testInfo: TestInfo, name: string) {
-  const file = path.join(testInfo.project.outputDir, `${name}.png`);
-  await page.screenshot({ path: file, fullPage: true });
-  await testInfo.attach(name, { path: file, contentType: "image/png" });
-}
 
 async function signIn(browser: Browser, email: string): Promise<Page> {
   const page = await (await browser.newContext()).newPage();

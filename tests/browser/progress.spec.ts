@@ -17,11 +17,10 @@
 //   distance (the definition in notes on issue 6; quality levels 4 and 5 are ideal).
 // They are also compared with GET /api/me/progress, the program's own answer.
 import fs from "node:fs";
-import path from "node:path";
-import { expect, request as playwrightRequest, test, type APIRequestContext, type Page, type TestInfo } from "@playwright/test";
+import { expect, test } from "@playwright/test";
 import { fixtureDir, h264Mp4 } from "../api/media-fixtures";
+import { apiAs, PASSWORD, scores, shot } from "./support";
 
-const PASSWORD = "soundings-demo";
 const LEAD = "lead@cedarhollow.example";
 const LEARNER = "sonographer@cedarhollow.example";
 const REVIEWER = "reviewer@cedarhollow.example";
@@ -48,23 +47,7 @@ type ProgressAnswer = {
   }[];
 };
 
-async function apiAs(baseURL: string, email: string): Promise<APIRequestContext> {
-  const ctx = await playwrightRequest.newContext({ baseURL });
-  const res = await ctx.post("/api/auth/login", { data: { email, password: PASSWORD } });
-  expect(res.ok(), `sign-in of ${email}`).toBeTruthy();
-  return ctx;
-}
-
-async function shot(page: Page, testInfo: TestInfo, name: string) {
-  const file = path.join(testInfo.project.outputDir, `${name}.png`);
-  await page.screenshot({ path: file, fullPage: true });
-  await testInfo.attach(name, { path: file, contentType: "image/png" });
-}
-
 /** Every criterion at its ideal level except overall image quality. */
-function scores(quality: string): Record<string, string> {
-  return { transducer: "suitable", marker: "follows", depth: "fits", gain: "balanced", plane: "standard", labels: "complete", quality };
-}
 
 /** Wald / Bolsin–Colson CUSUM: steps and limits for failure rates p0 (acceptable) and p1 (unacceptable). */
 function cusumLimits({ p0, p1, alpha, beta }: typeof CUSUM) {

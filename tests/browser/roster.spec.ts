@@ -13,10 +13,10 @@ import { execFileSync } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
 import { parse } from "csv-parse/sync";
-import { expect, request as playwrightRequest, test, type APIRequestContext, type Page, type TestInfo } from "@playwright/test";
+import { expect, test } from "@playwright/test";
 import { fixtureDir, h264Mp4 } from "../api/media-fixtures";
+import { apiAs, PASSWORD, scores, shot } from "./support";
 
-const PASSWORD = "soundings-demo";
 const LEAD = "lead@cedarhollow.example";
 const LEARNER = { email: "lena.sorvik@cedarhollow.example", name: "Lena Sorvik" };
 const REVIEWER = { email: "reviewer@cedarhollow.example", name: "Imani Castellane" };
@@ -28,23 +28,6 @@ const COMMENT = (i: number) => `Aorta practice scan ${i + 1}: sweep from the dia
 
 type Workspace = { assignment: { id: string }; exam: { id: string } };
 type RosterRow = { id: string; name: string; applications: { code: string; credited: number; reviewed: number; threshold: number }[] };
-
-async function apiAs(baseURL: string, email: string): Promise<APIRequestContext> {
-  const ctx = await playwrightRequest.newContext({ baseURL });
-  const res = await ctx.post("/api/auth/login", { data: { email, password: PASSWORD } });
-  expect(res.ok(), `sign-in of ${email}`).toBeTruthy();
-  return ctx;
-}
-
-async function shot(page: Page, testInfo: TestInfo, name: string) {
-  const file = path.join(testInfo.project.outputDir, `${name}.png`);
-  await page.screenshot({ path: file, fullPage: true });
-  await testInfo.attach(name, { path: file, contentType: "image/png" });
-}
-
-function scores(quality: string): Record<string, string> {
-  return { transducer: "suitable", marker: "follows", depth: "fits", gain: "balanced", plane: "standard", labels: "complete", quality };
-}
 
 test("the QA lead follows a sonographer from the roster to her page and downloads her credentialing report as PDF and CSV", async ({
   browser,

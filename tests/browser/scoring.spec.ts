@@ -3,12 +3,11 @@
 // the exam), the sonographer submits an eFAST exam with one clip. In the browser the reviewer
 // opens the Queue, starts the next exam with N, picks a level for every criterion with digits
 // and Tab/Enter, reads every finding with P/N/I, types feedback and submits with Ctrl+Enter.
-import path from "node:path";
 import fs from "node:fs";
-import { expect, request, test, type APIRequestContext, type Page, type TestInfo } from "@playwright/test";
+import { expect, test, type APIRequestContext, type Page } from "@playwright/test";
 import { fixtureDir, h264Mp4 } from "../api/media-fixtures";
+import { apiAs, PASSWORD, shot } from "./support";
 
-const PASSWORD = "soundings-demo";
 const LEAD = "lead@cedarhollow.example";
 const REVIEWER = "reviewer@cedarhollow.example";
 const SONOGRAPHER = "sonographer@cedarhollow.example";
@@ -17,25 +16,12 @@ test.use({ viewport: { width: 1440, height: 900 } });
 
 const FEEDBACK = "Fan through the whole pelvis before you freeze; the depth was set well.";
 
-async function apiAs(baseURL: string, email: string): Promise<APIRequestContext> {
-  const ctx = await request.newContext({ baseURL });
-  const res = await ctx.post("/api/auth/login", { data: { email, password: PASSWORD } });
-  expect(res.status(), `sign-in of ${email}`).toBe(200);
-  return ctx;
-}
-
 async function signIn(page: Page, email: string) {
   await page.goto("/sign-in");
   await page.getByLabel("E-mail").fill(email);
   await page.getByLabel("Password").fill(PASSWORD);
   await page.getByLabel("Password").press("Enter");
   await expect(page.getByRole("heading", { level: 1, name: "Home" })).toBeVisible();
-}
-
-async function shot(page: Page, testInfo: TestInfo, name: string, fullPage = true) {
-  const file = path.join(testInfo.project.outputDir, `${name}.png`);
-  await page.screenshot({ path: file, fullPage });
-  await testInfo.attach(name, { path: file, contentType: "image/png" });
 }
 
 /** The sonographer's eFAST exam with one processed clip, submitted for review; returns its id and code. */
