@@ -2,7 +2,6 @@
 // and optionally one application; who agrees with whom, where values are confused, who
 // drifts from consensus, and which exams disagree. Every filter lives in the URL.
 import { useQuery } from "@tanstack/react-query";
-import { useSearchParams } from "react-router-dom";
 import { PageHeader } from "../../../components/ui/page-header";
 import { SelectField } from "../../../components/ui/select-field";
 import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
@@ -15,9 +14,11 @@ import { ConfusionTable } from "../components/confusion-table";
 import { CriteriaTable } from "../components/criteria-table";
 import { DisagreementsTable } from "../components/disagreements-table";
 import { PairHeatmap, type PairMeasure } from "../components/pair-heatmap";
+import { useSearchState } from "../../../lib/use-search-state";
 
 function useFilters() {
-  const [params, setParams] = useSearchParams();
+  // The range in effect goes into the URL with any change, so a shared link shows the same report.
+  const [params, update] = useSearchState();
   const from = isIsoDay(params.get("from")) ? params.get("from")! : daysAgo(90);
   const to = isIsoDay(params.get("to")) ? params.get("to")! : isoDay(new Date());
   const filters: AgreementFilters = {
@@ -30,21 +31,7 @@ function useFilters() {
   };
   const measure: PairMeasure = params.get("measure") === "kappa" ? "kappa" : "percentAgreement";
   /** Sets (or with "" clears) URL parameters, keeping the others; history is replaced, not stacked. */
-  const set = (changes: Record<string, string>) =>
-    setParams(
-      (prev) => {
-        const next = new URLSearchParams(prev);
-        // The range in effect goes into the URL with any change, so a shared link shows the same report.
-        next.set("from", from);
-        next.set("to", to);
-        for (const [k, v] of Object.entries(changes)) {
-          if (v) next.set(k, v);
-          else next.delete(k);
-        }
-        return next;
-      },
-      { replace: true },
-    );
+  const set = (changes: Record<string, string>) => update({ from, to, ...changes });
   return { filters, measure, set };
 }
 

@@ -6,7 +6,7 @@ import { Fragment } from "react";
 import { Link } from "react-router-dom";
 import { useQuery } from "@tanstack/react-query";
 import { CircleCheck, CircleDashed, Mail, MailOpen, MessageSquare } from "lucide-react";
-import { useSearchState } from "../../../components/progress/use-search-state";
+import { useSearchState } from "../../../lib/use-search-state";
 import { Button } from "../../../components/ui/button";
 import { PageHeader } from "../../../components/ui/page-header";
 import { SelectField } from "../../../components/ui/select-field";

@@ -2,7 +2,6 @@
 // throughput and turnaround, volume per application, and reviewer workload. Each chart
 // has its numbers in a table beside it (the text alternative) and every table exports CSV.
 import { useQuery } from "@tanstack/react-query";
-import { useSearchParams } from "react-router-dom";
 import { BarChart } from "../../../components/charts/bar-chart";
 import { LineChart } from "../../../components/charts/line-chart";
 import { StackedBarChart } from "../../../components/charts/stacked-bar-chart";
@@ -16,6 +15,7 @@ import { daysAgo, isIsoDay, isoDay } from "../../../lib/date-range";
 import { formatDate } from "../../../lib/format";
 import { programQuery, type ProgramReport } from "../api/program";
 import { WorkloadTable } from "../components/workload-table";
+import { useSearchState } from "../../../lib/use-search-state";
 
 const hours = (h: number | null) => (h === null ? "—" : h < 10 ? h.toFixed(1) : String(Math.round(h)));
 const weekLabel = (w: string) => formatDate(`${w}T00:00:00`);
@@ -222,22 +222,11 @@ function Report({ data, stem }: { data: ProgramReport; stem: string }) {
 }
 
 export default function ProgramPage() {
-  const [params, setParams] = useSearchParams();
+  const [params, update] = useSearchState();
   const from = isIsoDay(params.get("from")) ? params.get("from")! : daysAgo(84);
   const to = isIsoDay(params.get("to")) ? params.get("to")! : isoDay(new Date());
   const report = useQuery(programQuery({ from, to }));
-  const set = (k: "from" | "to", v: string) =>
-    isIsoDay(v) &&
-    setParams(
-      (prev) => {
-        const next = new URLSearchParams(prev);
-        next.set("from", from);
-        next.set("to", to);
-        next.set(k, v);
-        return next;
-      },
-      { replace: true },
-    );
+  const set = (k: "from" | "to", v: string) => isIsoDay(v) && update({ from, to, [k]: v });
   const data = report.data;
   const empty = data && data.weekly.every((w) => w.submitted === 0 && w.reviewed === 0) && data.volume.length === 0 && data.backlog.every((b) => b.count === 0);
 

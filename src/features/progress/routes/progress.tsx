@@ -14,7 +14,7 @@ import { cusumSentence } from "../../../components/progress/format";
 import { LearningCurve } from "../../../components/progress/learning-curve";
 import { ProgressSummary, ThresholdStatus } from "../../../components/progress/progress-summary";
 import { StrengthsAndFocus } from "../../../components/progress/strengths-and-focus";
-import { useSearchState } from "../../../components/progress/use-search-state";
+import { useSearchState } from "../../../lib/use-search-state";
 import { Button, buttonClasses } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { PageHeader } from "../../../components/ui/page-header";

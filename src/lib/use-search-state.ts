@@ -4,7 +4,6 @@
 // address and undo the first. Here the screen's own state is the source of truth and is
 // written through to the address; an address change the screen did not make (a link to the
 // same screen with other filters) is adopted.
-// Generic: it would sit well in src/lib if other screens need it.
 import { useState } from "react";
 import { useSearchParams } from "react-router-dom";
 
