@@ -13,6 +13,7 @@ import { audit } from "../../repositories/audit";
 import { assertCanView } from "../../policies/exam";
 import { replyPosted, runAfterCommit } from "../../services/notify";
 import type { AuthUser } from "../../auth/types";
+import type { Feedback } from "../../../shared/schemas/feedback";
 
 export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log }: RouteContext) {
   const reviewedOf = (programId: string, sonographerId: string) =>
@@ -26,7 +27,7 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log 
    * One reviewed exam's feedback as its sonographer sees it. `lead` views (a QA lead's page
    * about a sonographer) always carry the reviewers' names.
    */
-  async function feedbackDetail(user: AuthUser, examId: string, sonographerId = user.id, lead = false) {
+  async function feedbackDetail(user: AuthUser, examId: string, sonographerId = user.id, lead = false): Promise<Feedback> {
     const row = await reviewedOf(user.programId, sonographerId)
       .where("e.id", examId)
       .first("e.*", "ap.code as app_code", "ap.name as app_name", "r.scores", "r.reads", "r.credit", "r.source", "r.decided_at", "r.rubric_id", "r.note");

@@ -3,38 +3,10 @@
 // and the notifications, since reading feedback marks its notification read.
 import { useEffect } from "react";
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import type { ExamSetting, FindingRead } from "../../../../shared/catalogue";
 import { api } from "../../../lib/api-client";
 
-export type Outcome = "TP" | "FP" | "TN" | "FN" | "indeterminate";
-
-export interface FeedbackCriterion {
-  key: string;
-  label: string;
-  value: string | number | null;
-  level: { label: string; anchor: string; ideal: boolean; fails: boolean } | null;
-  nextSteps: string[];
-}
-
-export interface Feedback {
-  examId: string;
-  code: string;
-  application: { code: string; name: string };
-  performedAt: string;
-  setting: ExamSetting;
-  reviewedAt: string;
-  source: "single_read" | "double_read_agreed" | "adjudicated";
-  credit: boolean;
-  rubricVersion: number | null;
-  criteria: FeedbackCriterion[];
-  findings: { key: string; label: string; yourRead: FindingRead; referenceRead: FindingRead; outcome: Outcome }[];
-  comments: { reviewer: string | null; text: string; at: string }[];
-  adjudicationNote: string | null;
-  acknowledgedAt: string | null;
-  messages: { id: string; body: string; at: string; author: string }[];
-}
-
-export type FeedbackListItem = Feedback & { unread: boolean };
+import type { Feedback, FeedbackListItem, Outcome } from "../../../../shared/schemas/feedback";
+export type { Feedback, FeedbackCriterion, FeedbackListItem, Outcome } from "../../../../shared/schemas/feedback";
 
 export const feedbackKeys = {
   all: ["feedback"] as const,

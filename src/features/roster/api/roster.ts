@@ -2,37 +2,13 @@
 // (GET /api/roster/:userId/progress and /feedback), and the credentialing report download
 // (GET /api/reports/credentialing), which answers with a file rather than JSON.
 import { keepPreviousData, queryOptions } from "@tanstack/react-query";
-import type { FindingRead, ExamSetting } from "../../../../shared/catalogue";
 import type { Progress, RosterRow } from "../../../../shared/schemas/progress";
 import { api, ApiError } from "../../../lib/api-client";
+import type { FeedbackListItem } from "../../../../shared/schemas/feedback";
 
 /** One reviewed exam as the QA lead sees it: the learner's feedback with reviewer names. */
-export interface FeedbackDetail {
-  examId: string;
-  code: string;
-  application: { code: string; name: string };
-  performedAt: string;
-  setting: ExamSetting;
-  reviewedAt: string;
-  source: "single_read" | "double_read_agreed" | "adjudicated";
-  credit: boolean;
-  creditReasons?: string[];
-  rubricVersion: number | null;
-  criteria: {
-    key: string;
-    label: string;
-    value: string | number | null;
-    level: { label: string; anchor: string; ideal: boolean; fails: boolean } | null;
-    nextSteps: string[];
-  }[];
-  findings: { key: string; label: string; yourRead: FindingRead; referenceRead: FindingRead; outcome: "TP" | "FP" | "TN" | "FN" | "indeterminate" }[];
-  comments: { reviewer: string | null; text: string; at: string }[];
-  adjudicationNote: string | null;
-  acknowledgedAt: string | null;
-  messages: { id: string; body: string; at: string; author: string }[];
-  /** Present on the learner's own list; the roster may omit it. */
-  unread?: boolean;
-}
+/** A reviewed exam on the QA lead's page of a sonographer: the learner's feedback with reviewers named. */
+export type FeedbackDetail = FeedbackListItem;
 
 export interface ProgressRange {
   from?: string;
