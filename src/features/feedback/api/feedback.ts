@@ -4,7 +4,6 @@
 import { useEffect } from "react";
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client";
-
 import type { Feedback, FeedbackListItem, Outcome } from "../../../../shared/schemas/feedback";
 export type { Feedback, FeedbackCriterion, FeedbackListItem, Outcome } from "../../../../shared/schemas/feedback";
 
