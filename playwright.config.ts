@@ -4,7 +4,8 @@ import { defineConfig } from "@playwright/test";
 
 export default defineConfig({
   testDir: "tests/browser",
-  outputDir: "test-results/browser",
+  // A run with its own client build (CLIENT_DIST) keeps its own screenshots too.
+  outputDir: process.env.CLIENT_DIST ? `test-results/browser-${process.env.CLIENT_DIST}` : "test-results/browser",
   timeout: 30_000,
   workers: 1,
   reporter: [["list"]],
