@@ -28,6 +28,7 @@ import { registerFeedbackRoutes } from "./routes/feedback/router";
 import { registerReportRoutes } from "./routes/reports/router";
 import { registerProgressRoutes } from "./routes/progress/router";
 import { registerCalibrationRoutes } from "./routes/calibration/router";
+import { registerQuestionRoutes } from "./routes/questions/router";
 import type { Storage } from "./storage/types";
 import type { JobQueue } from "./jobs/queue";
 
@@ -85,6 +86,7 @@ export function buildApp(deps: AppDeps) {
   registerReportRoutes(kit, ctx);
   registerProgressRoutes(kit, ctx);
   registerCalibrationRoutes(kit, ctx);
+  registerQuestionRoutes(kit, ctx);
 
   let openapi: unknown;
   kit.router.get("/openapi.json", (_req, res) => {

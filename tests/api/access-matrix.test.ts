@@ -219,6 +219,13 @@ const MATRIX: Row[] = [
     expect: ownerOr(409, 409, 404),
   },
   { route: "GET /exams/:id/messages", call: async () => ({ path: `/api/exams/${(await ownExam()).id}/messages` }), expect: ownerOr(200, 200, 404) },
+  { route: "GET /reviews/questions", call: fixed("/api/reviews/questions"), expect: only(["reviewer", "qa_lead"], 200) },
+  // A reviewer who did not read the exam meets 404, like the exam policy; a QA lead sees any exam of the program.
+  {
+    route: "GET /reviews/exams/:id",
+    call: async () => ({ path: `/api/reviews/exams/${(await ownExam()).id}` }),
+    expect: { anonymous: 401, sonographer: 403, reviewer: 404, qa_lead: 200, admin: 403 },
+  },
   { route: "GET /reports/agreement", call: fixed("/api/reports/agreement"), expect: only(["qa_lead", "admin"], 200) },
   { route: "GET /reports/program", call: fixed("/api/reports/program"), expect: only(["qa_lead", "admin"], 200) },
   // One exam is too few for a calibration set: the QA lead gets as far as validation.
