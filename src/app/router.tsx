@@ -101,6 +101,16 @@ export const router = createBrowserRouter([
                 lazy: page(() => import("../features/scoring/routes/scoring-workspace")),
               },
               {
+                path: "reviews/questions",
+                loader: requireRoles(["reviewer", "qa_lead"]),
+                lazy: page(() => import("../features/questions/routes/questions")),
+              },
+              {
+                path: "reviews/exams/:examId",
+                loader: requireRoles(["reviewer", "qa_lead"]),
+                lazy: page(() => import("../features/questions/routes/question")),
+              },
+              {
                 path: "feedback",
                 loader: requireRoles(["sonographer"]),
                 lazy: page(() => import("../features/feedback/routes/feedback-list")),

@@ -29,7 +29,10 @@ export const NAV_GROUPS: NavGroup[] = [
   },
   {
     label: "Reviewing",
-    items: [{ to: "/queue", label: "Queue", roles: ["reviewer"] }],
+    items: [
+      { to: "/queue", label: "Queue", roles: ["reviewer"] },
+      { to: "/reviews/questions", label: "Questions", roles: ["reviewer", "qa_lead"] },
+    ],
   },
   {
     label: "Oversight",

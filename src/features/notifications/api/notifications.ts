@@ -44,5 +44,6 @@ export function useMarkRead() {
 export function notificationTarget(n: AppNotification): string | null {
   if (!n.examId) return null;
   if (n.kind === "feedback_ready" || n.kind === "feedback_answer") return `/feedback/${n.examId}`;
+  if (n.kind === "feedback_reply") return `/reviews/exams/${n.examId}`;
   return null;
 }
