@@ -102,7 +102,7 @@ function MyReview({ review }: { review: NonNullable<ReviewedExam["myReview"]> })
         {review.reads.length === 0 ? (
           <p className="text-sm text-slate-600">No findings were read.</p>
         ) : (
-          <dl className="grid max-w-2xl gap-x-6 gap-y-1 text-sm sm:grid-cols-[1fr_10rem]">
+          <dl className="grid max-w-2xl gap-x-6 gap-y-1 text-sm sm:grid-cols-[18rem_1fr]">
             {review.reads.map((r) => (
               <div key={r.key} className="contents">
                 <dt className="text-ink-900">{r.label}</dt>
