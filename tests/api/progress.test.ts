@@ -237,6 +237,15 @@ describe("who sees whose progress", () => {
       .get("/api/me/feedback")
       .set("Authorization", await bearer(learner));
     expect(learnerView.body.items[0].comments[0].reviewer).toBeNull();
+    // The list is built in one batch; each item must equal the exam's own feedback page.
+    for (const item of learnerView.body.items.slice(0, 5)) {
+      const one = await request(kit.app)
+        .get(`/api/me/feedback/${item.examId}`)
+        .set("Authorization", await bearer(learner));
+      const { unread: _unread, ...listed } = item;
+      expect(one.body).toEqual(listed);
+      expect(one.body.findings.length).toBeGreaterThan(0);
+    }
     const elsewhere = await makeProgram(kit.db);
     const foreignLead = await makeMember(kit.db, elsewhere.id, ["qa_lead"]);
     const denied = await request(kit.app)

@@ -1,6 +1,7 @@
 // Feedback to the sonographer: reviewed exams with the final scores, anchor texts, the
 // reviewers' comments and next steps; acknowledgement; questions and answers; notifications.
 import { z } from "zod";
+import type { Knex } from "knex";
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../app";
 import { HttpError, notFound } from "../../http/errors";
@@ -24,77 +25,103 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log 
   const reviewedOwn = (user: AuthUser) => reviewedOf(user.programId, user.id);
 
   /**
-   * One reviewed exam's feedback as its sonographer sees it. `lead` views (a QA lead's page
-   * about a sonographer) always carry the reviewers' names.
+   * Reviewed exams' feedback as their sonographer sees it, in the order `pick` gives, built
+   * with one query per kind of row for the whole list. `lead` views (a QA lead's page about
+   * a sonographer) always carry the reviewers' names.
    */
-  async function feedbackDetail(user: AuthUser, examId: string, sonographerId = user.id, lead = false): Promise<Feedback> {
-    const row = await reviewedOf(user.programId, sonographerId)
-      .where("e.id", examId)
-      .first("e.*", "ap.code as app_code", "ap.name as app_name", "r.scores", "r.reads", "r.credit", "r.source", "r.decided_at", "r.rubric_id", "r.note");
-    if (!row) throw notFound("Feedback");
-    const [rubric, programSettings, reviews, outcomes, snippets, messages] = await Promise.all([
-      getRubric(db, user.programId, row.rubric_id),
+  async function feedbackItems(user: AuthUser, sonographerId: string, pick: (q: Knex.QueryBuilder) => Knex.QueryBuilder, lead = false): Promise<Feedback[]> {
+    // eslint-disable-next-line @typescript-eslint/no-explicit-any -- a joined row of exams, applications and exam_results
+    const rows: any[] = await pick(reviewedOf(user.programId, sonographerId)).select(
+      "e.*",
+      "ap.code as app_code",
+      "ap.name as app_name",
+      "r.scores",
+      "r.reads",
+      "r.credit",
+      "r.source",
+      "r.decided_at",
+      "r.rubric_id",
+      "r.note",
+    );
+    if (rows.length === 0) return [];
+    const ids: string[] = rows.map((r) => r.id);
+    const [rubrics, programSettings, reviews, outcomes, snippets, messages] = await Promise.all([
+      Promise.all([...new Set<string>(rows.map((r) => r.rubric_id))].map((id) => getRubric(db, user.programId, id))),
       getSettings(db, user.programId),
       db("reviews as v")
         .join("users as u", "u.id", "v.reviewer_id")
-        .where("v.exam_id", examId)
+        .whereIn("v.exam_id", ids)
         .orderBy("v.submitted_at")
-        .select("u.name", "v.feedback", "v.submitted_at"),
+        .select("v.exam_id", "u.name", "v.feedback", "v.submitted_at"),
       db("finding_outcomes as o")
+        .join("exams as x", "x.id", "o.exam_id")
         .join("application_findings as f", function () {
-          this.on("f.key", "=", "o.finding_key").andOnVal("f.application_id", "=", row.application_id);
+          this.on("f.key", "=", "o.finding_key").andOn("f.application_id", "=", "x.application_id");
         })
-        .where("o.exam_id", examId)
-        .select("o.finding_key as key", "f.label", "o.sonographer_read as yourRead", "o.reference_read as referenceRead", "o.outcome"),
+        .whereIn("o.exam_id", ids)
+        .orderBy("f.position")
+        .select("o.exam_id", "o.finding_key as key", "f.label", "o.sonographer_read as yourRead", "o.reference_read as referenceRead", "o.outcome"),
       db("snippets").where("program_id", user.programId).select("criterion_key", "text"),
       db("feedback_messages as m")
         .join("users as u", "u.id", "m.author_id")
-        .where("m.exam_id", examId)
+        .whereIn("m.exam_id", ids)
         .orderBy("m.created_at")
-        .select("m.id", "m.body", "m.created_at", "u.name", "m.author_id"),
+        .select("m.exam_id", "m.id", "m.body", "m.created_at", "u.name", "m.author_id"),
     ]);
     const settings = lead ? { ...programSettings, showReviewerName: true } : programSettings;
-    const criteria = rubric ? criteriaFor(rubric.criteria, row.app_code) : [];
-    const significant = row.setting === "clinical" && outcomes.some((o) => o.outcome === "FP" || o.outcome === "FN");
-    const creditReasons = rubric ? creditFor(rubric.criteria, row.app_code, row.scores, significant, { minQuality: settings.minQualityForCredit }).reasons : [];
-    const scored = criteria.map((c) => {
-      const value = row.scores[c.key];
-      const level = c.levels.find((l) => l.value === String(value));
-      const nextSteps = level && !level.ideal ? [c.help, ...snippets.filter((s) => s.criterion_key === c.key).map((s) => s.text)].filter(Boolean) : [];
+    const of = <T extends { exam_id: string }>(list: T[], examId: string) => list.filter((x) => x.exam_id === examId);
+    return rows.map((row) => {
+      const rubric = rubrics.find((r) => r?.id === row.rubric_id);
+      const findings = of(outcomes, row.id).map(({ exam_id: _, ...o }) => o);
+      const criteria = rubric ? criteriaFor(rubric.criteria, row.app_code) : [];
+      const significant = row.setting === "clinical" && findings.some((o) => o.outcome === "FP" || o.outcome === "FN");
+      const creditReasons = rubric
+        ? creditFor(rubric.criteria, row.app_code, row.scores, significant, { minQuality: settings.minQualityForCredit }).reasons
+        : [];
+      const scored = criteria.map((c) => {
+        const value = row.scores[c.key];
+        const level = c.levels.find((l) => l.value === String(value));
+        const nextSteps = level && !level.ideal ? [c.help, ...snippets.filter((sn) => sn.criterion_key === c.key).map((sn) => sn.text)].filter(Boolean) : [];
+        return {
+          key: c.key,
+          label: c.label,
+          value: value ?? null,
+          level: level ? { label: level.label, anchor: level.anchor, ideal: level.ideal, fails: level.fails } : null,
+          nextSteps,
+        };
+      });
       return {
-        key: c.key,
-        label: c.label,
-        value: value ?? null,
-        level: level ? { label: level.label, anchor: level.anchor, ideal: level.ideal, fails: level.fails } : null,
-        nextSteps,
+        examId: row.id,
+        code: row.code,
+        application: { code: row.app_code, name: row.app_name },
+        performedAt: row.performed_at.toISOString(),
+        setting: row.setting,
+        reviewedAt: row.decided_at.toISOString(),
+        source: row.source,
+        credit: row.credit,
+        creditReasons,
+        rubricVersion: rubric?.version ?? null,
+        criteria: scored,
+        findings,
+        comments: of(reviews, row.id)
+          .filter((r) => r.feedback)
+          .map((r) => ({ reviewer: settings.showReviewerName ? r.name : null, text: r.feedback, at: r.submitted_at.toISOString() })),
+        adjudicationNote: row.note || null,
+        acknowledgedAt: row.feedback_acknowledged_at?.toISOString() ?? null,
+        messages: of(messages, row.id).map((m) => ({
+          id: m.id,
+          body: m.body,
+          at: m.created_at.toISOString(),
+          author: m.author_id === user.id ? "you" : settings.showReviewerName ? m.name : "Reviewer",
+        })),
       };
     });
-    return {
-      examId: row.id,
-      code: row.code,
-      application: { code: row.app_code, name: row.app_name },
-      performedAt: row.performed_at.toISOString(),
-      setting: row.setting,
-      reviewedAt: row.decided_at.toISOString(),
-      source: row.source,
-      credit: row.credit,
-      /** Why the exam earned no credit (empty when it did). */
-      creditReasons,
-      rubricVersion: rubric?.version ?? null,
-      criteria: scored,
-      findings: outcomes,
-      comments: reviews
-        .filter((r) => r.feedback)
-        .map((r) => ({ reviewer: settings.showReviewerName ? r.name : null, text: r.feedback, at: r.submitted_at.toISOString() })),
-      adjudicationNote: row.note || null,
-      acknowledgedAt: row.feedback_acknowledged_at?.toISOString() ?? null,
-      messages: messages.map((m) => ({
-        id: m.id,
-        body: m.body,
-        at: m.created_at.toISOString(),
-        author: m.author_id === user.id ? "you" : settings.showReviewerName ? m.name : "Reviewer",
-      })),
-    };
+  }
+
+  async function feedbackDetail(user: AuthUser, examId: string): Promise<Feedback> {
+    const [item] = await feedbackItems(user, user.id, (q) => q.where("e.id", examId));
+    if (!item) throw notFound("Feedback");
+    return item;
   }
 
   defineRoute(kit, {
@@ -105,11 +132,9 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log 
     access: ["sonographer"],
     responses: { 200: { description: "Feedback" } },
     handler: async ({ user }) => {
-      const rows = await reviewedOwn(user).orderBy("r.decided_at", "desc").limit(200).select("e.id");
+      const items = await feedbackItems(user, user.id, (q) => q.orderBy("r.decided_at", "desc").limit(200));
       const unread = new Set(await db("notifications").where({ user_id: user.id, kind: "feedback_ready" }).whereNull("read_at").pluck("exam_id"));
-      const items = [];
-      for (const r of rows) items.push({ ...(await feedbackDetail(user, r.id)), unread: unread.has(r.id) });
-      return { items };
+      return { items: items.map((f) => ({ ...f, unread: unread.has(f.examId) })) };
     },
   });
 
@@ -124,11 +149,9 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log 
     handler: async ({ user, params }) => {
       const member = await db("memberships").where({ program_id: user.programId, user_id: params.id }).whereRaw(`'sonographer' = ANY(roles)`).first("id");
       if (!member) throw notFound("Sonographer");
-      const rows = await reviewedOf(user.programId, params.id).orderBy("r.decided_at", "desc").limit(200).select("e.id");
+      const items = await feedbackItems(user, params.id, (q) => q.orderBy("r.decided_at", "desc").limit(200), true);
       const unread = new Set(await db("notifications").where({ user_id: params.id, kind: "feedback_ready" }).whereNull("read_at").pluck("exam_id"));
-      const items = [];
-      for (const r of rows) items.push({ ...(await feedbackDetail(user, r.id, params.id, true)), unread: unread.has(r.id) });
-      return { items };
+      return { items: items.map((f) => ({ ...f, unread: unread.has(f.examId) })) };
     },
   });
 
