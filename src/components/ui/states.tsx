@@ -2,6 +2,7 @@
 // Failed always offers a retry, and explains in words (never colour alone).
 import type { ReactNode } from "react";
 import { CircleAlert, LoaderCircle } from "lucide-react";
+import { isApiError } from "../../lib/api-client";
 import { Button } from "./button";
 
 export function LoadingState({ label = "Loading…" }: { label?: string }) {
@@ -49,4 +50,27 @@ export function ErrorState({
       ) : null}
     </div>
   );
+}
+
+/**
+ * A failed query of one item: "not there" (404, or 400 for an id that is not an id) gets its
+ * own words and an optional way back; anything else the usual retry.
+ */
+export function QueryErrorState({
+  query,
+  notFound,
+  back,
+}: {
+  query: { error: unknown; isFetching: boolean; refetch: () => unknown };
+  notFound: { title: string; message: string };
+  back?: ReactNode;
+}) {
+  if (isApiError(query.error, 404) || isApiError(query.error, 400))
+    return (
+      <div className="space-y-3">
+        <ErrorState title={notFound.title} error={new Error(notFound.message)} />
+        {back}
+      </div>
+    );
+  return <ErrorState error={query.error} onRetry={() => void query.refetch()} retrying={query.isFetching} />;
 }

@@ -4,8 +4,7 @@ import { Link, useLocation, useParams } from "react-router-dom";
 import { buttonClasses } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { PageHeader } from "../../../components/ui/page-header";
-import { ErrorState, LoadingState } from "../../../components/ui/states";
-import { isApiError } from "../../../lib/api-client";
+import { ErrorState, LoadingState, QueryErrorState } from "../../../components/ui/states";
 import { applicationsQuery } from "../../../lib/catalogue";
 import { useExam } from "../api/exams";
 import { DiscardDraftButton } from "../components/discard-draft-button";
@@ -45,11 +44,7 @@ export default function EditExamPage() {
       {exam.isPending || apps.isPending ? (
         <LoadingState label="Loading the draft…" />
       ) : exam.isError ? (
-        isApiError(exam.error, 404) || isApiError(exam.error, 400) ? (
-          <ErrorState title="No such exam" error={new Error("This exam does not exist or is not yours.")} />
-        ) : (
-          <ErrorState error={exam.error} onRetry={() => void exam.refetch()} retrying={exam.isFetching} />
-        )
+        <QueryErrorState query={exam} notFound={{ title: "No such exam", message: "This exam does not exist or is not yours." }} />
       ) : apps.isError ? (
         <ErrorState error={apps.error} onRetry={() => void apps.refetch()} retrying={apps.isFetching} />
       ) : exam.data.status !== "draft" ? (

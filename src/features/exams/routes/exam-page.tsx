@@ -9,8 +9,7 @@ import { ConfirmationsForm } from "../../../components/progress/confirmations-fo
 import { buttonClasses } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { PageHeader } from "../../../components/ui/page-header";
-import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
-import { isApiError } from "../../../lib/api-client";
+import { EmptyState, LoadingState, QueryErrorState } from "../../../components/ui/states";
 import { READ_LABELS, SETTING_LABELS, TRANSDUCER_LABELS, applicationsQuery } from "../../../lib/catalogue";
 import { formatDateTime } from "../../../lib/format";
 import { hasAnyRole, sessionQuery } from "../../../lib/session";
@@ -71,11 +70,7 @@ export default function ExamPage() {
       {query.isPending ? (
         <LoadingState label="Loading the exam…" />
       ) : query.isError ? (
-        isApiError(query.error, 404) || isApiError(query.error, 400) ? (
-          <ErrorState title="No such exam" error={new Error("This exam does not exist or is not visible to you.")} />
-        ) : (
-          <ErrorState error={query.error} onRetry={() => void query.refetch()} retrying={query.isFetching} />
-        )
+        <QueryErrorState query={query} notFound={{ title: "No such exam", message: "This exam does not exist or is not visible to you." }} />
       ) : (
         <div className="space-y-6">
           <section aria-labelledby="summary-heading" className="rounded-lg border border-slate-200 bg-white p-5">

@@ -7,9 +7,8 @@ import { CircleCheck } from "lucide-react";
 import { Button } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { PageHeader } from "../../../components/ui/page-header";
-import { ErrorState, LoadingState } from "../../../components/ui/states";
+import { LoadingState, QueryErrorState } from "../../../components/ui/states";
 import { StatusTag } from "../../../components/ui/status-tag";
-import { isApiError } from "../../../lib/api-client";
 import { SETTING_LABELS } from "../../../lib/catalogue";
 import { formatDateTime } from "../../../lib/format";
 import { SOURCE_WORDS, noCreditReasons, useAcknowledge, useFeedback, type Feedback } from "../api/feedback";
@@ -98,16 +97,15 @@ export default function FeedbackDetailPage() {
       {query.isPending ? (
         <LoadingState label="Loading the feedback…" />
       ) : query.isError ? (
-        isApiError(query.error, 404) || isApiError(query.error, 400) ? (
-          <div className="space-y-3">
-            <ErrorState title="No feedback here" error={new Error("This is not a reviewed exam of yours, or its review is not final yet.")} />
+        <QueryErrorState
+          query={query}
+          notFound={{ title: "No feedback here", message: "This is not a reviewed exam of yours, or its review is not final yet." }}
+          back={
             <Link to="/feedback" className="text-sm font-semibold text-sea-700 underline-offset-2 hover:underline">
               Back to all feedback
             </Link>
-          </div>
-        ) : (
-          <ErrorState error={query.error} onRetry={() => void query.refetch()} retrying={query.isFetching} />
-        )
+          }
+        />
       ) : fb ? (
         <div className="space-y-6">
           <Section id="result-heading" title="Result">

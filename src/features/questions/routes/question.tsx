@@ -5,9 +5,8 @@ import type { ReactNode } from "react";
 import { Link, useParams } from "react-router-dom";
 import { EyeOff } from "lucide-react";
 import { PageHeader } from "../../../components/ui/page-header";
-import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
+import { EmptyState, ErrorState, LoadingState, QueryErrorState } from "../../../components/ui/states";
 import { StatusTag } from "../../../components/ui/status-tag";
-import { isApiError } from "../../../lib/api-client";
 import { READ_LABELS, SETTING_LABELS } from "../../../lib/catalogue";
 import { formatDateTime } from "../../../lib/format";
 import { SOURCE_WORDS, useReviewedExam, useThread, type ReviewedExam, type ThreadMessage } from "../api/questions";
@@ -175,16 +174,15 @@ export default function QuestionPage() {
       {query.isPending ? (
         <LoadingState label="Loading the exam…" />
       ) : query.isError ? (
-        isApiError(query.error, 404) || isApiError(query.error, 400) ? (
-          <div className="space-y-3">
-            <ErrorState title="No exam here" error={new Error("This is not an exam you reviewed, or it belongs to another program.")} />
+        <QueryErrorState
+          query={query}
+          notFound={{ title: "No exam here", message: "This is not an exam you reviewed, or it belongs to another program." }}
+          back={
             <Link to="/reviews/questions" className="text-sm font-semibold text-sea-700 underline-offset-2 hover:underline">
               Back to all questions
             </Link>
-          </div>
-        ) : (
-          <ErrorState error={query.error} onRetry={() => void query.refetch()} retrying={query.isFetching} />
-        )
+          }
+        />
       ) : data ? (
         <div className="space-y-6">
           <p className="inline-flex items-center gap-2 text-sm text-slate-700">
