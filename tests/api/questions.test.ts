@@ -192,6 +192,14 @@ describe("GET /api/reviews/questions", () => {
       [second.id, true, 1],
     ]);
 
+    // The reader's home page counts the threads waiting for an answer; another reviewer's does not.
+    const waitingCard = async (who: TestMember) =>
+      (await get(who, "/api/home")).body.sections
+        .flatMap((section: { cards: { key: string; count: number }[] }) => section.cards)
+        .find((c: { key: string }) => c.key === "questions_waiting");
+    expect(await waitingCard(s.reader)).toMatchObject({ count: 2, href: "/reviews/questions" });
+    expect(await waitingCard(s.other)).toBeUndefined();
+
     // Another reviewer read none of them; a QA lead sees every thread of the program; a sonographer meets the role gate.
     expect((await get(s.other, "/api/reviews/questions")).body.items).toEqual([]);
     expect((await get(s.lead, "/api/reviews/questions")).body.items.map((i: { examId: string }) => i.examId)).toEqual([first.id, second.id]);

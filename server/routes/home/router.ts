@@ -50,7 +50,7 @@ export function registerHomeRoutes(kit: RouteKit, { db }: RouteContext) {
         });
       }
       if (user.roles.includes("reviewer")) {
-        const [[waiting], [held], [handed]] = await Promise.all([
+        const [[waiting], [held], [handed], [questions]] = await Promise.all([
           claimable(db, pid, user.id).count<{ c: string }[]>("* as c"),
           db("assignments")
             .where({ program_id: pid, reviewer_id: user.id, state: "claimed" })
@@ -59,6 +59,14 @@ export function registerHomeRoutes(kit: RouteKit, { db }: RouteContext) {
           db("assignments")
             .where({ program_id: pid, kind: "adjudication", assigned_to: user.id })
             .whereIn("state", ["open", "claimed"])
+            .count<{ c: string }[]>("* as c"),
+          // Exams I reviewed whose thread ends with a question from the sonographer.
+          db("exams as e")
+            .where("e.program_id", pid)
+            .whereExists((q) => q.select(db.raw("1")).from("reviews as v").whereRaw("v.exam_id = e.id").andWhere("v.reviewer_id", user.id))
+            .whereRaw(
+              `(SELECT m.author_id = e.sonographer_id FROM feedback_messages m WHERE m.exam_id = e.id ORDER BY m.created_at DESC, m.id DESC LIMIT 1) IS TRUE`,
+            )
             .count<{ c: string }[]>("* as c"),
         ]);
         sections.push({
@@ -75,6 +83,17 @@ export function registerHomeRoutes(kit: RouteKit, { db }: RouteContext) {
             },
             ...(Number(handed.c)
               ? [{ key: "adjudications_handed", label: "Adjudications handed to you", count: Number(handed.c), href: "/oversight/adjudication", hint: null }]
+              : []),
+            ...(Number(questions.c)
+              ? [
+                  {
+                    key: "questions_waiting",
+                    label: "Questions from sonographers awaiting your answer",
+                    count: Number(questions.c),
+                    href: "/reviews/questions",
+                    hint: null,
+                  },
+                ]
               : []),
           ],
         });
