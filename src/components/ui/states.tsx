@@ -1,6 +1,7 @@
 // The three states every data screen can be in besides "ready": loading, empty and failed.
 // Failed always offers a retry, and explains in words (never colour alone).
 import type { ReactNode } from "react";
+import { Link } from "react-router-dom";
 import { CircleAlert, LoaderCircle } from "lucide-react";
 import { isApiError } from "../../lib/api-client";
 import { Button } from "./button";
@@ -63,13 +64,18 @@ export function QueryErrorState({
 }: {
   query: { error: unknown; isFetching: boolean; refetch: () => unknown };
   notFound: { title: string; message: string };
-  back?: ReactNode;
+  /** A link back to the list the item came from. */
+  back?: { to: string; label: string };
 }) {
   if (isApiError(query.error, 404) || isApiError(query.error, 400))
     return (
       <div className="space-y-3">
         <ErrorState title={notFound.title} error={new Error(notFound.message)} />
-        {back}
+        {back ? (
+          <Link to={back.to} className="text-sm font-semibold text-sea-700 underline-offset-2 hover:underline">
+            {back.label}
+          </Link>
+        ) : null}
       </div>
     );
   return <ErrorState error={query.error} onRetry={() => void query.refetch()} retrying={query.isFetching} />;

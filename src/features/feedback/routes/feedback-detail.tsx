@@ -2,7 +2,7 @@
 // next steps, the reads per finding, the reviewers' comments, an adjudication note, the
 // acknowledgement and the question thread.
 import type { ReactNode } from "react";
-import { Link, useParams } from "react-router-dom";
+import { useParams } from "react-router-dom";
 import { CircleCheck } from "lucide-react";
 import { Button } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
@@ -100,11 +100,7 @@ export default function FeedbackDetailPage() {
         <QueryErrorState
           query={query}
           notFound={{ title: "No feedback here", message: "This is not a reviewed exam of yours, or its review is not final yet." }}
-          back={
-            <Link to="/feedback" className="text-sm font-semibold text-sea-700 underline-offset-2 hover:underline">
-              Back to all feedback
-            </Link>
-          }
+          back={{ to: "/feedback", label: "Back to all feedback" }}
         />
       ) : fb ? (
         <div className="space-y-6">

@@ -177,11 +177,7 @@ export default function QuestionPage() {
         <QueryErrorState
           query={query}
           notFound={{ title: "No exam here", message: "This is not an exam you reviewed, or it belongs to another program." }}
-          back={
-            <Link to="/reviews/questions" className="text-sm font-semibold text-sea-700 underline-offset-2 hover:underline">
-              Back to all questions
-            </Link>
-          }
+          back={{ to: "/reviews/questions", label: "Back to all questions" }}
         />
       ) : data ? (
         <div className="space-y-6">

@@ -33,22 +33,38 @@ type FormValues = z.output<typeof formSchema>;
 /** A fraction as a percentage with at most one decimal (0.125 → 12.5). */
 const toPercent = (fraction: number) => Math.round(fraction * 1000) / 10;
 
-const toForm = ({ doubleReadShare, cusumAcceptableRate, cusumUnacceptableRate, cusumAlpha, cusumBeta, ...rest }: ProgramSettings): FormValues => ({
-  ...rest,
-  doubleReadPercent: toPercent(doubleReadShare),
-  cusumAcceptablePercent: toPercent(cusumAcceptableRate),
-  cusumUnacceptablePercent: toPercent(cusumUnacceptableRate),
-  cusumAlphaPercent: toPercent(cusumAlpha),
-  cusumBetaPercent: toPercent(cusumBeta),
-});
-
-/** Server field names (fractions) → the form's percentage fields, so a 400 lands next to the right input. */
-const SERVER_FIELDS = {
+/** Settings stored as fractions and edited as percentages: server field → form field. */
+const PERCENT_FIELDS = {
   doubleReadShare: "doubleReadPercent",
   cusumAcceptableRate: "cusumAcceptablePercent",
   cusumUnacceptableRate: "cusumUnacceptablePercent",
   cusumAlpha: "cusumAlphaPercent",
   cusumBeta: "cusumBetaPercent",
+} as const satisfies Partial<Record<keyof ProgramSettings, keyof FormValues>>;
+type PercentSetting = keyof typeof PERCENT_FIELDS;
+const PERCENT_SETTINGS = Object.keys(PERCENT_FIELDS) as PercentSetting[];
+
+const toForm = (settings: ProgramSettings): FormValues => {
+  const out: Record<string, unknown> = { ...settings };
+  for (const key of PERCENT_SETTINGS) {
+    delete out[key];
+    out[PERCENT_FIELDS[key]] = toPercent(settings[key]);
+  }
+  return out as FormValues;
+};
+
+const fromForm = (values: FormValues): Partial<ProgramSettings> => {
+  const out: Record<string, unknown> = { ...values };
+  for (const key of PERCENT_SETTINGS) {
+    delete out[PERCENT_FIELDS[key]];
+    out[key] = values[PERCENT_FIELDS[key]] / 100;
+  }
+  return out as Partial<ProgramSettings>;
+};
+
+/** Server field names (fractions) → the form's percentage fields, so a 400 lands next to the right input. */
+const SERVER_FIELDS = {
+  ...PERCENT_FIELDS,
   leaseMinutes: "leaseMinutes",
   turnaroundHours: "turnaroundHours",
   minQualityForCredit: "minQualityForCredit",
@@ -90,66 +106,49 @@ function SettingsForm({ settings }: { settings: ProgramSettings }) {
   const update = useUpdateSettings();
   const form = useForm<FormInput, unknown, FormValues>({ resolver: zodResolver(formSchema), defaultValues: toForm(settings) });
   const { errors } = form.formState;
-  const num = { valueAsNumber: true } as const;
+  /** A number input bound to a form field, with its error next to it. */
+  const numberField = (
+    name: Exclude<keyof FormValues, "blindSonographer" | "showReviewerName">,
+    props: { label: string; hint: string; min?: number; max?: number; step?: number },
+  ) => <TextField type="number" className="max-w-xs" {...props} error={errors[name]?.message} {...form.register(name, { valueAsNumber: true })} />;
 
-  const onSubmit = form.handleSubmit(
-    async ({ doubleReadPercent, cusumAcceptablePercent, cusumUnacceptablePercent, cusumAlphaPercent, cusumBetaPercent, ...rest }) => {
-      try {
-        const saved = await update.mutateAsync({
-          ...rest,
-          doubleReadShare: doubleReadPercent / 100,
-          cusumAcceptableRate: cusumAcceptablePercent / 100,
-          cusumUnacceptableRate: cusumUnacceptablePercent / 100,
-          cusumAlpha: cusumAlphaPercent / 100,
-          cusumBeta: cusumBetaPercent / 100,
-        });
-        form.reset(toForm(saved));
-      } catch (error) {
-        // A refusal that names a field goes next to it; anything else shows from update.error.
-        const fields = serverFieldErrors(error);
-        let first = true;
-        for (const [field, message] of Object.entries(fields) as [keyof FormValues, string][]) {
-          form.setError(field, { type: "server", message }, { shouldFocus: first });
-          first = false;
-        }
+  const onSubmit = form.handleSubmit(async (values) => {
+    try {
+      const saved = await update.mutateAsync(fromForm(values));
+      form.reset(toForm(saved));
+    } catch (error) {
+      // A refusal that names a field goes next to it; anything else shows from update.error.
+      const fields = serverFieldErrors(error);
+      let first = true;
+      for (const [field, message] of Object.entries(fields) as [keyof FormValues, string][]) {
+        form.setError(field, { type: "server", message }, { shouldFocus: first });
+        first = false;
       }
-    },
-  );
+    }
+  });
   const unplacedError = update.isError && Object.keys(serverFieldErrors(update.error)).length === 0 ? update.error.message : null;
 
   return (
     <form onSubmit={onSubmit} noValidate className="space-y-6">
       <fieldset className="space-y-4 rounded-lg border border-slate-200 bg-white p-5">
         <legend className="px-1 text-lg font-semibold text-ink-950">Reading</legend>
-        <TextField
-          label="Exams read twice (%)"
-          type="number"
-          min={0}
-          max={100}
-          step={1}
-          className="max-w-xs"
-          hint="The share of submitted exams that also get an independent second read by another reviewer, to keep reviewers calibrated. 20% is a common start."
-          error={errors.doubleReadPercent?.message}
-          {...form.register("doubleReadPercent", num)}
-        />
-        <TextField
-          label="Claim length (minutes)"
-          type="number"
-          min={1}
-          className="max-w-xs"
-          hint="How long a reviewer holds an exam they started. When it runs out unfinished, the exam goes back to the queue."
-          error={errors.leaseMinutes?.message}
-          {...form.register("leaseMinutes", num)}
-        />
-        <TextField
-          label="Turnaround target (hours)"
-          type="number"
-          min={1}
-          className="max-w-xs"
-          hint="Work waiting longer than this counts as overdue, and reviewers get a reminder e-mail about it."
-          error={errors.turnaroundHours?.message}
-          {...form.register("turnaroundHours", num)}
-        />
+        {numberField("doubleReadPercent", {
+          label: "Exams read twice (%)",
+          min: 0,
+          max: 100,
+          step: 1,
+          hint: "The share of submitted exams that also get an independent second read by another reviewer, to keep reviewers calibrated. 20% is a common start.",
+        })}
+        {numberField("leaseMinutes", {
+          label: "Claim length (minutes)",
+          min: 1,
+          hint: "How long a reviewer holds an exam they started. When it runs out unfinished, the exam goes back to the queue.",
+        })}
+        {numberField("turnaroundHours", {
+          label: "Turnaround target (hours)",
+          min: 1,
+          hint: "Work waiting longer than this counts as overdue, and reviewers get a reminder e-mail about it.",
+        })}
       </fieldset>
       <fieldset className="space-y-4 rounded-lg border border-slate-200 bg-white p-5">
         <legend className="px-1 text-lg font-semibold text-ink-950">Blinding</legend>
@@ -168,25 +167,17 @@ function SettingsForm({ settings }: { settings: ProgramSettings }) {
       </fieldset>
       <fieldset className="space-y-4 rounded-lg border border-slate-200 bg-white p-5">
         <legend className="px-1 text-lg font-semibold text-ink-950">Credentialing</legend>
-        <TextField
-          label="Minimum overall image quality for credit (1–5)"
-          type="number"
-          min={1}
-          max={5}
-          className="max-w-xs"
-          hint="An exam counts toward credentialing only at this quality or above, with the orientation marker following convention and no clinically significant disagreement."
-          error={errors.minQualityForCredit?.message}
-          {...form.register("minQualityForCredit", num)}
-        />
-        <TextField
-          label="Credited exams needed per application"
-          type="number"
-          min={1}
-          className="max-w-xs"
-          hint="How many credited exams of one application a sonographer needs before they can be put forward for privileges in it."
-          error={errors.credentialingThreshold?.message}
-          {...form.register("credentialingThreshold", num)}
-        />
+        {numberField("minQualityForCredit", {
+          label: "Minimum overall image quality for credit (1–5)",
+          min: 1,
+          max: 5,
+          hint: "An exam counts toward credentialing only at this quality or above, with the orientation marker following convention and no clinically significant disagreement.",
+        })}
+        {numberField("credentialingThreshold", {
+          label: "Credited exams needed per application",
+          min: 1,
+          hint: "How many credited exams of one application a sonographer needs before they can be put forward for privileges in it.",
+        })}
       </fieldset>
       <fieldset className="space-y-4 rounded-lg border border-slate-200 bg-white p-5" aria-describedby="cusum-about">
         <legend className="px-1 text-lg font-semibold text-ink-950">Learning curve</legend>
@@ -195,50 +186,34 @@ function SettingsForm({ settings }: { settings: ProgramSettings }) {
           credit counts as a failure. The defaults (acceptable 10%, unacceptable 20%, false alarm 10% and missed signal 10%, that is α = β = 0.10) are common
           practice in published learning-curve CUSUMs for procedures; set your own if your program&apos;s policy differs.
         </p>
-        <TextField
-          label="Acceptable failure rate (%)"
-          type="number"
-          min={0.1}
-          max={99.9}
-          step={0.1}
-          className="max-w-xs"
-          hint="The share of exams without credit that is still fine for a competent sonographer. The curve signals competence when a learner performs at or below it. Default 10%."
-          error={errors.cusumAcceptablePercent?.message}
-          {...form.register("cusumAcceptablePercent", num)}
-        />
-        <TextField
-          label="Unacceptable failure rate (%)"
-          type="number"
-          min={0.1}
-          max={99.9}
-          step={0.1}
-          className="max-w-xs"
-          hint="The share of exams without credit that is too high; must be above the acceptable rate. The curve signals a problem when a learner performs at or above it. Default 20%."
-          error={errors.cusumUnacceptablePercent?.message}
-          {...form.register("cusumUnacceptablePercent", num)}
-        />
-        <TextField
-          label="False alarm chance, alpha (%)"
-          type="number"
-          min={0.1}
-          max={49.9}
-          step={0.1}
-          className="max-w-xs"
-          hint="How often the curve may wrongly signal an unacceptable rate for a sonographer who is in fact at the acceptable rate. Lower means more exams before any signal. Default 10% (0.10)."
-          error={errors.cusumAlphaPercent?.message}
-          {...form.register("cusumAlphaPercent", num)}
-        />
-        <TextField
-          label="Missed signal chance, beta (%)"
-          type="number"
-          min={0.1}
-          max={49.9}
-          step={0.1}
-          className="max-w-xs"
-          hint="How often the curve may wrongly signal competence for a sonographer who is in fact at the unacceptable rate. Lower means more exams before competence is signalled. Default 10% (0.10)."
-          error={errors.cusumBetaPercent?.message}
-          {...form.register("cusumBetaPercent", num)}
-        />
+        {numberField("cusumAcceptablePercent", {
+          label: "Acceptable failure rate (%)",
+          min: 0.1,
+          max: 99.9,
+          step: 0.1,
+          hint: "The share of exams without credit that is still fine for a competent sonographer. The curve signals competence when a learner performs at or below it. Default 10%.",
+        })}
+        {numberField("cusumUnacceptablePercent", {
+          label: "Unacceptable failure rate (%)",
+          min: 0.1,
+          max: 99.9,
+          step: 0.1,
+          hint: "The share of exams without credit that is too high; must be above the acceptable rate. The curve signals a problem when a learner performs at or above it. Default 20%.",
+        })}
+        {numberField("cusumAlphaPercent", {
+          label: "False alarm chance, alpha (%)",
+          min: 0.1,
+          max: 49.9,
+          step: 0.1,
+          hint: "How often the curve may wrongly signal an unacceptable rate for a sonographer who is in fact at the acceptable rate. Lower means more exams before any signal. Default 10% (0.10).",
+        })}
+        {numberField("cusumBetaPercent", {
+          label: "Missed signal chance, beta (%)",
+          min: 0.1,
+          max: 49.9,
+          step: 0.1,
+          hint: "How often the curve may wrongly signal competence for a sonographer who is in fact at the unacceptable rate. Lower means more exams before competence is signalled. Default 10% (0.10).",
+        })}
       </fieldset>
       <FormMessage message={unplacedError} />
       <FormMessage
