@@ -185,7 +185,9 @@ test("on a draft's exam page, a redaction box added by keyboard is saved and the
 
   await page.goto(`/exams/${exam.id}`);
   const panel = page.getByRole("region", { name: "Clip 1: Right upper quadrant" });
-  await expect(panel.getByText("Ready", { exact: true })).toBeVisible({ timeout: 30_000 });
+  // The clip's one status element, by name (the page has a status line of its own as well).
+  const state = panel.getByRole("status", { name: "State of Clip 1: Right upper quadrant" });
+  await expect(state).toHaveText("Ready", { timeout: 30_000 });
   await panel.getByRole("button", { name: "Redact…" }).click();
   await panel.getByRole("button", { name: "Add a box" }).click();
   const box = panel.getByRole("button", { name: /^Box 1:/ });
@@ -196,10 +198,55 @@ test("on a draft's exam page, a redaction box added by keyboard is saved and the
   await expect(panel.getByLabel("Left % of box 1")).toHaveValue("39");
   await shot(page, testInfo, "exams-redaction");
   await panel.getByRole("button", { name: "Save boxes and reprocess" }).click();
-  await expect(panel.getByText(/^(Queued|Processing)$/)).toBeVisible();
-  await expect(panel.getByText("Ready", { exact: true })).toBeVisible({ timeout: 30_000 });
+  await expect(state).toHaveText(/^(Queued|Processing)$/);
+  await expect(state).toHaveText("Ready", { timeout: 30_000 });
   await expect(panel.getByText("1 box")).toBeVisible();
   fs.rmSync(dir, { recursive: true, force: true });
+});
+
+test("a clip being processed names its state once on the exam page", async ({ page }) => {
+  await signIn(page);
+  const created = await page.request.post("/api/exams", {
+    data: {
+      applicationCode: "efast",
+      performedAt: new Date(Date.now() - 3_600_000).toISOString(),
+      setting: "simulated",
+      transducer: "curvilinear",
+      preset: "",
+      indication: "",
+      findings: [],
+    },
+  });
+  const { exam } = (await created.json()) as { exam: { id: string } };
+  // The answer is altered on its way to the page so the clip stays "processing" while we look.
+  await page.route(`**/api/exams/${exam.id}`, async (route) => {
+    const response = await route.fetch();
+    const body = (await response.json()) as { exam: Record<string, unknown> };
+    const clip = {
+      id: "00000000-0000-4000-8000-000000000002",
+      view: "ruq",
+      kind: "video",
+      state: "processing",
+      error: null,
+      originalName: "sweep.mp4",
+      sizeBytes: 3000,
+      width: null,
+      height: null,
+      seconds: null,
+      fps: null,
+      frames: null,
+      redactions: [],
+      precheck: null,
+      media: { video: null, image: null, poster: null, strip: null, thumb: null },
+      createdAt: new Date().toISOString(),
+    };
+    await route.fulfill({ response, json: { exam: { ...body.exam, clips: [clip] } } });
+  });
+  await page.goto(`/exams/${exam.id}`);
+  const panel = page.getByRole("region", { name: "Clip 1: Right upper quadrant" });
+  await expect(panel.getByRole("status", { name: "State of Clip 1: Right upper quadrant" })).toHaveText("Processing");
+  await expect(panel.getByText(/processing/i)).toHaveCount(1);
+  await expect(panel.getByText("The player appears here when the clip is ready.")).toBeVisible();
 });
 
 test("a clip that failed processing shows the reason and a Retry button", async ({ page }) => {

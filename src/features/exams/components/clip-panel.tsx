@@ -45,7 +45,8 @@ export function ClipPanel({ examId, clip, index, views, editable }: Props) {
         <h3 id={headingId} className="font-semibold text-ink-950">
           {title}
         </h3>
-        <span aria-live="polite">
+        {/* The one element that names the clip's state (announced when it changes). */}
+        <span role="status" aria-label={`State of ${title}`}>
           <ClipStateTag state={clip.state} />
         </span>
       </div>

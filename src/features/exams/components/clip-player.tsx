@@ -1,5 +1,6 @@
 // A clip on the dark viewing surface: the video (looping, muted, inline, with controls) or
-// the still, its frame strip, and in the meantime the processing state in words.
+// the still, its frame strip, and in the meantime a placeholder. The clip's state itself is
+// named once, by the status tag beside the player (ClipPanel), never here as well.
 import { useState } from "react";
 import { CircleAlert, LoaderCircle } from "lucide-react";
 import type { Clip } from "../../../../shared/schemas/exams";
@@ -14,13 +15,11 @@ export function ClipPlayer({ clip, label }: { clip: Clip; label: string }) {
         {clip.state === "failed" ? (
           <>
             <CircleAlert aria-hidden="true" className="size-6 text-coral-300" />
-            <p className="font-semibold">Processing failed</p>
-            {clip.error ? <p className="max-w-md text-ink-200">{clip.error}</p> : null}
+            <p className="text-ink-200">No playable copy of this clip.</p>
           </>
         ) : (
           <>
             <LoaderCircle aria-hidden="true" className="size-6 animate-spin text-sea-300" />
-            <p className="font-semibold">{clip.state === "queued" ? "Queued for processing" : "Processing"}</p>
             <p className="text-ink-200">The player appears here when the clip is ready.</p>
           </>
         )}
