@@ -9,7 +9,7 @@ import { createRuntime } from "../server/runtime";
 import { seedDemoIfEmpty, DEMO_PASSWORD, DEMO_PROGRAMS } from "../seeds/demo";
 import { seedDemoExams } from "../seeds/demo-exams";
 import { seedLearningHistory } from "../seeds/demo-history";
-import { clusterDir, freePort, portInUse, startCluster, type Cluster } from "./lib/postgres";
+import { chooseClusterPort, clusterDir, freePort, portInUse, startCluster, type Cluster } from "./lib/postgres";
 import { startFakeMail, type FakeMail } from "./lib/mail-server";
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
@@ -36,11 +36,16 @@ try {
   const env = { ...process.env };
   let cluster: Cluster | undefined;
   if (!env.DATABASE_URL) {
-    const pgPort = Number(env.PG_PORT ?? 54329);
-    cluster = startCluster(clusterDir(path.join(root, ".data", "postgres")), pgPort);
+    const dir = clusterDir(path.resolve(root, env.PG_DIR || path.join(".data", "postgres")));
+    const explicit = env.PG_PORT ? Number(env.PG_PORT) : undefined;
+    if (explicit !== undefined && !(Number.isInteger(explicit) && explicit > 0 && explicit < 65536))
+      throw new Error(`PG_PORT must be a port number, got "${env.PG_PORT}"`);
+    const { port, note } = await chooseClusterPort(dir, explicit);
+    if (note) console.log(`PostgreSQL: ${note}.`);
+    cluster = startCluster(dir, port);
     cleanups.push(() => cluster!.stop());
     env.DATABASE_URL = cluster.url();
-    console.log(`PostgreSQL: private cluster on 127.0.0.1:${pgPort} (data in ${cluster.dataDir})`);
+    console.log(`PostgreSQL: private cluster on 127.0.0.1:${cluster.port} (data in ${cluster.dataDir})`);
   }
 
   let mail: FakeMail | undefined;

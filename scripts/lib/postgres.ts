@@ -73,6 +73,56 @@ export function freePort(): Promise<number> {
   });
 }
 
+/** The port of the cluster already running in `dir`, or undefined when none runs there. */
+export function runningClusterPort(dir: string): number | undefined {
+  const dataDir = path.join(dir, "data");
+  const pidFile = path.join(dataDir, "postmaster.pid");
+  if (!fs.existsSync(pidFile)) return undefined;
+  const bin = pgBinDir();
+  const status = spawnSync(
+    isRoot ? "runuser" : path.join(bin, "pg_ctl"),
+    isRoot ? ["-u", "postgres", "--", path.join(bin, "pg_ctl"), "-D", dataDir, "status"] : ["-D", dataDir, "status"],
+  );
+  if (status.status !== 0) return undefined;
+  // postmaster.pid: pid, data directory, start time, port, ... (PostgreSQL's storage layout).
+  const port = Number(fs.readFileSync(pidFile, "utf8").split("\n")[3]);
+  return Number.isInteger(port) && port > 0 ? port : undefined;
+}
+
+/**
+ * The port for the cluster in `dir`: the one it already runs on; else `explicit` (PG_PORT) as
+ * given; else `preferred` when free, or a free one chosen by the kernel, with a note saying so.
+ */
+export async function chooseClusterPort(dir: string, explicit: number | undefined, preferred = 54329): Promise<{ port: number; note?: string }> {
+  const running = runningClusterPort(dir);
+  if (running !== undefined) return { port: running };
+  if (explicit !== undefined) return { port: explicit };
+  if (!(await portInUse(preferred))) return { port: preferred };
+  const port = await freePort();
+  return { port, note: `port ${preferred} on 127.0.0.1 is in use, so PostgreSQL takes the free port ${port} (set PG_PORT to choose one)` };
+}
+
+const fileSize = (file: string) => (fs.existsSync(file) ? fs.statSync(file).size : 0);
+
+/** The last `lines` lines a text file got after byte `from`, or "" when it cannot be read. */
+function tail(file: string, from: number, lines: number): string {
+  try {
+    return fs.readFileSync(file).subarray(from).toString("utf8").trimEnd().split("\n").slice(-lines).join("\n");
+  } catch {
+    return "";
+  }
+}
+
+/** Why pg_ctl could not start the cluster, in words an operator can act on, with the log's end. */
+function startFailure(port: number, logFile: string, logFrom: number, pgCtlOutput: string): Error {
+  const log = tail(logFile, logFrom, 15);
+  const busy = /could not bind .*Address already in use/i.test(log);
+  const head = busy
+    ? `PostgreSQL could not start: port ${port} on 127.0.0.1 is already in use (another PostgreSQL server or program listens there). Stop that program, or choose another port: PG_PORT=<port> npm start`
+    : `PostgreSQL could not start on port ${port}: ${pgCtlOutput.trim() || "pg_ctl failed"}`;
+  return new Error(`${head}\nLast lines of ${logFile}:\n${log || "(empty)"}`);
+}
+
 /** Initialises (once) and starts a cluster in `dir`, listening on 127.0.0.1:port. */
 export function startCluster(dir: string, port: number, database = "soundings"): Cluster {
   const bin = pgBinDir();
@@ -85,26 +135,30 @@ export function startCluster(dir: string, port: number, database = "soundings"):
   if (!fs.existsSync(path.join(dataDir, "PG_VERSION"))) {
     asPostgres(path.join(bin, "initdb"), ["-D", dataDir, "-U", "postgres", "-A", "trust", "-E", "UTF8", "--no-locale"]);
   }
-  const pidFile = path.join(dataDir, "postmaster.pid");
-  const running =
-    fs.existsSync(pidFile) &&
-    spawnSync(
-      isRoot ? "runuser" : path.join(bin, "pg_ctl"),
-      isRoot ? ["-u", "postgres", "--", path.join(bin, "pg_ctl"), "-D", dataDir, "status"] : ["-D", dataDir, "status"],
-    ).status === 0;
-  if (!running) {
-    asPostgres(path.join(bin, "pg_ctl"), [
+  // A cluster left running (its owner was killed) is reused on the port it listens on.
+  const running = runningClusterPort(dir);
+  port = running ?? port;
+  if (running === undefined) {
+    const logFile = path.join(dir, "postgres.log");
+    const logFrom = fileSize(logFile);
+    const start = [
       "-D",
       dataDir,
       "-l",
-      path.join(dir, "postgres.log"),
+      logFile,
       "-w",
       "-t",
       "60",
       "-o",
       `-c listen_addresses=127.0.0.1 -p ${port} -k ${runDir} -c fsync=${process.env.PG_FSYNC ?? "on"}`,
       "start",
-    ]);
+    ];
+    // In a session of its own (setsid), so a terminal's Ctrl-C, which signals the whole
+    // foreground process group, never reaches PostgreSQL: the app stops it last, in order.
+    const pgCtl = path.join(bin, "pg_ctl");
+    const argv = isRoot ? ["--wait", "runuser", "-u", "postgres", "--", pgCtl, ...start] : ["--wait", pgCtl, ...start];
+    const r = spawnSync("setsid", argv, { encoding: "utf8", stdio: ["ignore", "pipe", "pipe"] });
+    if (r.status !== 0) throw startFailure(port, logFile, logFrom, r.stderr || r.stdout || "");
   }
   const exists = spawnSync(
     path.join(bin, "psql"),
