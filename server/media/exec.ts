@@ -2,6 +2,7 @@
 // and turns their failures into MediaError with the tool's own reason, trimmed for people.
 import { execFile } from "node:child_process";
 import path from "node:path";
+import { FFMPEG_TIMEOUT_MAX_SECONDS } from "./limits";
 
 /** An error about a media file that a person can read; safe to show on the clip. */
 export class MediaError extends Error {
@@ -24,27 +25,53 @@ export function trimReason(stderr: string, args: readonly string[] = []): string
   return tail.length > 300 ? `${tail.slice(0, 297)}...` : tail || "no reason given";
 }
 
-/** Runs a binary and resolves with its stdout as a Buffer; rejects with stderr attached. */
-export function runTool(bin: string, args: string[], opts: { maxBuffer?: number } = {}): Promise<Buffer> {
+/** How a run of a tool ended when it did not succeed. */
+type ToolError = NodeJS.ErrnoException & { stderrText?: string; timedOutAfter?: number };
+
+/**
+ * Runs a binary and resolves with its stdout as a Buffer; rejects with stderr attached. A run
+ * longer than `timeoutSeconds` is killed with SIGKILL (a stuck decoder ignores gentler signals)
+ * and rejects with `timedOutAfter` set.
+ */
+export function runTool(bin: string, args: string[], opts: { maxBuffer?: number; timeoutSeconds: number }): Promise<Buffer> {
   return new Promise((resolve, reject) => {
-    execFile(bin, args, { encoding: "buffer", maxBuffer: opts.maxBuffer ?? 256 * 1024 * 1024, windowsHide: true }, (err, stdout, stderr) => {
-      if (err) {
-        const e = err as NodeJS.ErrnoException & { stderrText?: string };
+    let timedOut = false;
+    const child = execFile(bin, args, { encoding: "buffer", maxBuffer: opts.maxBuffer ?? 256 * 1024 * 1024, windowsHide: true }, (err, stdout, stderr) => {
+      clearTimeout(timer);
+      if (err || timedOut) {
+        const e = (err ?? new Error(`${path.basename(bin)} was stopped`)) as ToolError;
         e.stderrText = stderr.toString("utf8");
+        if (timedOut) e.timedOutAfter = opts.timeoutSeconds;
         reject(e);
       } else resolve(stdout);
     });
+    const timer = setTimeout(() => {
+      timedOut = true;
+      child.kill("SIGKILL");
+    }, opts.timeoutSeconds * 1000);
   });
 }
 
-/** Runs ffmpeg; a failure becomes a MediaError that starts with `what` and ends with ffmpeg's reason. */
-export async function ffmpeg(args: string[], what: string, opts: { maxBuffer?: number } = {}): Promise<Buffer> {
+/** A tool's failure as a MediaError: not installed, too slow, or its own reason after `what`. */
+export function toolFailure(tool: "ffmpeg" | "ffprobe", err: unknown, what: string, args: readonly string[]): MediaError {
+  const e = err as ToolError;
+  if (e.code === "ENOENT") return new MediaError(`${tool} is not installed on this server`);
+  if (e.timedOutAfter !== undefined) return new MediaError(`${what}: ${tool} took longer than ${e.timedOutAfter} s and was stopped`);
+  return new MediaError(`${what}: ${trimReason(e.stderrText ?? e.message, args)}`);
+}
+
+/**
+ * Runs ffmpeg, killed after `timeoutSeconds` (default: the ceiling of every run); a failure becomes
+ * a MediaError that starts with `what` and ends with ffmpeg's reason.
+ */
+export async function ffmpeg(args: string[], what: string, opts: { maxBuffer?: number; timeoutSeconds?: number } = {}): Promise<Buffer> {
   try {
-    return await runTool(FFMPEG, ["-nostdin", "-hide_banner", "-v", "error", ...args], opts);
+    return await runTool(FFMPEG, ["-nostdin", "-hide_banner", "-v", "error", ...args], {
+      maxBuffer: opts.maxBuffer,
+      timeoutSeconds: opts.timeoutSeconds ?? FFMPEG_TIMEOUT_MAX_SECONDS,
+    });
   } catch (err) {
-    const e = err as NodeJS.ErrnoException & { stderrText?: string };
-    if (e.code === "ENOENT") throw new MediaError("ffmpeg is not installed on this server");
-    throw new MediaError(`${what}: ${trimReason(e.stderrText ?? e.message, args)}`);
+    throw toolFailure("ffmpeg", err, what, args);
   }
 }
 

@@ -110,3 +110,17 @@ describe("ffmpegArgs", () => {
     expect(selectAtTimes([1])).toBe("select='gt(gte(t\\,1.0000)*(isnan(prev_pts)+lt(prev_pts*TB\\,1.0000))\\,0)'");
   });
 });
+
+describe("clip length limit", () => {
+  const withDuration = (format: string, stream?: string) => {
+    const p = JSON.parse(JSON.stringify(probeOf()));
+    p.duration = Number(format);
+    p.video.duration = stream === undefined ? null : Number(stream);
+    return p as ProbeResult;
+  };
+  it("refuses a clip longer than 10 minutes, by the container's or the stream's length", () => {
+    expect(() => planVideo(withDuration("601"))).toThrow(new MediaError("The clip is 601 s long; the limit is 600 s (10 minutes)"));
+    expect(() => planVideo(withDuration("3", "3600"))).toThrow(/the limit is 600 s/);
+    expect(planVideo(withDuration("600")).video).toBe("copy");
+  });
+});

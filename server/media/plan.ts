@@ -1,6 +1,7 @@
 // The pure decision of what to do with an uploaded video (stream copy or transcode) and the
 // ffmpeg arguments that carry it out. No binaries here, so every branch is unit-tested.
 import { MediaError } from "./exec";
+import { durationProblem } from "./limits";
 import { displaySize, type ProbeResult } from "./probe";
 
 /** A redaction box in normalised frame coordinates (0–1, origin top left). */
@@ -68,6 +69,9 @@ const isMp4OrMov = (formatName: string) => formatName.split(",").some((f) => f =
 export function planVideo(p: ProbeResult, opts: { redactions?: readonly Redaction[] } = {}): VideoPlan {
   const v = p.video;
   if (!v || !v.width || !v.height) throw new MediaError("The file could not be read as video: it has no video stream");
+  // The longer of the stream's and the container's claim: either may be what the decoder will meet.
+  const tooLong = durationProblem(Math.max(v.duration ?? 0, p.duration ?? 0));
+  if (tooLong) throw new MediaError(tooLong);
   const source = displaySize(v);
   const reasons: string[] = [];
   if (v.codecName !== "h264") reasons.push(`video codec is ${v.codecName ?? "unknown"}, not H.264`);

@@ -6,6 +6,7 @@
 import sharp from "sharp";
 import type { Transducer } from "../../shared/catalogue";
 import { ffmpeg, fileUrl, MediaError } from "./exec";
+import { ffmpegTimeoutSeconds } from "./limits";
 import { displaySize, parseRate, probe } from "./probe";
 import { detectMedia } from "./detect";
 
@@ -271,6 +272,7 @@ export async function videoFrames(file: string): Promise<{ frames: GreyFrame[]; 
       "pipe:1",
     ],
     "The file could not be read as video",
+    { timeoutSeconds: ffmpegTimeoutSeconds(seconds) },
   );
   const frames: GreyFrame[] = [];
   for (let o = 0; o + width * height <= out.length; o += width * height) frames.push({ width, height, data: out.subarray(o, o + width * height) });

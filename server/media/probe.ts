@@ -1,5 +1,6 @@
 // Reads a media file with ffprobe and returns the typed subset the pipeline decides on.
-import { FFPROBE, MediaError, fileUrl, runTool, trimReason } from "./exec";
+import { FFPROBE, MediaError, fileUrl, runTool, toolFailure } from "./exec";
+import { PROBE_TIMEOUT_SECONDS } from "./limits";
 
 export interface ProbeStream {
   index: number;
@@ -83,11 +84,9 @@ export async function probe(filePath: string): Promise<ProbeResult> {
   let out: Buffer;
   const args = ["-v", "error", "-print_format", "json", "-show_format", "-show_streams", fileUrl(filePath)];
   try {
-    out = await runTool(FFPROBE, args);
+    out = await runTool(FFPROBE, args, { timeoutSeconds: PROBE_TIMEOUT_SECONDS });
   } catch (err) {
-    const e = err as NodeJS.ErrnoException & { stderrText?: string };
-    if (e.code === "ENOENT") throw new MediaError("ffprobe is not installed on this server");
-    throw new MediaError(`The file could not be read as video: ${trimReason(e.stderrText ?? e.message, args)}`);
+    throw toolFailure("ffprobe", err, "The file could not be read as video", args);
   }
   return parseProbe(out.toString("utf8"));
 }

@@ -6,6 +6,7 @@ import path from "node:path";
 import sharp from "sharp";
 import { ffmpeg, fileUrl, MediaError } from "./exec";
 import { clearCompressorNames } from "./mp4";
+import { ffmpegTimeoutSeconds } from "./limits";
 import { ffmpegArgs, frameTapArgs, planVideo, type FrameTap, type Redaction, type VideoPlan } from "./plan";
 import { displaySize, parseRate, probe, type ProbeResult } from "./probe";
 
@@ -62,8 +63,10 @@ function spread<T>(got: T[], want: number): T[] {
 }
 
 /** Decodes every frame of `file` and takes the first at or after each time. */
-async function framesAt(file: string, times: number[], width: number, height: number): Promise<Buffer[]> {
-  const out = await ffmpeg(["-i", fileUrl(file), ...frameTapArgs({ times, width, height })], "Frames could not be taken from the processed video");
+async function framesAt(file: string, times: number[], width: number, height: number, timeoutSeconds: number): Promise<Buffer[]> {
+  const out = await ffmpeg(["-i", fileUrl(file), ...frameTapArgs({ times, width, height })], "Frames could not be taken from the processed video", {
+    timeoutSeconds,
+  });
   return splitFrames(out, width, height);
 }
 
@@ -95,6 +98,8 @@ export async function processVideo(input: string, outDir: string, opts: { redact
   const source = await probe(input);
   const plan = planVideo(source, { redactions });
   const { seconds } = clipTiming(source);
+  // Proportional to the length the file claims (a file that only claims to be short meets the floor).
+  const timeoutSeconds = ffmpegTimeoutSeconds(seconds);
   await fs.mkdir(outDir, { recursive: true });
   const videoPath = path.join(outDir, "video.mp4");
   const posterPath = path.join(outDir, "poster.jpg");
@@ -104,12 +109,15 @@ export async function processVideo(input: string, outDir: string, opts: { redact
   const { width, height } = plan;
   const tap: FrameTap = { times: stripTimes(seconds), width, height, keyframesOnly: plan.video === "copy" };
   try {
-    const out = await ffmpeg(ffmpegArgs(plan, fileUrl(input), fileUrl(partial), { redactions, tap }), "The video could not be converted");
+    const out = await ffmpeg(ffmpegArgs(plan, fileUrl(input), fileUrl(partial), { redactions, tap }), "The video could not be converted", {
+      timeoutSeconds,
+    });
     if (plan.video === "transcode") await clearCompressorNames(partial);
     await fs.rename(partial, videoPath);
     let frames = splitFrames(out, width, height);
     // Keyframes too sparse for a full strip: decode the whole output instead.
-    if (frames.length < Math.min(STRIP_FRAMES, tap.times.length) && plan.video === "copy") frames = await framesAt(videoPath, tap.times, width, height);
+    if (frames.length < Math.min(STRIP_FRAMES, tap.times.length) && plan.video === "copy")
+      frames = await framesAt(videoPath, tap.times, width, height, timeoutSeconds);
     // A copy's video stream is the source's, so the source's reading stands; a transcode is read back.
     const [result] = await Promise.all([plan.video === "copy" ? source : probe(videoPath), writePosterAndStrip(frames, width, height, posterPath, stripPath)]);
     if (!result.video?.width || !result.video.height) throw new MediaError("The converted video has no picture");
