@@ -124,3 +124,15 @@ describe("clip length limit", () => {
     expect(planVideo(withDuration("600")).video).toBe("copy");
   });
 });
+
+describe("frame size limit", () => {
+  it("refuses a video frame over 8192 px on a side or over 50 megapixels", () => {
+    expect(() => planVideo(probeOf({ width: 16000, height: 16000 }))).toThrow(
+      new MediaError("The video is 16000×16000 pixels; the limit is 8192 pixels on a side"),
+    );
+    expect(() => planVideo(probeOf({ width: 8192, height: 8000 }))).toThrow(
+      new MediaError("The video is 8192×8000 pixels; the limit is 50 megapixels a frame"),
+    );
+    expect(planVideo(probeOf({ width: 3840, height: 2160 })).video).toBe("transcode"); // 4K is fine
+  });
+});

@@ -1,7 +1,7 @@
 // The pure decision of what to do with an uploaded video (stream copy or transcode) and the
 // ffmpeg arguments that carry it out. No binaries here, so every branch is unit-tested.
 import { MediaError } from "./exec";
-import { durationProblem } from "./limits";
+import { durationProblem, videoSizeProblem } from "./limits";
 import { displaySize, type ProbeResult } from "./probe";
 
 /** A redaction box in normalised frame coordinates (0–1, origin top left). */
@@ -72,6 +72,9 @@ export function planVideo(p: ProbeResult, opts: { redactions?: readonly Redactio
   // The longer of the stream's and the container's claim: either may be what the decoder will meet.
   const tooLong = durationProblem(Math.max(v.duration ?? 0, p.duration ?? 0));
   if (tooLong) throw new MediaError(tooLong);
+  // A frame this large would take a worker's memory in one decode; no ultrasound system makes one.
+  const tooBig = videoSizeProblem(v.width, v.height);
+  if (tooBig) throw new MediaError(tooBig);
   const source = displaySize(v);
   const reasons: string[] = [];
   if (v.codecName !== "h264") reasons.push(`video codec is ${v.codecName ?? "unknown"}, not H.264`);

@@ -6,7 +6,7 @@
 import sharp from "sharp";
 import type { Transducer } from "../../shared/catalogue";
 import { ffmpeg, fileUrl, MediaError } from "./exec";
-import { ffmpegTimeoutSeconds } from "./limits";
+import { ffmpegTimeoutSeconds, MAX_PIXELS } from "./limits";
 import { displaySize, parseRate, probe } from "./probe";
 import { detectMedia } from "./detect";
 
@@ -284,7 +284,7 @@ export async function videoFrames(file: string): Promise<{ frames: GreyFrame[]; 
 /** A still as one greyscale frame at analysis size (EXIF orientation applied). */
 export async function stillFrame(file: string): Promise<GreyFrame> {
   try {
-    const { data, info } = await sharp(file)
+    const { data, info } = await sharp(file, { limitInputPixels: MAX_PIXELS })
       .rotate()
       .flatten({ background: "#000" })
       .resize({ width: ANALYSIS_WIDTH, withoutEnlargement: true })

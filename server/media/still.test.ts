@@ -118,6 +118,30 @@ describe("processStill", () => {
     expect(thumb.width).toBe(320);
   });
 
+  it("refuses a 16000×16000 PNG from its header, before decoding it", async () => {
+    // Small on disk (one flat colour compresses well), 256 megapixels when decoded.
+    const bomb = f("bomb.png");
+    await sharp({ create: { width: 16000, height: 16000, channels: 3, background: "#000" } })
+      .png({ compressionLevel: 9 })
+      .toFile(bomb);
+    expect((await fs.stat(bomb)).size).toBeLessThan(2 * 1024 * 1024);
+    await expect(processStill(bomb, f("out-bomb"))).rejects.toThrow("The image is 16000×16000 pixels; the limit is 50 megapixels");
+    await expect(fs.readdir(f("out-bomb")).catch(() => [])).resolves.toEqual([]);
+  }, 60_000);
+
+  it("refuses a JPEG whose header claims 60000×60000 pixels", async () => {
+    // The frame header (SOF0/SOF2: FFC0/FFC2, length, precision, height, width; ITU-T T.81 B.2.2) rewritten.
+    const jpeg = await sharp(f("plain.png")).jpeg().toBuffer();
+    let sof = -1;
+    for (let i = 2; i < jpeg.length - 9 && sof < 0; i++) if (jpeg[i] === 0xff && (jpeg[i + 1] === 0xc0 || jpeg[i + 1] === 0xc2)) sof = i;
+    expect(sof).toBeGreaterThan(0);
+    jpeg.writeUInt16BE(60000, sof + 5);
+    jpeg.writeUInt16BE(60000, sof + 7);
+    await fs.writeFile(f("bomb.jpg"), jpeg);
+    expect((await sharp(f("bomb.jpg"), { limitInputPixels: false }).metadata()).width).toBe(60000);
+    await expect(processStill(f("bomb.jpg"), f("out-bomb-jpg"))).rejects.toThrow("The image is 60000×60000 pixels; the limit is 50 megapixels");
+  });
+
   it("refuses a file that is not an image with a readable error", async () => {
     await expect(processStill(f("notes.mp4"), f("out-bad"))).rejects.toThrow(/could not be read as an image/);
   });

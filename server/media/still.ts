@@ -4,6 +4,7 @@ import fs from "node:fs/promises";
 import path from "node:path";
 import sharp, { type OutputInfo } from "sharp";
 import { MediaError } from "./exec";
+import { imageSizeProblem, MAX_PIXELS } from "./limits";
 import { redactionPixels, type Redaction } from "./plan";
 
 export interface ProcessedStill {
@@ -14,6 +15,9 @@ export interface ProcessedStill {
 }
 
 export const THUMB_WIDTH = 320;
+
+/** sharp's own cap on decoded pixels, in case a header understates what the decoder meets. */
+const SHARP_INPUT = { limitInputPixels: MAX_PIXELS } as const;
 
 /** Paints the boxes black in a raw interleaved 8-bit buffer (alpha, when present, made opaque). */
 export function paintBlack(data: Buffer, width: number, height: number, channels: number, hasAlpha: boolean, boxes: readonly Redaction[]): void {
@@ -34,10 +38,15 @@ export async function processStill(input: string, outDir: string, opts: { redact
   let format: string | undefined;
   let decoded: { data: Buffer; info: OutputInfo };
   try {
-    format = (await sharp(input).metadata()).format;
+    // The header first (metadata() decodes no pixels; its own pixel check is off so that the
+    // refusal below can name the size): a small file can declare a frame of gigabytes.
+    const meta = await sharp(input, { limitInputPixels: false }).metadata();
+    format = meta.format;
     if (format !== "jpeg" && format !== "png") throw new MediaError(`The image is ${format ?? "of an unknown kind"}, not JPEG or PNG`);
+    const tooBig = imageSizeProblem(meta.width ?? 0, meta.height ?? 0);
+    if (tooBig) throw new MediaError(tooBig);
     // .rotate() with no angle applies the EXIF orientation; decoding to raw leaves all metadata behind.
-    decoded = await sharp(input).rotate().raw({ depth: "uchar" }).toBuffer({ resolveWithObject: true });
+    decoded = await sharp(input, SHARP_INPUT).rotate().raw({ depth: "uchar" }).toBuffer({ resolveWithObject: true });
   } catch (err) {
     if (err instanceof MediaError) throw err;
     throw new MediaError(`The file could not be read as an image: ${(err as Error).message}`);
