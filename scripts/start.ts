@@ -6,6 +6,7 @@ import { spawnSync } from "node:child_process";
 import { fileURLToPath } from "node:url";
 import { loadConfig } from "../server/config";
 import { createRuntime } from "../server/runtime";
+import { closeServer, listen, localUrl } from "../server/listen";
 import { seedDemoIfEmpty, DEMO_PASSWORD, DEMO_PROGRAMS } from "../seeds/demo";
 import { seedDemoExams } from "../seeds/demo-exams";
 import { seedLearningHistory } from "../seeds/demo-history";
@@ -74,16 +75,12 @@ try {
   const build = spawnSync(process.execPath, [path.join(root, "node_modules/vite/bin/vite.js"), "build", "--logLevel", "warn"], { cwd: root, stdio: "inherit" });
   if (build.status !== 0) throw new Error("The client build failed");
 
-  const server = runtime.app.listen(config.port, "0.0.0.0");
-  await new Promise<void>((resolve, reject) => {
-    server.once("listening", resolve);
-    server.once("error", reject);
-  });
-  cleanups.push(() => new Promise<void>((r) => server.close(() => r())));
+  const server = await listen(runtime.app, config);
+  cleanups.push(() => closeServer(server));
 
   const demo = DEMO_PROGRAMS.flatMap((p) => p.users.map((u) => `  ${u.email.padEnd(38)} ${u.roles.join(", ").padEnd(22)} ${p.name}`));
   console.log(`
-Soundings is running at http://127.0.0.1:${config.port}
+Soundings is running at ${localUrl(server)}${config.host === "127.0.0.1" ? "" : ` (HOST=${config.host})`}
 ${mail ? `Mail sent by the app: ${mail.webUrl} (fake mail server, SMTP on 127.0.0.1:${mail.smtpPort})\n` : ""}
 Demo sign-ins (password "${DEMO_PASSWORD}"):
 ${demo.join("\n")}

@@ -7,6 +7,8 @@ import type { S3Settings } from "./storage/s3";
 export interface Config {
   env: "development" | "test" | "production";
   port: number;
+  /** Address the HTTP server binds: loopback unless HOST says otherwise (e.g. 0.0.0.0). */
+  host: string;
   databaseUrl: string;
   jwtSecret: string;
   /** Lifetime of a session token, in seconds. */
@@ -69,6 +71,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   return {
     env: mode,
     port,
+    host: env.HOST || "127.0.0.1",
     databaseUrl: env.DATABASE_URL ?? "postgres://postgres@127.0.0.1:54329/soundings",
     jwtSecret: jwtSecret || DEV_JWT_SECRET,
     sessionTtlSeconds: int(env.SESSION_TTL_SECONDS, 12 * 3600, "SESSION_TTL_SECONDS"),
