@@ -40,6 +40,8 @@ export interface AppDeps {
   /** Where clip jobs are sent; the API never processes media itself. */
   jobs: Pick<JobQueue, "enqueueClip">;
   log?: (msg: unknown) => void;
+  /** Folder of the built client (default: CLIENT_DIST, else dist/). */
+  clientDir?: string;
 }
 
 const here = path.dirname(fileURLToPath(import.meta.url));
@@ -106,12 +108,33 @@ export function buildApp(deps: AppDeps) {
   app.use("/api", kit.router);
   app.use("/api", apiNotFound);
 
-  if (fs.existsSync(path.join(CLIENT_DIR, "index.html"))) {
-    app.use(express.static(CLIENT_DIR, { index: false, maxAge: "1h" }));
-    app.get("/{*splat}", (_req, res) => res.sendFile(path.join(CLIENT_DIR, "index.html")));
-  }
+  serveClient(app, deps.clientDir ?? CLIENT_DIR);
   app.use(errorHandler(log));
   return { app, routes: kit.routes };
+}
+
+/**
+ * The built client with history fallback. The folder is looked for on each request until
+ * index.html is there (a first start may build it after the app is made); until then every
+ * page answers 503 with a plain explanation instead of "Cannot GET /".
+ */
+function serveClient(app: express.Express, dir: string) {
+  const index = path.join(dir, "index.html");
+  const assets = express.static(dir, { index: false, maxAge: "1h" });
+  let built = false;
+  app.use((req, res, next) => {
+    built ||= fs.existsSync(index);
+    if (built) return assets(req, res, next);
+    if (req.method !== "GET" && req.method !== "HEAD") return next();
+    res
+      .status(503)
+      .set("Retry-After", "5")
+      .type("text/plain")
+      .send(
+        `Soundings: the web client is not built yet (no ${index}).\nnpm start builds it before serving; otherwise run \`npm run build\` and reload this page.\n`,
+      );
+  });
+  app.get("/{*splat}", (_req, res) => res.sendFile(index));
 }
 
 export type RouteContext = AppDeps & { log: (msg: unknown) => void };
