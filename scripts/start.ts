@@ -1,8 +1,11 @@
-// `npm start` after the installs: the private PostgreSQL cluster (unless DATABASE_URL is
-// set), migrations, the demo seed (once), the fake mail server, the client build, and the
-// app on PORT. Ctrl-C stops everything it started.
+// `npm start` after the installs: the client build, the private PostgreSQL cluster (unless
+// DATABASE_URL is set), migrations, the demo seed (once), the fake mail server, and the app
+// on HOST:PORT. Ctrl-C (or SIGTERM) stops everything it started, in order: the HTTP server,
+// the worker and job queue, the database pool and mailer, the fake mail server, and last
+// the cluster (which runs in a session of its own, so the terminal's Ctrl-C never reaches
+// it first). A Ctrl-C during start-up stops at the end of the current step.
 import path from "node:path";
-import { spawnSync } from "node:child_process";
+import { spawn } from "node:child_process";
 import { fileURLToPath } from "node:url";
 import { loadConfig } from "../server/config";
 import { createRuntime } from "../server/runtime";
@@ -14,27 +17,64 @@ import { chooseClusterPort, clusterDir, freePort, portInUse, startCluster, type 
 import { startFakeMail, type FakeMail } from "./lib/mail-server";
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
-const cleanups: (() => Promise<void> | void)[] = [];
-let stopping = false;
+/** What was started, stopped last-first. */
+const cleanups: { name: string; stop: () => Promise<void> | void }[] = [];
+let phase: "starting" | "running" | "stopping" = "starting";
+let stopAsked = false;
+
+class StopRequested extends Error {}
+/** Between start-up steps: gives up (quietly) once a stop was asked for. */
+function checkpoint() {
+  if (stopAsked) throw new StopRequested();
+}
 
 async function shutdown(code: number) {
-  if (stopping) return;
-  stopping = true;
+  if (phase === "stopping") return;
+  phase = "stopping";
   console.log("\nStopping Soundings…");
   for (const c of cleanups.reverse()) {
     try {
-      await c();
+      await c.stop();
     } catch (err) {
-      console.error(err);
+      console.error(`Could not stop ${c.name}: ${err instanceof Error ? err.message : err}`);
     }
   }
+  console.log("Stopped.");
   process.exit(code);
 }
-process.on("SIGINT", () => void shutdown(0));
-process.on("SIGTERM", () => void shutdown(0));
+
+function onSignal() {
+  if (phase === "running") void shutdown(0);
+  else if (phase === "starting" && !stopAsked) {
+    stopAsked = true;
+    console.log("\nStopping once the current start-up step is done…");
+  }
+}
+process.on("SIGINT", onSignal);
+process.on("SIGTERM", onSignal);
+
+/** `vite build` into CLIENT_DIST (or dist/), as a child so signals are still handled meanwhile. */
+function buildClient(env: NodeJS.ProcessEnv): Promise<void> {
+  return new Promise((resolve, reject) => {
+    const child = spawn(process.execPath, [path.join(root, "node_modules/vite/bin/vite.js"), "build", "--logLevel", "warn"], {
+      cwd: root,
+      env,
+      stdio: "inherit",
+    });
+    child.once("error", reject);
+    child.once("exit", (code, signal) =>
+      code === 0 ? resolve() : reject(new Error(signal ? `The client build was stopped (${signal})` : "The client build failed")),
+    );
+  });
+}
 
 try {
   const env = { ...process.env };
+  // Built before the app is made, so the first start on a fresh clone serves the client.
+  console.log("Building the client…");
+  await buildClient(env);
+  checkpoint();
+
   let cluster: Cluster | undefined;
   if (!env.DATABASE_URL) {
     const dir = clusterDir(path.resolve(root, env.PG_DIR || path.join(".data", "postgres")));
@@ -44,10 +84,11 @@ try {
     const { port, note } = await chooseClusterPort(dir, explicit);
     if (note) console.log(`PostgreSQL: ${note}.`);
     cluster = startCluster(dir, port);
-    cleanups.push(() => cluster!.stop());
+    cleanups.push({ name: "PostgreSQL", stop: () => cluster!.stop() });
     env.DATABASE_URL = cluster.url();
     console.log(`PostgreSQL: private cluster on 127.0.0.1:${cluster.port} (data in ${cluster.dataDir})`);
   }
+  checkpoint();
 
   let mail: FakeMail | undefined;
   if (!env.SMTP_HOST) {
@@ -55,28 +96,31 @@ try {
     const webPort = Number(env.MAIL_WEB_PORT ?? 1080);
     const ports = [(await portInUse(smtpPort)) ? await freePort() : smtpPort, (await portInUse(webPort)) ? await freePort() : webPort];
     mail = await startFakeMail(ports[0], ports[1]);
-    cleanups.push(() => mail!.close());
+    cleanups.push({ name: "the fake mail server", stop: () => mail!.close() });
     env.SMTP_HOST = "127.0.0.1";
     env.SMTP_PORT = String(mail.smtpPort);
   }
+  checkpoint();
 
   const config = loadConfig(env);
   const runtime = await createRuntime(config, { worker: config.jobs.runWorker });
-  cleanups.push(() => runtime.close());
+  cleanups.push({ name: "the app (worker, job queue, database pool, mailer)", stop: () => runtime.close() });
+  checkpoint();
   if (await seedDemoIfEmpty(runtime.db)) console.log("Seeded the demo programs.");
+  checkpoint();
   if (env.SEED_DEMO_EXAMS !== "false") {
     const deps = { db: runtime.db, storage: runtime.storage, jobs: runtime.queue };
     const libraryDir = path.join(root, ".data", "demo-clips");
-    if ((await seedDemoExams(deps, { libraryDir, log: (s) => console.log(s) })) > 0)
+    if ((await seedDemoExams(deps, { libraryDir, log: (s) => console.log(s) })) > 0) {
+      checkpoint();
       await seedLearningHistory(deps, { libraryDir, log: (s) => console.log(s) });
+    }
   }
-
-  console.log("Building the client…");
-  const build = spawnSync(process.execPath, [path.join(root, "node_modules/vite/bin/vite.js"), "build", "--logLevel", "warn"], { cwd: root, stdio: "inherit" });
-  if (build.status !== 0) throw new Error("The client build failed");
+  checkpoint();
 
   const server = await listen(runtime.app, config);
-  cleanups.push(() => closeServer(server));
+  cleanups.push({ name: "the HTTP server", stop: () => closeServer(server) });
+  checkpoint();
 
   const demo = DEMO_PROGRAMS.flatMap((p) => p.users.map((u) => `  ${u.email.padEnd(38)} ${u.roles.join(", ").padEnd(22)} ${p.name}`));
   console.log(`
@@ -86,7 +130,12 @@ Demo sign-ins (password "${DEMO_PASSWORD}"):
 ${demo.join("\n")}
 
 Press Ctrl-C to stop.`);
+  phase = "running";
 } catch (err) {
-  console.error(err instanceof Error ? err.message : err);
-  await shutdown(1);
+  // A step that failed because of the stop (a build or ffmpeg run ended by Ctrl-C) is no error.
+  if (stopAsked || err instanceof StopRequested) await shutdown(0);
+  else {
+    console.error(err instanceof Error ? err.message : err);
+    await shutdown(1);
+  }
 }
