@@ -29,8 +29,15 @@ const failures: string[] = [];
 const cluster = await startTemporaryCluster();
 const mail = await startFakeMail(await freePort(), await freePort());
 let server: ReturnType<typeof spawn> | undefined;
+// The app server stops (closing its pools) before the cluster does, else its job queue and
+// pool report the connections the cluster's shutdown cuts.
 const cleanup = async () => {
-  server?.kill("SIGTERM");
+  if (server && server.exitCode === null && server.signalCode === null) {
+    const exited = new Promise((r) => server!.once("exit", r));
+    server.kill("SIGTERM");
+    const timer = new Promise((r) => setTimeout(r, 20_000).unref());
+    if ((await Promise.race([exited.then(() => true), timer.then(() => false)])) === false) server.kill("SIGKILL");
+  }
   await mail.close();
   cluster.destroy();
 };

@@ -9,12 +9,22 @@ const here = path.dirname(fileURLToPath(import.meta.url));
 /** Folder of the timestamped migrations. */
 export const MIGRATIONS_DIR = path.resolve(here, "../../migrations");
 
+// Knex's warnings when a connection fails or was cut (the database stopped or restarted).
+// The failure reaches the query that needed the connection as an error of its own, so
+// printing it again here is only noise.
+const CONNECTION_WARNING = /^(Connection Error|Acquire connection error):/;
+
 /** Opens a pool to the database at `url`. */
 export function createDb(url: string, poolMax = 10): Db {
   return knex({
     client: "pg",
     connection: { connectionString: url, application_name: "soundings" },
     pool: { min: 0, max: poolMax },
+    log: {
+      warn: (message: string) => {
+        if (!CONNECTION_WARNING.test(message)) console.warn(message);
+      },
+    },
     migrations: { directory: MIGRATIONS_DIR, loadExtensions: [".ts"], tableName: "knex_migrations" },
   });
 }

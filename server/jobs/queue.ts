@@ -19,6 +19,17 @@ export interface JobQueue {
   stop(): Promise<void>;
 }
 
+const CONNECTION_CODES = new Set(["ECONNREFUSED", "ECONNRESET", "EPIPE", "ETIMEDOUT", "57P01", "57P02", "57P03"]);
+
+/** True for errors that mean the database went away (stopped, restarted, unreachable). */
+export function isConnectionLoss(err: unknown): boolean {
+  const e = err as { code?: unknown; message?: unknown } | null | undefined;
+  if (!e || typeof e !== "object") return false;
+  // SQLSTATE class 08 is "connection exception"; 57P01-03 are the server shutting down.
+  if (typeof e.code === "string" && (CONNECTION_CODES.has(e.code) || e.code.startsWith("08"))) return true;
+  return typeof e.message === "string" && /Connection terminated|terminating connection|connection error/i.test(e.message);
+}
+
 /** Connects to the queue schema (created on first start) and makes sure the queues exist. */
 export async function createJobQueue(config: Config, opts: { supervise?: boolean; schedule?: boolean; log?: (e: unknown) => void } = {}): Promise<JobQueue> {
   const boss = new PgBoss({
@@ -31,7 +42,18 @@ export async function createJobQueue(config: Config, opts: { supervise?: boolean
     supervise: opts.supervise ?? true,
     maintenanceIntervalSeconds: 30,
   });
-  boss.on("error", (e) => (opts.log ?? console.error)(e));
+  const log = opts.log ?? ((e: unknown) => console.error(e));
+  let stopping = false;
+  let lossSaidAt = 0;
+  // pg-boss polls and reports every failed poll: a lost database is said once a minute in
+  // one line (it reconnects by itself), and not at all while the queue is being stopped.
+  boss.on("error", (e) => {
+    if (!isConnectionLoss(e)) return log(e);
+    if (stopping || Date.now() - lossSaidAt < 60_000) return;
+    lossSaidAt = Date.now();
+    const code = (e as { code?: unknown }).code;
+    log(`Job queue: lost its database connection${typeof code === "string" ? ` (${code})` : ""}; retrying`);
+  });
   await boss.start();
   const retry = {
     retryLimit: config.jobs.retryLimit,
@@ -46,6 +68,9 @@ export async function createJobQueue(config: Config, opts: { supervise?: boolean
     async enqueueClip(job) {
       await boss.send(CLIP_QUEUE, job, retry);
     },
-    stop: () => boss.stop({ graceful: true, timeout: 10_000, wait: true }),
+    stop: () => {
+      stopping = true;
+      return boss.stop({ graceful: true, timeout: 10_000, wait: true });
+    },
   };
 }

@@ -11,7 +11,7 @@ import os from "node:os";
 
 const cleanups: (() => unknown)[] = [];
 afterAll(async () => {
-  for (const c of cleanups) await c();
+  for (const c of cleanups.reverse()) await c(); // the pool closes before its cluster goes
 });
 
 describe("GET /api/health", () => {
