@@ -24,7 +24,13 @@ if [ ${#missing[@]} -gt 0 ]; then
 fi
 
 # npm packages: install when absent or when the lockfile changed since the last install.
-if [ ! -f node_modules/.package-lock.json ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
+# A node_modules that is a link is an install shared with other checkouts (git worktrees):
+# `npm ci` would empty the folder it points to under everyone's feet, so it is left alone.
+if [ -L node_modules ]; then
+  if [ ! -f node_modules/.package-lock.json ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
+    echo "node_modules is a link to a shared install ($(readlink node_modules)): not reinstalling; run npm ci where it lives if packages are missing"
+  fi
+elif [ ! -f node_modules/.package-lock.json ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
   echo "Installing npm packages (npm ci)"
   npm ci --no-audit --no-fund --loglevel=error
 fi
