@@ -7,7 +7,6 @@ import { startTemporaryCluster } from "../scripts/lib/postgres";
 import { createDb, migrate } from "../server/db/knex";
 import { loadConfig } from "../server/config";
 import { buildApp } from "../server/app";
-import { createMailer } from "../server/mail/mailer";
 import { createLocalStorage } from "../server/storage/local";
 import { seedBench } from "../seeds/bench";
 import { createSession } from "../server/repositories/sessions";
@@ -29,7 +28,6 @@ try {
   const { app } = buildApp({
     db,
     config,
-    mailer: createMailer(config.smtp),
     storage: createLocalStorage(os.tmpdir()),
     jobs: { enqueueClip: async () => {} },
     log: console.error,

@@ -9,7 +9,6 @@ import { startTemporaryCluster } from "../scripts/lib/postgres";
 import { createDb, migrate } from "../server/db/knex";
 import { loadConfig } from "../server/config";
 import { buildApp } from "../server/app";
-import { createMailer } from "../server/mail/mailer";
 import { seedDemoIfEmpty, DEMO_PASSWORD } from "../seeds/demo";
 
 const REQUESTS = 2000;
@@ -24,7 +23,6 @@ try {
   const { app } = buildApp({
     db,
     config,
-    mailer: createMailer(config.smtp),
     storage: createLocalStorage(os.tmpdir()),
     jobs: { enqueueClip: async () => {} },
     log: () => {},

@@ -8,7 +8,6 @@ import { startTemporaryCluster } from "../scripts/lib/postgres";
 import { createDb, migrate } from "../server/db/knex";
 import { loadConfig } from "../server/config";
 import { buildApp } from "../server/app";
-import { createMailer } from "../server/mail/mailer";
 import { createLocalStorage } from "../server/storage/local";
 import { insertCatalogue } from "../server/repositories/applications";
 import { ensureDefaultRubric } from "../server/repositories/rubrics";
@@ -70,7 +69,6 @@ try {
   const { app: server } = buildApp({
     db,
     config,
-    mailer: createMailer(config.smtp),
     storage: createLocalStorage(os.tmpdir()),
     jobs: { enqueueClip: async () => {} },
     log: () => {},

@@ -9,7 +9,6 @@ import { fileURLToPath } from "node:url";
 import { OpenAPIRegistry, OpenApiGeneratorV31 } from "@asteasolutions/zod-to-openapi";
 import type { Db } from "./db/knex";
 import type { Config } from "./config";
-import type { Mailer } from "./mail/mailer";
 import { apiNotFound, errorHandler } from "./http/errors";
 import type { RouteKit } from "./http/route";
 import { createAuthenticate } from "./auth/passport";
@@ -35,7 +34,6 @@ import type { JobQueue } from "./jobs/queue";
 export interface AppDeps {
   db: Db;
   config: Config;
-  mailer: Mailer;
   storage: Storage;
   /** Where clip jobs are sent; the API never processes media itself. */
   jobs: Pick<JobQueue, "enqueueClip">;

@@ -3,6 +3,7 @@
 import path from "node:path";
 import os from "node:os";
 import type { S3Settings } from "./storage/s3";
+import type { OutboxSettings } from "./mail/outbox";
 
 export interface Config {
   env: "development" | "test" | "production";
@@ -16,6 +17,8 @@ export interface Config {
   cookieSecure: boolean;
   appUrl: string;
   smtp: { host: string; port: number; secure: boolean; user?: string; pass?: string; from: string };
+  /** How the mail outbox's sender polls and retries. */
+  mailOutbox: OutboxSettings;
   storageDir: string;
   storage: { driver: "local" | "s3"; s3?: S3Settings };
   uploads: { maxFileBytes: number; maxClipsPerExam: number; tempDir: string };
@@ -84,6 +87,13 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
       user: env.SMTP_USER || undefined,
       pass: env.SMTP_PASS || undefined,
       from: env.MAIL_FROM ?? "Soundings <no-reply@soundings.example>",
+    },
+    mailOutbox: {
+      pollMs: int(env.MAIL_POLL_MS, 2000, "MAIL_POLL_MS"),
+      retryBaseSeconds: int(env.MAIL_RETRY_BASE_SECONDS, 30, "MAIL_RETRY_BASE_SECONDS"),
+      retryMaxSeconds: int(env.MAIL_RETRY_MAX_SECONDS, 3600, "MAIL_RETRY_MAX_SECONDS"),
+      maxAttempts: int(env.MAIL_MAX_ATTEMPTS, 25, "MAIL_MAX_ATTEMPTS"),
+      leaseSeconds: 120,
     },
     storageDir: path.resolve(env.STORAGE_DIR ?? "storage"),
     storage: storageSettings(env),

@@ -1,8 +1,10 @@
 // Everything a running Soundings process needs, built from configuration: database pool,
-// storage, job queue, mailer, the app, and (optionally) an in-process media worker.
+// storage, job queue, the app, and (optionally) an in-process worker: media jobs, the
+// reviewer digest and the mail outbox's sender.
 import type { Config } from "./config";
 import { createDb, migrate } from "./db/knex";
 import { createMailer } from "./mail/mailer";
+import { startMailSender } from "./mail/outbox";
 import { createStorage } from "./storage";
 import { createJobQueue, DIGEST_QUEUE } from "./jobs/queue";
 import { sendOverdueDigests } from "./services/notify";
@@ -16,13 +18,14 @@ export async function createRuntime(config: Config, opts: { worker: boolean; mig
   const queue = await createJobQueue(config, { schedule: opts.worker });
   const worker = opts.worker ? await startMediaWorker({ db, storage, config, queue }) : undefined;
   const mailer = createMailer(config.smtp);
+  const sender = opts.worker ? startMailSender(db, mailer, config.mailOutbox, (e) => console.error(e)) : undefined;
   if (opts.worker) {
     await queue.boss.schedule(DIGEST_QUEUE, config.digestCron, {}, { tz: "UTC" });
     await queue.boss.work(DIGEST_QUEUE, async () => {
-      await sendOverdueDigests(db, mailer, config.appUrl);
+      await sendOverdueDigests(db, config.appUrl);
     });
   }
-  const { app } = buildApp({ db, config, mailer, storage, jobs: queue });
+  const { app } = buildApp({ db, config, storage, jobs: queue });
   return {
     db,
     app,
@@ -31,6 +34,7 @@ export async function createRuntime(config: Config, opts: { worker: boolean; mig
     async close() {
       await worker?.stop();
       await queue.stop();
+      await sender?.stop();
       mailer.close();
       await db.destroy();
     },

@@ -1,18 +1,24 @@
 // `npm run worker`: a media worker process on its own, sharing the PostgreSQL job queue
-// with any number of API servers and other workers.
+// (and the mail outbox, which it also delivers) with any number of API servers and other workers.
 import { loadConfig } from "./config";
 import { createDb } from "./db/knex";
 import { createStorage } from "./storage";
 import { createJobQueue } from "./jobs/queue";
 import { startMediaWorker } from "./jobs/worker";
+import { createMailer } from "./mail/mailer";
+import { startMailSender } from "./mail/outbox";
 
 const config = loadConfig();
 const db = createDb(config.databaseUrl, 4);
 const queue = await createJobQueue(config);
 const worker = await startMediaWorker({ db, storage: createStorage(config), config, queue });
-console.log("Soundings media worker: waiting for clip jobs");
+const mailer = createMailer(config.smtp);
+const sender = startMailSender(db, mailer, config.mailOutbox, (e) => console.error(e));
+console.log("Soundings media worker: waiting for clip jobs and outgoing mail");
 const stop = async () => {
   await worker.stop();
+  await sender.stop();
+  mailer.close();
   await queue.stop();
   await db.destroy();
   process.exit(0);

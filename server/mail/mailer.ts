@@ -1,5 +1,6 @@
 // Outgoing e-mail over SMTP (nodemailer). By default the local fake mail server that
-// `npm start` runs; any SMTP server by configuration.
+// `npm start` runs; any SMTP server by configuration. Only the outbox's sender
+// (server/mail/outbox.ts) talks SMTP; everything else queues mail there.
 import nodemailer from "nodemailer";
 import type { Config } from "../config";
 

@@ -1,19 +1,17 @@
-// Telling people: in-app notifications (written in the caller's transaction) and e-mails
-// (sent after commit, so a rolled-back change never mails anyone).
+// Telling people: in-app notifications and e-mails, both written in the caller's
+// transaction (the e-mail into the outbox, delivered once the change commits; a
+// rolled-back change never mails anyone).
 import type { Knex } from "knex";
 import type { Db } from "../db/knex";
-import type { Mailer } from "../mail/mailer";
+import { queueMail } from "../mail/outbox";
 import { feedbackReadyMail, overdueDigestMail, replyMail } from "../mail/templates";
 
-export type AfterCommit = () => Promise<void>;
-
-/** The sonographer's feedback is final: a notification now, an e-mail after commit. */
+/** The sonographer's feedback is final: a notification and an e-mail. */
 export async function feedbackReady(
   trx: Knex.Transaction,
-  mailer: Mailer,
   appUrl: string,
   exam: { id: string; program_id: string; sonographer_id: string; code: string },
-): Promise<AfterCommit> {
+): Promise<void> {
   const app = await trx("exams as e").join("applications as a", "a.id", "e.application_id").where("e.id", exam.id).first("a.name");
   const user = await trx("users").where("id", exam.sonographer_id).first("email", "name");
   await trx("notifications").insert({
@@ -23,18 +21,15 @@ export async function feedbackReady(
     exam_id: exam.id,
     body: `Feedback on your ${app.name} exam ${exam.code} is ready.`,
   });
-  return () =>
-    mailer.send(feedbackReadyMail({ to: user.email, name: user.name, application: app.name, code: exam.code, link: `${appUrl}/feedback/${exam.id}` }));
+  await queueMail(
+    trx,
+    feedbackReadyMail({ to: user.email, name: user.name, application: app.name, code: exam.code, link: `${appUrl}/feedback/${exam.id}` }),
+    exam.program_id,
+  );
 }
 
 /** A sonographer's question reaches every reviewer who read the exam. */
-export async function replyPosted(
-  trx: Knex.Transaction,
-  mailer: Mailer,
-  appUrl: string,
-  exam: { id: string; program_id: string; code: string },
-  body: string,
-): Promise<AfterCommit> {
+export async function replyPosted(trx: Knex.Transaction, appUrl: string, exam: { id: string; program_id: string; code: string }, body: string): Promise<void> {
   const reviewers = await trx("reviews as r").join("users as u", "u.id", "r.reviewer_id").where("r.exam_id", exam.id).distinct("u.id", "u.email", "u.name");
   if (reviewers.length) {
     await trx("notifications").insert(
@@ -47,15 +42,15 @@ export async function replyPosted(
       })),
     );
   }
-  return async () => {
-    await Promise.all(
-      reviewers.map((r) => mailer.send(replyMail({ to: r.email, name: r.name, code: exam.code, body, link: `${appUrl}/reviews/exams/${exam.id}` }))),
-    );
-  };
+  await queueMail(
+    trx,
+    reviewers.map((r) => replyMail({ to: r.email, name: r.name, code: exam.code, body, link: `${appUrl}/reviews/exams/${exam.id}` })),
+    exam.program_id,
+  );
 }
 
-/** E-mails each reviewer of each program a digest of primary/second reads waiting past the turnaround target. */
-export async function sendOverdueDigests(db: Db, mailer: Mailer, appUrl: string): Promise<number> {
+/** Queues for each reviewer of each program a digest of primary/second reads waiting past the turnaround target. */
+export async function sendOverdueDigests(db: Db, appUrl: string): Promise<number> {
   const programs = await db("programs").select("id", "name", "settings");
   let sent = 0;
   for (const p of programs) {
@@ -77,24 +72,13 @@ export async function sendOverdueDigests(db: Db, mailer: Mailer, appUrl: string)
       .whereNull("m.deactivated_at")
       .whereRaw(`'reviewer' = ANY(m.roles)`)
       .select("u.email", "u.name");
-    for (const r of reviewers) {
-      await mailer.send(
-        overdueDigestMail({
-          to: r.email,
-          name: r.name,
-          programName: p.name,
-          hours,
-          rows: overdue.map((o) => ({ application: o.name, count: Number(o.count) })),
-          link: `${appUrl}/queue`,
-        }),
-      );
-      sent++;
-    }
+    const rows = overdue.map((o) => ({ application: o.name, count: Number(o.count) }));
+    await queueMail(
+      db,
+      reviewers.map((r) => overdueDigestMail({ to: r.email, name: r.name, programName: p.name, hours, rows, link: `${appUrl}/queue` })),
+      p.id,
+    );
+    sent += reviewers.length;
   }
   return sent;
-}
-
-/** Runs the after-commit e-mails; a mail failure is logged, never undoes the saved change. */
-export async function runAfterCommit(tasks: AfterCommit[], log: (e: unknown) => void) {
-  for (const t of tasks) await t().catch(log);
 }

@@ -3,7 +3,6 @@ import { afterAll, describe, expect, it } from "vitest";
 import request from "supertest";
 import { startTemporaryCluster } from "../../scripts/lib/postgres";
 import { createDb } from "../../server/db/knex";
-import { createMailer } from "../../server/mail/mailer";
 import { buildApp } from "../../server/app";
 import { loadConfig } from "../../server/config";
 import { createLocalStorage } from "../../server/storage/local";
@@ -25,7 +24,6 @@ describe("GET /api/health", () => {
     const { app } = buildApp({
       db,
       config,
-      mailer: createMailer(config.smtp),
       storage: createLocalStorage(os.tmpdir()),
       jobs: { enqueueClip: async () => {} },
       log: () => {},

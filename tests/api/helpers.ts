@@ -7,6 +7,7 @@ import request from "supertest";
 import { loadConfig, type Config } from "../../server/config";
 import { createDb, type Db } from "../../server/db/knex";
 import { createMailer } from "../../server/mail/mailer";
+import { startMailSender } from "../../server/mail/outbox";
 import { buildApp } from "../../server/app";
 import { hashPassword } from "../../server/auth/passwords";
 import { createSession } from "../../server/repositories/sessions";
@@ -37,12 +38,14 @@ export function makeKit(env: Record<string, string> = {}): TestKit {
   if (!process.env.DATABASE_URL) throw new Error("DATABASE_URL is not set: run the tests through `npm test`");
   const config = loadConfig({ ...process.env, NODE_ENV: "test", ...env });
   const db = createDb(config.databaseUrl, 4);
+  // Each kit delivers the outbox like a worker would (any kit may send any file's mail).
   const mailer = createMailer(config.smtp);
+  const sender = startMailSender(db, mailer, { ...config.mailOutbox, pollMs: Math.min(config.mailOutbox.pollMs, 500) }, () => {});
   const storage = createStorage(config);
   let started: Promise<JobQueue> | undefined;
   const queue = () => (started ??= createJobQueue(config, { supervise: false, log: () => {} }));
   const jobs = { enqueueClip: async (job: { clipId: string; version: number }) => (await queue()).enqueueClip(job) };
-  const { app, routes } = buildApp({ db, config, mailer, storage, jobs, log: () => {} });
+  const { app, routes } = buildApp({ db, config, storage, jobs, log: () => {} });
   return {
     app,
     routes,
@@ -51,6 +54,7 @@ export function makeKit(env: Record<string, string> = {}): TestKit {
     storage,
     queue,
     close: async () => {
+      await sender.stop();
       mailer.close();
       if (started) await (await started).stop();
       await db.destroy();

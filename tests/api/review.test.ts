@@ -5,7 +5,6 @@ import request from "supertest";
 import { makeExam, makeKit, makeMember, makeProgram, mailsFor, tokenFor, waitForMail, type TestKit, type TestMember } from "./helpers";
 import { queueSubmittedExam, sampledForSecondRead } from "../../server/services/queue";
 import { sendOverdueDigests } from "../../server/services/notify";
-import { createMailer } from "../../server/mail/mailer";
 
 let kit: TestKit;
 beforeAll(() => {
@@ -407,12 +406,7 @@ describe("drafts, replies and digests", () => {
       .db("assignments")
       .where("exam_id", exam.id)
       .update({ due_at: new Date(Date.now() - 80 * 3600_000) });
-    const mailer = createMailer(kit.config.smtp);
-    try {
-      await sendOverdueDigests(kit.db, mailer, "http://127.0.0.1");
-    } finally {
-      mailer.close();
-    }
+    await sendOverdueDigests(kit.db, "http://127.0.0.1");
     const mail = await waitForMail(s.reviewers[0].email, "waiting past the turnaround target");
     expect(mail.text).toMatch(/Trauma \(FAST \/ eFAST\): 1/);
     expect(await mailsFor(s.sonographer.email)).toEqual([]);

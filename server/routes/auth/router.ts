@@ -26,6 +26,7 @@ import { revokeSessions } from "../../repositories/sessions";
 import { audit } from "../../repositories/audit";
 import { openSession } from "../../services/sign-in";
 import { passwordResetMail } from "../../mail/templates";
+import { queueMail } from "../../mail/outbox";
 
 const RESET_MINUTES = 60;
 const invalidCredentials = () => new HttpError(401, "invalid_credentials", "E-mail or password is incorrect");
@@ -43,7 +44,7 @@ function limiter(windowMs: number, limit: number, key: (req: Parameters<RequestH
 
 const bodyEmail = (req: { body?: { email?: unknown } }) => (typeof req.body?.email === "string" ? req.body.email.trim().toLowerCase() : "");
 
-export function registerAuthRoutes(kit: RouteKit, { db, config, mailer, log }: RouteContext) {
+export function registerAuthRoutes(kit: RouteKit, { db, config }: RouteContext) {
   // Counted per address and client, failures only: a right password resets nothing, but
   // once the limit is reached even a right password waits out the window.
   const loginLimiter = limiter(config.loginRateLimit.windowMs, config.loginRateLimit.max, bodyEmail);
@@ -129,14 +130,16 @@ export function registerAuthRoutes(kit: RouteKit, { db, config, mailer, log }: R
       const memberships = user ? await activeMemberships(db, user.id) : [];
       if (user && memberships.length > 0) {
         const { token, hash } = newEmailToken();
-        await db("password_resets").insert({
-          user_id: user.id,
-          token_hash: hash,
-          expires_at: db.raw(`now() + make_interval(mins => ?)`, [RESET_MINUTES]),
-        });
-        // Sent after answering, so the response time does not tell whether the address exists.
+        // Delivered by the outbox's sender, so the response time does not tell whether the address exists.
         const link = `${config.appUrl}/reset-password?token=${token}`;
-        mailer.send(passwordResetMail({ to: user.email, link, expiresMinutes: RESET_MINUTES })).catch(log);
+        await db.transaction(async (trx) => {
+          await trx("password_resets").insert({
+            user_id: user.id,
+            token_hash: hash,
+            expires_at: trx.raw(`now() + make_interval(mins => ?)`, [RESET_MINUTES]),
+          });
+          await queueMail(trx, passwordResetMail({ to: user.email, link, expiresMinutes: RESET_MINUTES }));
+        });
       }
       res.status(202).json({ ok: true });
     },

@@ -12,11 +12,11 @@ import { getRubric } from "../../repositories/rubrics";
 import { getSettings } from "../../repositories/settings";
 import { audit } from "../../repositories/audit";
 import { assertCanView } from "../../policies/exam";
-import { replyPosted, runAfterCommit } from "../../services/notify";
+import { replyPosted } from "../../services/notify";
 import type { AuthUser } from "../../auth/types";
 import type { Feedback } from "../../../shared/schemas/feedback";
 
-export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log }: RouteContext) {
+export function registerFeedbackRoutes(kit: RouteKit, { db, config }: RouteContext) {
   const reviewedOf = (programId: string, sonographerId: string) =>
     db("exams as e")
       .join("applications as ap", "ap.id", "e.application_id")
@@ -203,7 +203,7 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log 
       const exam = await db("exams").where({ id: params.id, program_id: user.programId }).first("id", "program_id", "sonographer_id", "status", "code");
       const access = await assertCanView(db, user, exam);
       if (exam!.status !== "reviewed") throw new HttpError(409, "not_reviewed", "Questions open once the feedback is final");
-      const after = await db.transaction(async (trx) => {
+      const posted = await db.transaction(async (trx) => {
         const [m] = await trx("feedback_messages")
           .insert({ program_id: user.programId, exam_id: exam!.id, author_id: user.id, body: body.body })
           .returning(["id", "created_at"]);
@@ -215,7 +215,10 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log 
           entityId: exam!.id,
           ip: req.ip,
         });
-        if (access === "owner") return { id: m.id, task: await replyPosted(trx, mailer, config.appUrl, exam!, body.body) };
+        if (access === "owner") {
+          await replyPosted(trx, config.appUrl, exam!, body.body);
+          return { id: m.id };
+        }
         await trx("notifications").insert({
           program_id: user.programId,
           user_id: exam!.sonographer_id,
@@ -223,10 +226,9 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config, mailer, log 
           exam_id: exam!.id,
           body: `An answer about exam ${exam!.code}.`,
         });
-        return { id: m.id, task: null };
+        return { id: m.id };
       });
-      if (after.task) await runAfterCommit([after.task], log);
-      res.status(201).json({ id: after.id });
+      res.status(201).json({ id: posted.id });
     },
   });
 

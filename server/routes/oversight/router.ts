@@ -18,9 +18,9 @@ import { getRubric } from "../../repositories/rubrics";
 import { getSettings, updateSettings } from "../../repositories/settings";
 import { audit } from "../../repositories/audit";
 import { assertValidReview, settleExam } from "../../services/reviews";
-import { feedbackReady, runAfterCommit, type AfterCommit } from "../../services/notify";
+import { feedbackReady } from "../../services/notify";
 
-export function registerOversightRoutes(kit: RouteKit, { db, config, mailer, log }: RouteContext) {
+export function registerOversightRoutes(kit: RouteKit, { db, config }: RouteContext) {
   defineRoute(kit, {
     method: "get",
     path: "/adjudications",
@@ -88,7 +88,6 @@ export function registerOversightRoutes(kit: RouteKit, { db, config, mailer, log
     body: adjudicateSchema,
     responses: { 200: { description: "Final result set" }, 409: { description: "Not in adjudication" } },
     handler: async ({ req, user, params, body }) => {
-      const after: AfterCommit[] = [];
       const result = await db.transaction(async (trx) => {
         const a = await trx("assignments")
           .where({ exam_id: params.id, program_id: user.programId, kind: "adjudication" })
@@ -122,10 +121,9 @@ export function registerOversightRoutes(kit: RouteKit, { db, config, mailer, log
           ip: req.ip,
           details: { scores: body.scores, note: body.note },
         });
-        after.push(await feedbackReady(trx, mailer, config.appUrl, exam));
+        await feedbackReady(trx, config.appUrl, exam);
         return settled;
       });
-      await runAfterCommit(after, log);
       return { examId: params.id, credit: result.credit, significantDisagreement: result.significant };
     },
   });

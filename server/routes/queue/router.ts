@@ -8,7 +8,7 @@ import { idParamsSchema } from "../../../shared/schemas/common";
 import { queueNextSchema, reassignSchema, reviewDraftSchema, submitReviewSchema } from "../../../shared/schemas/reviews";
 import { claimable, claimNext } from "../../services/queue";
 import { assertValidReview, recordReview } from "../../services/reviews";
-import { feedbackReady, runAfterCommit, type AfterCommit } from "../../services/notify";
+import { feedbackReady } from "../../services/notify";
 import { examContext, examDetail } from "../../repositories/exams";
 import { getRubric } from "../../repositories/rubrics";
 import { getSettings } from "../../repositories/settings";
@@ -29,7 +29,7 @@ async function ownClaim(db: Db | Knex.Transaction, user: AuthUser, id: string, l
   return a;
 }
 
-export function registerQueueRoutes(kit: RouteKit, { db, config, mailer, log }: RouteContext) {
+export function registerQueueRoutes(kit: RouteKit, { db, config }: RouteContext) {
   /** Everything the scoring workspace needs for one assignment. */
   async function workspace(user: AuthUser, assignmentId: string) {
     const a = await db("assignments").where({ id: assignmentId, program_id: user.programId }).first();
@@ -209,7 +209,6 @@ export function registerQueueRoutes(kit: RouteKit, { db, config, mailer, log }: 
     body: submitReviewSchema,
     responses: { 201: { description: "Submitted; the exam's state after it" }, 409: { description: "Already submitted or no longer held" } },
     handler: async ({ req, res, user, params, body }) => {
-      const after: AfterCommit[] = [];
       const result = await db.transaction(async (trx) => {
         const a = await ownClaim(trx, user, params.id, true);
         if (a.kind === "adjudication") throw new HttpError(409, "use_adjudication", "Set the final scores of an adjudication from the adjudication screen");
@@ -229,10 +228,9 @@ export function registerQueueRoutes(kit: RouteKit, { db, config, mailer, log }: 
         assertValidReview(rubric, exam, body.scores, body.reads);
         const settings = await getSettings(trx, user.programId);
         const { review, examState } = await recordReview(trx, { reviewerId: user.id, assignment: a, exam, rubric, body, settings, ip: req.ip });
-        if (examState === "final") after.push(await feedbackReady(trx, mailer, config.appUrl, exam));
+        if (examState === "final") await feedbackReady(trx, config.appUrl, exam);
         return { review: { id: review.id, submittedAt: review.submitted_at.toISOString(), credit: review.credit }, examState };
       });
-      await runAfterCommit(after, log);
       res.status(201).json(result);
     },
   });

@@ -11,6 +11,7 @@ import { revokeSessions } from "../../repositories/sessions";
 import { audit } from "../../repositories/audit";
 import { newEmailToken } from "../../auth/tokens";
 import { invitationMail } from "../../mail/templates";
+import { queueMail } from "../../mail/outbox";
 import { assertKeepsAnAdmin, assertNotSelf, losesARole } from "../../policies/membership";
 import type { Role } from "../../../shared/roles";
 
@@ -36,7 +37,7 @@ const presentInvitation = (r: {
   revokedAt: r.revoked_at?.toISOString() ?? null,
 });
 
-export function registerUserRoutes(kit: RouteKit, { db, config, mailer }: RouteContext) {
+export function registerUserRoutes(kit: RouteKit, { db, config }: RouteContext) {
   defineRoute(kit, {
     method: "get",
     path: "/users",
@@ -104,7 +105,8 @@ export function registerUserRoutes(kit: RouteKit, { db, config, mailer }: RouteC
           ip: req.ip,
           details: { email: body.email, roles: body.roles },
         });
-        await mailer.send(
+        await queueMail(
+          trx,
           invitationMail({
             to: body.email,
             programName: user.programName,
@@ -113,6 +115,7 @@ export function registerUserRoutes(kit: RouteKit, { db, config, mailer }: RouteC
             link: `${config.appUrl}/invitation?token=${token}`,
             expiresHours: INVITATION_HOURS,
           }),
+          user.programId,
         );
         return { ...row, inviter_name: user.name };
       });
