@@ -8,7 +8,6 @@ import request from "supertest";
 import { buildApp } from "../../server/app";
 import { loadConfig } from "../../server/config";
 import { createDb } from "../../server/db/knex";
-import { createMailer } from "../../server/mail/mailer";
 import { createLocalStorage } from "../../server/storage/local";
 
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), "soundings-client-"));
@@ -16,16 +15,14 @@ const clientDir = path.join(dir, "dist");
 // Serving pages touches neither database nor mail: a pool that never connects will do.
 const db = createDb("postgres://postgres@127.0.0.1:1/none", 1);
 const config = loadConfig({ NODE_ENV: "test" });
-const mailer = createMailer(config.smtp);
 afterAll(async () => {
-  mailer.close();
   await db.destroy();
   fs.rmSync(dir, { recursive: true, force: true });
 });
 
 describe("the built client", () => {
   it("answers 503 with an explanation before the build, and serves the client once it is built", async () => {
-    const { app } = buildApp({ db, config, mailer, storage: createLocalStorage(dir), jobs: { enqueueClip: async () => {} }, log: () => {}, clientDir });
+    const { app } = buildApp({ db, config, storage: createLocalStorage(dir), jobs: { enqueueClip: async () => {} }, log: () => {}, clientDir });
 
     const before = await request(app).get("/");
     expect(before.status).toBe(503);
