@@ -88,7 +88,9 @@ describe("ffmpegArgs", () => {
   });
   it("copies the stream, decoding only keyframes for the frame tap", () => {
     const a = ffmpegArgs(planVideo(probeOf()), "in", "out", { tap: { ...tap, keyframesOnly: true } }).join(" ");
-    expect(a).toMatch(/^-skip_frame nokey -i in -map 0:v:0 .* -c:v copy -f mp4 -y out -map 0:v:0 -vf select=.* -frames:v 2 -f rawvideo pipe:1$/);
+    expect(a).toMatch(
+      /^-skip_frame nokey -i in -map 0:v:0 .* -c:v copy -bsf:v filter_units=remove_types=6 -f mp4 -y out -map 0:v:0 -vf select=.* -frames:v 2 -f rawvideo pipe:1$/,
+    );
   });
   it("encodes libx264 veryfast crf 23 yuv420p with a keyframe every second", () => {
     const a = ffmpegArgs(planVideo(probeOf({ codec: "mpeg4", format: "avi" })), "in", "out", { tap }).join(" ");

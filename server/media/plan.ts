@@ -106,6 +106,16 @@ export function redactionPixels(boxes: readonly Redaction[], width: number, heig
  * Output options every result gets: no audio, subtitles, data, chapters or container/stream
  * metadata; bitexact so no "encoder" tag or version string is written; moov first.
  */
+/**
+ * Drops every SEI NAL unit (type 6, ITU-T H.264 Table 7-1) from the H.264 stream. SEI "user data"
+ * messages can carry anything a device writes, a patient's name or record number included, and
+ * nothing a reviewer's player needs is in them (timing and recovery hints only; MP4 marks its own
+ * sync samples). Used on both paths: a stream copy passes the source's SEI through unchanged, and
+ * libx264 always writes its own version-and-settings SEI, which no x264 option turns off, and
+ * re-inserts captions carried over from the source (ffmpeg's a53cc), so its output is filtered too.
+ */
+const STRIP_SEI = ["-bsf:v", "filter_units=remove_types=6"];
+
 const COMMON_OUTPUT = ["-an", "-sn", "-dn", "-map_metadata", "-1", "-map_chapters", "-1", "-fflags", "+bitexact", "-movflags", "+faststart"];
 
 /**
@@ -158,6 +168,7 @@ export function ffmpegArgs(plan: VideoPlan, input: string, output: string, opts:
       ...COMMON_OUTPUT,
       "-c:v",
       "copy",
+      ...STRIP_SEI,
       "-f",
       "mp4",
       "-y",
@@ -194,9 +205,7 @@ export function ffmpegArgs(plan: VideoPlan, input: string, output: string, opts:
     "expr:gte(t,n_forced*1)",
     "-flags:v",
     "+bitexact",
-    // x264 writes its version and settings into an SEI message; drop SEI units from our own encode.
-    "-bsf:v",
-    "filter_units=remove_types=6",
+    ...STRIP_SEI,
     "-f",
     "mp4",
     "-y",

@@ -42,6 +42,7 @@ const IDENTIFYING = [
 let dir: string;
 const inputs: Record<string, string> = {};
 const outputs: Record<string, ProcessedVideo> = {};
+const seiOutputs: Record<string, ProcessedVideo> = {};
 let keyedOut: ProcessedVideo;
 
 async function ffprobeJson(file: string) {
@@ -56,6 +57,42 @@ async function videoHash(file: string): Promise<string> {
   const { stdout } = await run("ffmpeg", ["-v", "error", "-i", file, "-map", "0:v:0", "-c", "copy", "-f", "streamhash", "-hash", "sha256", "-"]);
   return stdout.trim();
 }
+
+/** Size and CRC of each video packet, as ffmpeg's framecrc muxer lists them (no decoding). */
+async function packetCrcs(file: string): Promise<{ size: number; crc: string }[]> {
+  const { stdout } = await run("ffmpeg", ["-v", "error", "-i", file, "-map", "0:v:0", "-c", "copy", "-f", "framecrc", "-"]);
+  return stdout
+    .split("\n")
+    .filter((l) => /^\d/.test(l))
+    .map((l) => l.split(",").map((x) => x.trim()))
+    .map((f) => ({ size: Number(f[4]), crc: f[5] }));
+}
+
+/** An MD5 of each decoded frame, as ffmpeg's framemd5 muxer lists them. */
+async function decodedMd5s(file: string): Promise<string[]> {
+  const { stdout } = await run("ffmpeg", ["-v", "error", "-i", file, "-map", "0:v:0", "-f", "framemd5", "-"]);
+  return stdout
+    .split("\n")
+    .filter((l) => /^\d/.test(l))
+    .map((l) => l.split(",").pop()!.trim());
+}
+
+/**
+ * The copy is the source's stream less its SEI units: the same pictures when decoded, and every
+ * packet byte-identical except those that held SEI, which only shrink (x264 and the marker put it
+ * in the first access unit).
+ */
+async function expectSameStreamLessSei(source: string, copy: string) {
+  const [a, b] = await Promise.all([packetCrcs(source), packetCrcs(copy)]);
+  expect(b.length).toBe(a.length);
+  expect(a.length).toBeGreaterThan(1);
+  expect(b.slice(1)).toEqual(a.slice(1));
+  expect(b[0].size).toBeLessThan(a[0].size);
+  expect(await decodedMd5s(copy)).toEqual(await decodedMd5s(source));
+}
+
+/** Text an H.264 SEI "user data unregistered" message carries in the marked input. */
+const SEI_MARKER = "PATIENT-MARKER-12345";
 
 /** One decoded frame of a file as RGB, read by ffmpeg. */
 async function frameRgb(file: string, at: number): Promise<{ data: Buffer; width: number; height: number }> {
@@ -116,18 +153,29 @@ beforeAll(async () => {
     generateDemoClip(inputs.avi, { ...base, container: "avi", codec: "mpeg4" }),
     generateDemoClip(inputs.webm, { ...base, container: "webm", codec: "vp9" }),
   ]);
+  // An H.264 MP4 with the marker in an SEI user-data message, written by ffmpeg's h264_metadata
+  // bitstream filter (its sei_user_data option: "UUID+string").
+  inputs.sei = path.join(dir, "in-sei.mp4");
+  await run("ffmpeg", [
+    ...["-v", "error", "-f", "lavfi", "-i", `testsrc2=size=${W}x${H}:rate=10:duration=1`],
+    ...["-c:v", "libx264", "-preset", "ultrafast", "-pix_fmt", "yuv420p"],
+    ...["-bsf:v", `h264_metadata=sei_user_data=dc45e9bd-e6d9-48b7-962c-d820d923eeef+${SEI_MARKER}`, inputs.sei],
+  ]);
   // A truncated MP4: the first half of a file whose index (moov) sits at the end.
   const whole = await fs.readFile(inputs.h264);
   inputs.truncated = path.join(dir, "truncated.mp4");
   await fs.writeFile(inputs.truncated, whole.subarray(0, whole.length >> 1));
-  const [keyed, copy, avi, webm, redacted] = await Promise.all([
+  const [keyed, copy, avi, webm, redacted, seiCopy, seiTranscode] = await Promise.all([
     processVideo(inputs.keyed, path.join(dir, "out-keyed")),
     processVideo(inputs.h264, path.join(dir, "out-copy")),
     processVideo(inputs.avi, path.join(dir, "out-avi")),
     processVideo(inputs.webm, path.join(dir, "out-webm")),
     processVideo(inputs.h264, path.join(dir, "out-redacted"), { redactions: [REDACT] }),
+    processVideo(inputs.sei, path.join(dir, "out-sei-copy")),
+    processVideo(inputs.sei, path.join(dir, "out-sei-transcode"), { redactions: [REDACT] }),
   ]);
   Object.assign(outputs, { copy, avi, webm, redacted });
+  Object.assign(seiOutputs, { copy: seiCopy, transcode: seiTranscode });
   keyedOut = keyed;
 }, 120_000);
 
@@ -145,14 +193,24 @@ describe("processVideo", () => {
     }
   });
 
-  it("stream-copies an H.264 MP4: same video packets, no re-encode", async () => {
+  it("stream-copies an H.264 MP4: same video packets less their SEI units, no re-encode", async () => {
     const out = outputs.copy;
     expect(out.plan.video).toBe("copy");
     const p = await ffprobeJson(out.videoPath);
     expect(p.streams.find((s) => s.codec_type === "video")?.codec_name).toBe("h264");
-    const [a, b] = await Promise.all([videoHash(inputs.h264), videoHash(out.videoPath)]);
-    expect(b).toBe(a);
-    expect(a).toMatch(/SHA256=/);
+    await expectSameStreamLessSei(inputs.h264, out.videoPath);
+  });
+
+  it("leaves no SEI user data (which can name a patient) in a copied or a transcoded stream", async () => {
+    expect((await fs.readFile(inputs.sei)).includes(SEI_MARKER)).toBe(true);
+    expect(seiOutputs.copy.plan.video).toBe("copy");
+    expect(seiOutputs.transcode.plan.video).toBe("transcode");
+    for (const [name, out] of Object.entries(seiOutputs)) {
+      const bytes = await fs.readFile(out.videoPath);
+      expect(bytes.includes(SEI_MARKER), name).toBe(false);
+      expect(bytes.includes("x264 - core"), name).toBe(false);
+    }
+    await expectSameStreamLessSei(inputs.sei, seiOutputs.copy.videoPath);
   });
 
   it("transcodes MPEG-4 Part 2 in AVI and VP9 in WebM to H.264", async () => {

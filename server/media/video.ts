@@ -89,7 +89,7 @@ async function writePosterAndStrip(frames: Buffer[], width: number, height: numb
 /**
  * Processes one video into outDir (video.mp4, poster.jpg, strip.jpg) in one ffmpeg run that also
  * hands back the poster and strip frames: after scaling and redaction in a transcode; decoded
- * from the keyframes of the (byte-identical, see the tests) video packets in a stream copy, with a
+ * from the keyframes of the (byte-identical less SEI units, see the tests) video packets in a stream copy, with a
  * full decode of the output when the keyframes are too sparse. Throws MediaError with a readable
  * reason and removes its own partial outputs on failure.
  */
