@@ -18,8 +18,13 @@ const CONNECTION_WARNING = /^(Connection Error|Acquire connection error):/;
 export function createDb(url: string, poolMax = 10): Db {
   return knex({
     client: "pg",
-    connection: { connectionString: url, application_name: "soundings" },
-    pool: { min: 0, max: poolMax },
+    // A database that does not answer fails a request within seconds instead of holding it:
+    // connecting gives up after 5 s, waiting for a pooled connection after 10 s (both then
+    // answer 503, see http/errors.ts). Knex marks a pooled client that errors or ends while
+    // idle (a restart ends every session with 57P01) as disposed and never hands it out again,
+    // so the pool recovers on its own once PostgreSQL is back.
+    connection: { connectionString: url, application_name: "soundings", connectionTimeoutMillis: 5_000, keepAlive: true },
+    pool: { min: 0, max: poolMax, acquireTimeoutMillis: 10_000, createTimeoutMillis: 5_000, idleTimeoutMillis: 30_000, reapIntervalMillis: 1_000 },
     log: {
       warn: (message: string) => {
         if (!CONNECTION_WARNING.test(message)) console.warn(message);

@@ -2,6 +2,7 @@
 // (ours, zod's, the JSON body parser's) into `{ error: { code, message, details? } }`.
 import type { ErrorRequestHandler, RequestHandler } from "express";
 import { ZodError } from "zod";
+import { isDatabaseUnavailable } from "../db/connection-errors";
 
 export class HttpError extends Error {
   constructor(
@@ -31,6 +32,9 @@ export const apiNotFound: RequestHandler = (req, _res, next) => {
   next(new HttpError(404, "route_not_found", `No API route for ${req.method} ${req.originalUrl.split("?")[0]}`));
 };
 
+/** What a 503 for an unreachable database asks the client to wait before trying again. */
+export const RETRY_AFTER_SECONDS = 5;
+
 type BodyParserError = Error & { type?: string; status?: number; limit?: number };
 
 export function errorHandler(log: (err: unknown) => void): ErrorRequestHandler {
@@ -43,7 +47,11 @@ export function errorHandler(log: (err: unknown) => void): ErrorRequestHandler {
     else if (bp?.type === "entity.too.large") e = new HttpError(413, "payload_too_large", `The request body is larger than the limit of ${bp.limit} bytes`);
     else if (bp?.type === "encoding.unsupported" || bp?.type === "charset.unsupported") e = new HttpError(415, "unsupported_encoding", bp.message);
     else if (typeof bp?.status === "number" && bp.status >= 400 && bp.status < 500) e = new HttpError(bp.status, "bad_request", bp.message);
-    else {
+    else if (isDatabaseUnavailable(err)) {
+      // Stopped, restarting or unreachable: nothing was saved, and the same request can be sent again.
+      res.set("Retry-After", String(RETRY_AFTER_SECONDS));
+      e = new HttpError(503, "database_unavailable", "The database is not reachable right now; nothing was saved, try again in a few seconds");
+    } else {
       log(err);
       e = new HttpError(500, "internal_error", "Something went wrong on the server; the error was logged");
     }

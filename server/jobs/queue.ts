@@ -2,6 +2,7 @@
 // (in-process with `npm start`, or `npm run worker` on any number of machines) do them.
 import PgBoss from "pg-boss";
 import type { Config } from "../config";
+import { isConnectionLoss } from "../db/connection-errors";
 
 export const CLIP_QUEUE = "clip-process";
 /** Daily e-mail to reviewers about reads waiting past the program's turnaround target. */
@@ -19,16 +20,7 @@ export interface JobQueue {
   stop(): Promise<void>;
 }
 
-const CONNECTION_CODES = new Set(["ECONNREFUSED", "ECONNRESET", "EPIPE", "ETIMEDOUT", "57P01", "57P02", "57P03"]);
-
-/** True for errors that mean the database went away (stopped, restarted, unreachable). */
-export function isConnectionLoss(err: unknown): boolean {
-  const e = err as { code?: unknown; message?: unknown } | null | undefined;
-  if (!e || typeof e !== "object") return false;
-  // SQLSTATE class 08 is "connection exception"; 57P01-03 are the server shutting down.
-  if (typeof e.code === "string" && (CONNECTION_CODES.has(e.code) || e.code.startsWith("08"))) return true;
-  return typeof e.message === "string" && /Connection terminated|terminating connection|connection error/i.test(e.message);
-}
+export { isConnectionLoss };
 
 /** Connects to the queue schema (created on first start) and makes sure the queues exist. */
 export async function createJobQueue(config: Config, opts: { supervise?: boolean; schedule?: boolean; log?: (e: unknown) => void } = {}): Promise<JobQueue> {
