@@ -7,6 +7,7 @@ import { z, type ZodType } from "zod";
 import type { Role } from "../../shared/roles";
 import { errorSchema } from "../../shared/schemas/common";
 import { HttpError, validationError } from "./errors";
+import { assertStorable } from "./strings";
 import type { AuthUser } from "../auth/types";
 
 /** Who may call a route: anyone, any signed-in member, or members holding one of the roles. */
@@ -77,6 +78,7 @@ export function defineRoute<B extends ZodType | undefined = undefined, Q extends
         if (!schema) return undefined;
         const r = schema.safeParse(value ?? {});
         if (!r.success) throw validationError(r.error, where);
+        assertStorable(r.data, where);
         return r.data;
       };
       const params = parse(spec.params, req.params, "params");

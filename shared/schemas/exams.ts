@@ -1,6 +1,7 @@
 // Exams and clips: the submission form and the exam routes validate with these.
 import { z } from "zod";
 import { FINDING_READS, SETTINGS, TRANSDUCERS } from "../catalogue";
+import { isoDateSchema, isoDateTimeSchema } from "./common";
 
 /** draft → submitted → in_review (→ adjudication) → reviewed. */
 export const EXAM_STATUSES = ["draft", "submitted", "in_review", "adjudication", "reviewed"] as const;
@@ -9,8 +10,7 @@ export const EXAM_STATUS_FILTERS = ["draft", "submitted", "reviewed"] as const;
 export const CLIP_STATES = ["queued", "processing", "ready", "failed"] as const;
 
 /** Accepts an ISO date-time; refuses the future (with a minute's grace for clock skew). */
-export const performedAtSchema = z.iso
-  .datetime({ offset: true, message: "Enter the date and time the scan was performed" })
+export const performedAtSchema = isoDateTimeSchema("Enter the date and time the scan was performed")
   .refine((s) => new Date(s).getTime() <= Date.now() + 60_000, "The scan cannot be in the future")
   .refine((s) => new Date(s).getFullYear() >= 2000, "Enter a date from 2000 on");
 
@@ -99,8 +99,8 @@ export type Exam = z.infer<typeof examSchema>;
 export const examListQuerySchema = z.object({
   status: z.enum(EXAM_STATUS_FILTERS).optional(),
   application: z.string().max(40).optional(),
-  from: z.iso.date().optional(),
-  to: z.iso.date().optional(),
+  from: isoDateSchema.optional(),
+  to: isoDateSchema.optional(),
   sort: z.enum(["performedAt", "-performedAt", "createdAt", "-createdAt", "application", "-application", "status", "-status"]).default("-performedAt"),
   limit: z.coerce.number().int().min(1).max(100).default(25),
   offset: z.coerce.number().int().min(0).default(0),

@@ -1,6 +1,7 @@
 // Learner progress and credentialing (PRODUCT.md sections 3.7, 3.8 and 6): the shapes the
 // progress API answers with, shared by the screens, the roster and the credentialing report.
 import { z } from "zod";
+import { isoDateSchema } from "./common";
 
 /** How a finding was later confirmed (or that no confirmatory test was done). */
 export const CONFIRMATION_METHODS = ["ct", "formal_echo", "surgery", "follow_up", "none"] as const;
@@ -168,8 +169,8 @@ export interface RosterRow {
 }
 
 export const progressQuerySchema = z.object({
-  from: z.iso.date().optional(),
-  to: z.iso.date().optional(),
+  from: isoDateSchema.optional(),
+  to: isoDateSchema.optional(),
   /** Rolling-mean window (exams). */
   window: z.coerce.number().int().min(2).max(50).default(10),
 });
@@ -177,8 +178,8 @@ export const progressQuerySchema = z.object({
 export const credentialingReportQuerySchema = z.object({
   format: z.enum(["pdf", "csv"], { message: "format must be pdf or csv" }),
   userId: z.uuid().optional(),
-  from: z.iso.date().optional(),
-  to: z.iso.date().optional(),
+  from: isoDateSchema.optional(),
+  to: isoDateSchema.optional(),
 });
 
 /** Shown on every progress screen and printed on every report (PRODUCT.md section 7). */

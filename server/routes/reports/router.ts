@@ -9,10 +9,11 @@ import { agreementOf, biasAgainstConsensus, countedRows, pairCounts, readPairs, 
 import { cohensKappa, percentAgreement } from "../../../shared/stats/index";
 import type { Criterion } from "../../../shared/rubric/types";
 import { FINDING_READS } from "../../../shared/catalogue";
+import { isoDateSchema } from "../../../shared/schemas/common";
 
 const dateRange = {
-  from: z.iso.date().optional(),
-  to: z.iso.date().optional(),
+  from: isoDateSchema.optional(),
+  to: isoDateSchema.optional(),
 };
 
 const READ_CRITERION = { key: "read" as const, label: "Interpretation (reads of findings)", kind: "choice" as const };
