@@ -83,7 +83,11 @@ export function defineRoute<B extends ZodType | undefined = undefined, Q extends
       };
       const params = parse(spec.params, req.params, "params");
       const query = parse(spec.query, req.query, "query");
-      if (spec.body && req.body === undefined && !req.is("application/json")) {
+      // No body at all (no Content-Type, nothing sent) has no media type to refuse: it is
+      // validated as {}, so a route with an optional body accepts a bare POST and one that
+      // needs fields names the first missing one. A body of another type is still refused.
+      const bodyless = !req.get("content-type") && (!req.get("content-length") || req.get("content-length") === "0") && !req.get("transfer-encoding");
+      if (spec.body && req.body === undefined && !bodyless && !req.is("application/json")) {
         throw new HttpError(415, "unsupported_media_type", "Send the body as application/json");
       }
       const body = parse(spec.body, req.body, "body");

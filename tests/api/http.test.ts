@@ -1,7 +1,7 @@
 // How the API answers bad requests: always JSON { error: { code, message } }.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
-import { makeKit, type TestKit } from "./helpers";
+import { makeKit, makeMember, makeProgram, tokenFor, type TestKit } from "./helpers";
 
 let kit: TestKit;
 beforeAll(() => {
@@ -58,5 +58,31 @@ describe("GET /api/openapi.json", () => {
     }
     const login = res.body.paths["/api/auth/login"].post;
     expect(login.requestBody.content["application/json"].schema.properties.email).toBeDefined();
+  });
+});
+
+describe("a POST without a body", () => {
+  // RFC 9110 section 8.3: Content-Type describes content; a request without content has no
+  // media type to refuse, so it is validated as an empty object.
+  it("names the first missing field when the route needs a body", async () => {
+    const res = await request(kit.app).post("/api/auth/login");
+    expect(res.status, JSON.stringify(res.body)).toBe(400);
+    expect(res.body.error.code).toBe("validation_failed");
+    expect(res.body.error.message).toMatch(/^email:/);
+  });
+
+  it("succeeds where the body is optional", async () => {
+    const program = (await makeProgram(kit.db)).id;
+    const reviewer = await makeMember(kit.db, program, ["reviewer"]);
+    const auth = `Bearer ${await tokenFor(kit, reviewer)}`;
+    const res = await request(kit.app).post("/api/queue/next").set("Authorization", auth).set("Content-Length", "0");
+    expect(res.status, JSON.stringify(res.body)).toBe(204);
+    const read = await request(kit.app).post("/api/notifications/read").set("Authorization", auth);
+    expect(read.status, JSON.stringify(read.body)).toBe(204);
+  });
+
+  it("still answers 415 for an empty body labelled with another type", async () => {
+    const res = await request(kit.app).post("/api/auth/login").set("Content-Type", "text/plain");
+    expect(res.status).toBe(415);
   });
 });
