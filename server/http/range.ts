@@ -30,14 +30,17 @@ export async function sendStored(req: Request, res: Response, storage: Storage, 
   if (size === null) throw notFound("Media");
   const range = parseRange(req.get("range"), size);
   res.setHeader("Accept-Ranges", "bytes");
-  res.setHeader("Content-Type", contentType);
-  res.setHeader("Cache-Control", "private, max-age=3600");
   res.setHeader("X-Content-Type-Options", "nosniff");
   if (range === "unsatisfiable") {
+    // RFC 9110 section 15.5.17: the 416 carries "Content-Range: bytes */size"; its body is
+    // our JSON error, so it is labelled as JSON, not as the media it is not.
     res.status(416).setHeader("Content-Range", `bytes */${size}`);
-    res.json({ error: { code: "range_not_satisfiable", message: `The file has ${size} bytes` } });
+    res.setHeader("Cache-Control", "no-store");
+    res.json({ error: { code: "range_not_satisfiable", message: `Range: the file has ${size} bytes` } });
     return;
   }
+  res.setHeader("Content-Type", contentType);
+  res.setHeader("Cache-Control", "private, max-age=3600");
   if (range) {
     res.status(206).setHeader("Content-Range", `bytes ${range.start}-${range.end}/${size}`);
     res.setHeader("Content-Length", String(range.end - range.start + 1));

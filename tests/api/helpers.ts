@@ -33,15 +33,20 @@ export interface TestKit {
   close: () => Promise<void>;
 }
 
+export interface KitOptions {
+  /** Wraps the kit's storage, e.g. to make `put` fail like a full disk. */
+  wrapStorage?: (storage: Storage) => Storage;
+}
+
 /** An app wired to the test database; `env` overrides settings for this kit only. */
-export function makeKit(env: Record<string, string> = {}): TestKit {
+export function makeKit(env: Record<string, string> = {}, opts: KitOptions = {}): TestKit {
   if (!process.env.DATABASE_URL) throw new Error("DATABASE_URL is not set: run the tests through `npm test`");
   const config = loadConfig({ ...process.env, NODE_ENV: "test", ...env });
   const db = createDb(config.databaseUrl, 4);
   // Each kit delivers the outbox like a worker would (any kit may send any file's mail).
   const mailer = createMailer(config.smtp);
   const sender = startMailSender(db, mailer, { ...config.mailOutbox, pollMs: Math.min(config.mailOutbox.pollMs, 500) }, () => {});
-  const storage = createStorage(config);
+  const storage = opts.wrapStorage ? opts.wrapStorage(createStorage(config)) : createStorage(config);
   let started: Promise<JobQueue> | undefined;
   const queue = () => (started ??= createJobQueue(config, { supervise: false, log: () => {} }));
   const jobs = { enqueueClip: async (job: { clipId: string; version: number }) => (await queue()).enqueueClip(job) };
