@@ -12,6 +12,21 @@ export interface AuditEvent {
   details?: Record<string, unknown>;
 }
 
+const SESSION_KEY = /^(sid|session|session_?id|sessions|session_?ids)$/i;
+
+/** A copy of audit details without keys that name sessions (a session id is half a token). */
+export function withoutSessionKeys(value: unknown): unknown {
+  if (Array.isArray(value)) return value.map(withoutSessionKeys);
+  if (value && typeof value === "object") {
+    return Object.fromEntries(
+      Object.entries(value as Record<string, unknown>)
+        .filter(([k]) => !SESSION_KEY.test(k))
+        .map(([k, v]) => [k, withoutSessionKeys(v)]),
+    );
+  }
+  return value;
+}
+
 /** Appends one event; call it inside the same transaction as the change it records. */
 export async function audit(db: Db | Knex.Transaction, e: AuditEvent): Promise<void> {
   await db("audit_log").insert({
@@ -19,8 +34,9 @@ export async function audit(db: Db | Knex.Transaction, e: AuditEvent): Promise<v
     actor_user_id: e.actorUserId,
     action: e.action,
     entity_type: e.entityType ?? null,
-    entity_id: e.entityId ?? null,
+    // Session ids are never stored: the log is readable by admins.
+    entity_id: e.entityType === "session" ? null : (e.entityId ?? null),
     ip: e.ip ?? null,
-    details: e.details ? JSON.stringify(e.details) : null,
+    details: e.details ? JSON.stringify(withoutSessionKeys(e.details)) : null,
   });
 }

@@ -19,7 +19,7 @@ export async function openSession(db: Db | Knex.Transaction, config: Config, req
     userAgent: req.get("user-agent"),
   });
   await db("users").where("id", user.id).update({ last_sign_in_at: db.fn.now() });
-  await audit(db, { programId: user.programId, actorUserId: user.id, action, entityType: "session", entityId: sessionId, ip: req.ip });
+  await audit(db, { programId: user.programId, actorUserId: user.id, action, entityType: "user", entityId: user.id, ip: req.ip });
   const token = signSessionToken(config.jwtSecret, { sub: user.id, sid: sessionId, pid: user.programId }, config.sessionTtlSeconds);
   setSessionCookie(res, config, token);
   return { token, user };

@@ -2,6 +2,7 @@
 import { z } from "zod";
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../app";
+import { presentAuditEntry } from "../../presenters/audit";
 import { auditEntrySchema, auditQuerySchema } from "../../../shared/schemas/users";
 
 export function registerAuditRoutes(kit: RouteKit, { db }: RouteContext) {
@@ -28,16 +29,7 @@ export function registerAuditRoutes(kit: RouteKit, { db }: RouteContext) {
       ]);
       return {
         total: Number(count),
-        entries: rows.map((r) => ({
-          id: String(r.id),
-          at: r.at.toISOString(),
-          actor: r.actor_name ?? null,
-          action: r.action,
-          entityType: r.entity_type,
-          entityId: r.entity_id,
-          ip: r.ip,
-          details: r.details,
-        })),
+        entries: rows.map(presentAuditEntry),
       };
     },
   });

@@ -95,8 +95,8 @@ export function registerAuthRoutes(kit: RouteKit, { db, config }: RouteContext) 
           programId: user.programId,
           actorUserId: user.id,
           action: "auth.signed_out",
-          entityType: "session",
-          entityId: user.sessionId,
+          entityType: "user",
+          entityId: user.id,
           ip: req.ip,
         });
       });
