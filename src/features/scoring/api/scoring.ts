@@ -5,6 +5,7 @@ import { useMutation, useQuery, useQueryClient, type QueryClient } from "@tansta
 import type { FindingRead } from "../../../../shared/catalogue";
 import type { Scores } from "../../../../shared/rubric/types";
 import { api } from "../../../lib/api-client";
+import { retryDelayMs, retryTransient } from "../../../lib/retry";
 import { claimNext, queueKeys, workspaceQuery, type Workspace } from "../../../lib/review-workspace";
 import { prefetchWorkspaceMedia } from "./prefetch-media";
 
@@ -63,15 +64,26 @@ export function forgetWorkspace(queryClient: QueryClient, assignmentId: string) 
   queryClient.removeQueries({ queryKey: queueKeys.workspace(assignmentId) });
 }
 
-/** POST …/review; then claims the next exam (same application filter) and warms its media. */
+// Reviews already accepted, per submit call: a retry after a failed claim of the next exam
+// must not send the review a second time.
+const accepted = new WeakMap<object, SubmitResult>();
+
+/**
+ * POST …/review; then claims the next exam (same application filter) and warms its media.
+ * While the server is unreachable or answers 503 the call is retried with backoff (the
+ * mutation's `failureCount` says it is waiting); a 4xx is final.
+ */
 export function useSubmitAndNext(assignmentId: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: async ({ body, application }: { body: SubmitBody; application: string | null }) => {
-      const result = await api<SubmitResult>(`/assignments/${assignmentId}/review`, { method: "POST", body });
-      const next = await claimNext(application);
+    mutationFn: async (vars: { body: SubmitBody; application: string | null }) => {
+      const result = accepted.get(vars) ?? (await api<SubmitResult>(`/assignments/${assignmentId}/review`, { method: "POST", body: vars.body }));
+      accepted.set(vars, result);
+      const next = await claimNext(vars.application);
       return { result, next };
     },
+    retry: retryTransient(),
+    retryDelay: (attempt) => retryDelayMs(attempt, 15_000),
     onSuccess: ({ next }) => {
       if (next) {
         queryClient.setQueryData<Workspace>(queueKeys.workspace(next.assignment.id), next);

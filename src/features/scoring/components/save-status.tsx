@@ -1,6 +1,6 @@
 // The draft's save state in words, in a polite live region ("Saved 12:03"), beside the time
 // spent on the exam. Time counts only while the workspace has focus.
-import { CircleAlert, CircleCheck, LoaderCircle, Timer } from "lucide-react";
+import { CircleAlert, CircleCheck, CloudOff, LoaderCircle, Timer } from "lucide-react";
 import { formatElapsed } from "../../../lib/duration";
 import { useTicking } from "../hooks/use-focused-seconds";
 import type { SaveState } from "../hooks/use-draft-autosave";
@@ -23,6 +23,13 @@ export function SaveStatus({ state }: { state: SaveState }) {
         <CircleCheck aria-hidden="true" className="size-3.5 text-sea-700" />
         Saved {at(state.savedAt)}
       </>
+    );
+  } else if (state.kind === "waiting") {
+    content = (
+      <span className="inline-flex items-center gap-1 font-semibold text-amber-800" title={state.message}>
+        <CloudOff aria-hidden="true" className="size-3.5" />
+        Waiting for the server; your scores are kept here and will be saved
+      </span>
     );
   } else if (state.kind === "failed" || state.kind === "lost") {
     content = (

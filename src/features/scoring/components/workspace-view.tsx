@@ -69,6 +69,8 @@ export function WorkspaceView({ workspace, application, notice }: { workspace: W
   const seconds = useFocusedSeconds(draft?.timeSpentSeconds ?? 0);
   const player = useRef<PlayerHandle>(null);
   const submit = useSubmitAndNext(assignment.id);
+  // A 503 or lost connection is being retried: say so rather than look stuck or failed.
+  const submitWaiting = submit.isPending && submit.failureCount > 0;
   const release = useReleaseAssignment(assignment.id);
   const queryClient = useQueryClient();
   const finished = useRef(false);
@@ -319,9 +321,11 @@ export function WorkspaceView({ workspace, application, notice }: { workspace: W
                 issues.form ??
                 (issueCount > 0
                   ? `${issueCount === 1 ? "One thing needs" : `${issueCount} things need`} your attention before submitting; see the marked items.`
-                  : submit.isError && !isApiError(submit.error, 400)
-                    ? submit.error.message
-                    : null)
+                  : submitWaiting
+                    ? "Waiting for the server to take your review; your scores are kept and it is sent again by itself."
+                    : submit.isError && !isApiError(submit.error, 400)
+                      ? submit.error.message
+                      : null)
               }
             />
             <Button onClick={doSubmit} busy={submit.isPending} disabled={claimLost} aria-keyshortcuts="Control+Enter" className="w-full">

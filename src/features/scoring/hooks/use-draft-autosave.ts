@@ -1,8 +1,11 @@
 // Autosave of the reviewer's draft: a debounced PUT after each change, a save every few
 // minutes while working (which also keeps the claim alive), and a last keepalive save when
 // the page goes away, so a reload loses nothing. Stops for good once the claim is gone.
+// While the server is unreachable or answers 503 the draft stays on screen and is sent
+// again with a doubling delay ("waiting"), until it is saved.
 import { useCallback, useEffect, useRef, useState } from "react";
 import { isApiError } from "../../../lib/api-client";
+import { isTransientError, retryDelayMs } from "../../../lib/retry";
 import { saveDraft, saveDraftOnExit, type DraftBody } from "../api/scoring";
 
 export type SaveState =
@@ -11,6 +14,7 @@ export type SaveState =
   | { kind: "saving" }
   | { kind: "saved"; savedAt: string; leaseExpiresAt: string }
   | { kind: "failed"; message: string }
+  | { kind: "waiting"; message: string; retryAt: number }
   | { kind: "lost"; message: string };
 
 const DEBOUNCE_MS = 800;
@@ -27,6 +31,8 @@ export function useDraftAutosave(assignmentId: string, body: () => DraftBody, ve
   const stopped = useRef(false);
   const timer = useRef<number | undefined>(undefined);
   const savedVersion = useRef(version);
+  const retries = useRef(0);
+  const retryLater = useRef<() => void>(() => undefined);
 
   useEffect(() => {
     bodyRef.current = body;
@@ -39,18 +45,29 @@ export function useDraftAutosave(assignmentId: string, body: () => DraftBody, ve
     setState({ kind: "saving" });
     try {
       const r = await saveDraft(assignmentId, bodyRef.current());
+      retries.current = 0;
       if (!stopped.current) setState((s) => (s.kind === "saving" ? { kind: "saved", savedAt: r.savedAt, leaseExpiresAt: r.leaseExpiresAt } : s));
     } catch (error) {
       if (stopped.current) return;
       if (isApiError(error, 409) || isApiError(error, 404)) {
         stopped.current = true;
         setState({ kind: "lost", message: error instanceof Error ? error.message : "You no longer hold this exam." });
+      } else if (isTransientError(error)) {
+        // Not the draft's fault: keep it and try again later (a newer change saves sooner).
+        dirty.current = true;
+        const delay = retryDelayMs(retries.current++);
+        setState({ kind: "waiting", message: error instanceof Error ? error.message : "The server is not reachable.", retryAt: Date.now() + delay });
+        timer.current = window.setTimeout(() => retryLater.current(), delay);
       } else {
         dirty.current = true;
         setState({ kind: "failed", message: error instanceof Error ? error.message : "The draft could not be saved." });
       }
     }
   }, [assignmentId]);
+
+  useEffect(() => {
+    retryLater.current = () => void save();
+  }, [save]);
 
   // Debounced save after each change (not for the state restored on load).
   useEffect(() => {
