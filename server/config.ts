@@ -1,7 +1,11 @@
 // Runtime configuration from the environment, with the embedded defaults of `npm start`.
-// Production refuses to start without a real JWT secret.
+// Production refuses to start without a real JWT secret; development keeps a random one
+// per checkout in .data/jwt-secret; tests use a random one per process.
 import path from "node:path";
 import os from "node:os";
+import fs from "node:fs";
+import crypto from "node:crypto";
+import { fileURLToPath } from "node:url";
 import type { S3Settings } from "./storage/s3";
 import type { OutboxSettings } from "./mail/outbox";
 
@@ -33,9 +37,56 @@ export interface Config {
   digestCron: string;
 }
 
-const DEV_JWT_SECRET = "soundings-development-secret-never-use-in-production";
-
 export class ConfigError extends Error {}
+
+/** The checkout's own data folder (PostgreSQL cluster, development JWT secret). */
+export const DATA_DIR = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..", ".data");
+
+// SHA-256 of the constant development secret that earlier versions shipped in the code:
+// tokens signed with it can be forged by anyone who has read the source.
+const RETIRED_SECRET_SHA256 = new Set(["1fd76e323adf66356f0bea4118b7efd7029247bb1da2bc54269d2d4dc6b6abdf"]);
+const sha256 = (s: string) => crypto.createHash("sha256").update(s).digest("hex");
+
+// Test runs need no stable secret: each process signs and checks its own tokens.
+const TEST_JWT_SECRET = crypto.randomBytes(32).toString("base64url");
+
+/**
+ * The development secret: made once per checkout with crypto.randomBytes and kept in
+ * `<dataDir>/jwt-secret` (mode 0600), read again on every later start.
+ */
+export function developmentJwtSecret(dataDir: string = DATA_DIR): string {
+  const file = path.join(dataDir, "jwt-secret");
+  if (!fs.existsSync(file)) {
+    fs.mkdirSync(dataDir, { recursive: true });
+    const tmp = `${file}.${process.pid}.${crypto.randomBytes(4).toString("hex")}`;
+    fs.writeFileSync(tmp, crypto.randomBytes(48).toString("base64url") + "\n", { mode: 0o600 });
+    try {
+      // link() fails if another process created the file first; then theirs wins.
+      fs.linkSync(tmp, file);
+    } catch (err) {
+      if ((err as NodeJS.ErrnoException).code !== "EEXIST") throw err;
+    } finally {
+      fs.rmSync(tmp, { force: true });
+    }
+  }
+  if (fs.statSync(file).mode & 0o077) fs.chmodSync(file, 0o600);
+  const secret = fs.readFileSync(file, "utf8").trim();
+  if (secret.length < 32) throw new ConfigError(`${file} holds no usable JWT secret; delete it to have a new one made`);
+  return secret;
+}
+
+function jwtSecretFor(mode: Config["env"], env: NodeJS.ProcessEnv, dataDir?: string): string {
+  const given = env.JWT_SECRET ?? "";
+  if (given && RETIRED_SECRET_SHA256.has(sha256(given))) {
+    throw new ConfigError("JWT_SECRET is the old published development secret; set a new random one (e.g. `openssl rand -base64 48`)");
+  }
+  if (mode === "production") {
+    if (given.length < 32) throw new ConfigError("JWT_SECRET must be set to at least 32 characters in production");
+    return given;
+  }
+  if (given) return given;
+  return mode === "test" ? TEST_JWT_SECRET : developmentJwtSecret(dataDir);
+}
 
 function int(value: string | undefined, fallback: number, name: string): number {
   if (value === undefined || value === "") return fallback;
@@ -63,20 +114,20 @@ function storageSettings(env: NodeJS.ProcessEnv): Config["storage"] {
   };
 }
 
-/** Reads the configuration; throws ConfigError when a setting is unusable. */
-export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
+/**
+ * Reads the configuration; throws ConfigError when a setting is unusable. `dataDir` is where
+ * a development run keeps its generated JWT secret (the checkout's .data by default).
+ */
+export function loadConfig(env: NodeJS.ProcessEnv = process.env, opts: { dataDir?: string } = {}): Config {
   const mode = (env.NODE_ENV === "production" ? "production" : env.NODE_ENV === "test" ? "test" : "development") as Config["env"];
-  const jwtSecret = env.JWT_SECRET ?? "";
-  if (mode === "production" && jwtSecret.length < 32) {
-    throw new ConfigError("JWT_SECRET must be set to at least 32 characters in production");
-  }
+  const jwtSecret = jwtSecretFor(mode, env, opts.dataDir);
   const port = int(env.PORT, 3000, "PORT");
   return {
     env: mode,
     port,
     host: env.HOST || "127.0.0.1",
     databaseUrl: env.DATABASE_URL ?? "postgres://postgres@127.0.0.1:54329/soundings",
-    jwtSecret: jwtSecret || DEV_JWT_SECRET,
+    jwtSecret,
     sessionTtlSeconds: int(env.SESSION_TTL_SECONDS, 12 * 3600, "SESSION_TTL_SECONDS"),
     cookieSecure: env.COOKIE_SECURE ? env.COOKIE_SECURE === "true" : mode === "production",
     appUrl: (env.APP_URL ?? `http://127.0.0.1:${port}`).replace(/\/$/, ""),
