@@ -6,6 +6,7 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
 import { makeClip, makeExam, makeKit, makeMember, makeProgram, tokenFor, type TestKit, type TestMember } from "./helpers";
+import { fixtureDir, png } from "./media-fixtures";
 
 const tmpRoot = fs.mkdtempSync(path.join(os.tmpdir(), "soundings-uploads-test-"));
 /** A kit with its own storage and temporary folders, so leftovers can be counted. */
@@ -40,5 +41,73 @@ describe("Range on media", () => {
     const ok = await request(kit.app).get(`/api/clips/${clip.id}/media/video`).set("Authorization", auth).set("Range", "bytes=2-4");
     expect(ok.status).toBe(206);
     expect(ok.headers["content-type"]).toBe("video/mp4");
+  });
+});
+
+/** Every file below `dir` (recursively); an absent folder has none. */
+const filesUnder = (dir: string): string[] =>
+  fs.existsSync(dir) ? (fs.readdirSync(dir, { recursive: true, withFileTypes: true }) as fs.Dirent[]).filter((d) => d.isFile()).map((d) => d.name) : [];
+const storedFor = (k: TestKit, examProgram: string) => filesUnder(path.join(k.config.storageDir, "programs", examProgram));
+const clipCount = async (k: TestKit, examId: string) =>
+  Number((await k.db("clips").where("exam_id", examId).count<{ count: string }[]>("* as count"))[0].count);
+
+/** A hand-made multipart/form-data body (RFC 7578) around a small PNG. */
+function multipart(boundary: string, fileName: string, content: Buffer, extra = "") {
+  return Buffer.concat([
+    Buffer.from(`${extra}--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${fileName}"\r\nContent-Type: image/png\r\n\r\n`, "latin1"),
+    content,
+    Buffer.from(`\r\n--${boundary}--\r\n`),
+  ]);
+}
+
+describe("malformed multipart", () => {
+  let dir: string;
+  let pngBytes: Buffer;
+  beforeAll(async () => {
+    dir = fixtureDir();
+    pngBytes = fs.readFileSync(await png(dir, "raw.png", 3));
+  });
+
+  const post = (examId: string, contentType: string, body: Buffer) =>
+    request(kit.app).post(`/api/exams/${examId}/clips`).set("Authorization", auth).set("Content-Type", contentType).send(body);
+
+  it("answers 400 and stores nothing for a truncated body, a missing boundary, or control characters in the file name", async () => {
+    const b = "----soundings-test-boundary";
+    const whole = multipart(b, "scan.png", pngBytes);
+    const cases: [string, string, Buffer][] = [
+      ["truncated", `multipart/form-data; boundary=${b}`, whole.subarray(0, whole.length - 40)],
+      ["no boundary", "multipart/form-data", whole],
+      ["control characters in the name", `multipart/form-data; boundary=${b}`, multipart(b, "sc\u0001an\u0000\u007f.png", pngBytes)],
+      [
+        "NUL in the view field",
+        `multipart/form-data; boundary=${b}`,
+        multipart(b, "scan.png", pngBytes, `--${b}\r\nContent-Disposition: form-data; name="view"\r\n\r\nru\u0000q\r\n`),
+      ],
+    ];
+    for (const [what, type, body] of cases) {
+      const exam = await makeExam(kit.db, programId, sono.id);
+      const res = await post(exam.id, type, body);
+      expect(res.status, `${what}: ${JSON.stringify(res.body)}`).toBe(400);
+      expect(res.type).toBe("application/json");
+      expect(res.body.error.message, what).toMatch(/^(file|view|multipart)/);
+      expect(await clipCount(kit, exam.id), what).toBe(0);
+      expect(
+        storedFor(kit, programId).filter((f) => f === "original"),
+        what,
+      ).toEqual([]);
+      expect(filesUnder(kit.config.uploads.tempDir), what).toEqual([]);
+    }
+  });
+
+  it("keeps a non-ASCII file name as sent (UTF-8, RFC 7578 section 4.2)", async () => {
+    const exam = await makeExam(kit.db, programId, sono.id);
+    const name = "Lébé—出血.png";
+    const res = await request(kit.app).post(`/api/exams/${exam.id}/clips`).set("Authorization", auth).attach("file", pngBytes, name);
+    expect(res.status, JSON.stringify(res.body)).toBe(202);
+    expect(res.body.clip.originalName).toBe(name);
+    const shown = await request(kit.app).get(`/api/exams/${exam.id}`).set("Authorization", auth);
+    expect(JSON.stringify(shown.body)).toContain(name);
+    const row = await kit.db("clips").where("id", res.body.id).first("original_name");
+    expect(row.original_name).toBe(name);
   });
 });

@@ -10,6 +10,7 @@ import type { RequestHandler } from "express";
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../app";
 import { HttpError, notFound } from "../../http/errors";
+import { unstorableReason } from "../../http/strings";
 import { sendStored } from "../../http/range";
 import { idParamsSchema } from "../../../shared/schemas/common";
 import { clipSchema, clipUpdateSchema } from "../../../shared/schemas/exams";
@@ -43,8 +44,19 @@ const clipAsExam = (c: { exam_id: string; exam_program_id: string; sonographer_i
   status: c.exam_status,
 });
 
+/** 507 when the disk is full, 503 when the store is otherwise unavailable; nothing was kept. */
+const storageFailed = (err: unknown) => {
+  const full = ["ENOSPC", "EDQUOT"].includes((err as { code?: string }).code ?? "");
+  return new HttpError(
+    full ? 507 : 503,
+    full ? "storage_full" : "storage_unavailable",
+    `file: the server could not store the upload (${full ? "storage is full" : "storage is unavailable"}); nothing was kept, try again later`,
+  );
+};
+
 export function registerClipRoutes(kit: RouteKit, { db, storage, config, jobs }: RouteContext) {
   fs.mkdirSync(config.uploads.tempDir, { recursive: true });
+  const tooManyClips = () => new HttpError(413, "too_many_clips", `An exam holds at most ${config.uploads.maxClipsPerExam} clips`);
   const upload = multer({
     storage: multer.diskStorage({
       destination: config.uploads.tempDir,
@@ -52,6 +64,8 @@ export function registerClipRoutes(kit: RouteKit, { db, storage, config, jobs }:
       filename: (_req, _file, cb) => cb(null, crypto.randomUUID()),
     }),
     limits: { fileSize: config.uploads.maxFileBytes, files: 1, fields: 4, fieldSize: 200, parts: 6 },
+    // Browsers send file names as raw UTF-8 (RFC 7578 section 4.2); multer's default is latin1.
+    defParamCharset: "utf8",
   }).single("file");
 
   // Authorize before a byte of the file is accepted.
@@ -62,9 +76,7 @@ export function registerClipRoutes(kit: RouteKit, { db, storage, config, jobs }:
       .then(async (exam) => {
         assertCanEdit(req.user as AuthUser, exam);
         const [{ count }] = await db("clips").where("exam_id", exam.id).count<{ count: string }[]>("* as count");
-        if (Number(count) >= config.uploads.maxClipsPerExam) {
-          throw new HttpError(413, "too_many_clips", `An exam holds at most ${config.uploads.maxClipsPerExam} clips`);
-        }
+        if (Number(count) >= config.uploads.maxClipsPerExam) throw tooManyClips();
         res.locals.exam = exam;
         next();
       })
@@ -82,7 +94,12 @@ export function registerClipRoutes(kit: RouteKit, { db, storage, config, jobs }:
               : new HttpError(400, "bad_upload", `${err.field ?? "file"}: ${err.message}`);
         return next(e);
       }
-      next(err);
+      // The disk under the temporary folder failing is ours; anything else from the
+      // multipart parser (no boundary, a truncated body, a broken part header) is the request's.
+      const code = (err as { code?: string }).code;
+      if (code === "ENOSPC" || code === "EDQUOT") return next(storageFailed(err));
+      if (code && /^E[A-Z]+$/.test(code)) return next(err);
+      next(new HttpError(400, "bad_upload", `file: the multipart body could not be read (${(err as Error).message}); send one file in the field "file"`));
     });
   };
 
@@ -105,6 +122,14 @@ export function registerClipRoutes(kit: RouteKit, { db, storage, config, jobs }:
       if (!file) throw new HttpError(400, "validation_failed", 'file: attach a video or image in the field "file"');
       try {
         if (file.size === 0) throw new HttpError(400, "empty_file", "file: the file is empty");
+        // eslint-disable-next-line no-control-regex -- control characters are what is refused
+        if (/[\u0000-\u001f\u007f]/.test(file.originalname)) {
+          throw new HttpError(400, "validation_failed", "file: the file name contains control characters; rename the file and upload it again");
+        }
+        for (const [field, value] of Object.entries(req.body ?? {})) {
+          const reason = typeof value === "string" ? unstorableReason(value) : null;
+          if (reason) throw new HttpError(400, "validation_failed", `${field}: ${reason}`);
+        }
         const view = typeof req.body?.view === "string" && req.body.view.trim() ? req.body.view.trim().slice(0, 60) : null;
         const media = await detectMedia(file.path);
         if (!media.kind) {
