@@ -111,3 +111,25 @@ describe("malformed multipart", () => {
     expect(row.original_name).toBe(name);
   });
 });
+
+describe("the per-exam clip limit under parallel uploads", () => {
+  it("keeps exactly MAX_CLIPS_PER_EXAM (20) of 30 parallel uploads and refuses the rest with 413, leaving no orphan file", async () => {
+    const dir = fixtureDir();
+    const files = await Promise.all(Array.from({ length: 30 }, (_, i) => png(dir, `p${i}.png`, i)));
+    const exam = await makeExam(kit.db, programId, sono.id);
+    const before = storedFor(kit, programId).length;
+    const answers = await Promise.all(files.map((f) => request(kit.app).post(`/api/exams/${exam.id}/clips`).set("Authorization", auth).attach("file", f)));
+    const statuses = answers.map((r) => r.status).sort();
+    expect(statuses.filter((s) => s === 202)).toHaveLength(20);
+    expect(statuses.filter((s) => s === 413)).toHaveLength(10);
+    for (const r of answers.filter((a) => a.status === 413)) expect(r.body.error.code).toBe("too_many_clips");
+    expect(await clipCount(kit, exam.id)).toBe(20);
+    const positions = (await kit.db("clips").where("exam_id", exam.id).orderBy("position").pluck("position")) as number[];
+    expect(positions).toEqual(Array.from({ length: 20 }, (_, i) => i));
+    // One stored original per kept clip, none for a refused one; no temporary files.
+    const originals = fs.readdirSync(path.join(kit.config.storageDir, "programs", programId, "clips")).filter((id) => answers.some((a) => a.body?.id === id));
+    expect(originals).toHaveLength(20);
+    expect(storedFor(kit, programId).length - before).toBe(20);
+    expect(filesUnder(kit.config.uploads.tempDir)).toEqual([]);
+  }, 60_000);
+});

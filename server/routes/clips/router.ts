@@ -148,8 +148,11 @@ export function registerClipRoutes(kit: RouteKit, { db, storage, config, jobs }:
         let row: ClipRow;
         try {
           row = await db.transaction(async (trx) => {
-            // Serialises uploads to one exam so positions stay 0, 1, 2… under concurrency.
+            // Serialises uploads to one exam so positions stay 0, 1, 2… under concurrency,
+            // and makes the limit hold: the count checked before the upload may be stale.
             await trx("exams").where("id", exam.id).forUpdate().first("id");
+            const [{ count }] = await trx("clips").where("exam_id", exam.id).count<{ count: string }[]>("* as count");
+            if (Number(count) >= config.uploads.maxClipsPerExam) throw tooManyClips();
             const [{ max }] = await trx("clips").where("exam_id", exam.id).max<{ max: number | null }[]>("position as max");
             const [r] = await trx("clips")
               .insert({
