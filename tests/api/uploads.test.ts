@@ -133,3 +133,43 @@ describe("the per-exam clip limit under parallel uploads", () => {
     expect(filesUnder(kit.config.uploads.tempDir)).toEqual([]);
   }, 60_000);
 });
+
+describe("a storage that fails while storing", () => {
+  it("answers 507 storage_full and keeps no clip row and no part of the file", async () => {
+    const failing = isolatedKit(
+      "failing",
+      {},
+      {
+        // Writes the object, then fails like a disk that filled up during the write.
+        wrapStorage: (real) => ({
+          ...real,
+          driver: real.driver,
+          put: async (key, source, type) => {
+            await real.put(key, source, type);
+            throw Object.assign(new Error("ENOSPC: no space left on device, write"), { code: "ENOSPC" });
+          },
+          get: real.get.bind(real),
+          size: real.size.bind(real),
+          download: real.download.bind(real),
+          delete: real.delete.bind(real),
+        }),
+      },
+    );
+    try {
+      const exam = await makeExam(failing.db, programId, sono.id);
+      const dir = fixtureDir();
+      const res = await request(failing.app)
+        .post(`/api/exams/${exam.id}/clips`)
+        .set("Authorization", `Bearer ${await tokenFor(failing, sono)}`)
+        .attach("file", await png(dir, "full.png", 77));
+      expect(res.status, JSON.stringify(res.body)).toBe(507);
+      expect(res.body.error.code).toBe("storage_full");
+      expect(res.body.error.message).toMatch(/^file: /);
+      expect(await clipCount(failing, exam.id)).toBe(0);
+      expect(storedFor(failing, programId)).toEqual([]);
+      expect(filesUnder(failing.config.uploads.tempDir)).toEqual([]);
+    } finally {
+      await failing.close();
+    }
+  });
+});

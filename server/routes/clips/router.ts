@@ -54,7 +54,7 @@ const storageFailed = (err: unknown) => {
   );
 };
 
-export function registerClipRoutes(kit: RouteKit, { db, storage, config, jobs }: RouteContext) {
+export function registerClipRoutes(kit: RouteKit, { db, storage, config, jobs, log }: RouteContext) {
   fs.mkdirSync(config.uploads.tempDir, { recursive: true });
   const tooManyClips = () => new HttpError(413, "too_many_clips", `An exam holds at most ${config.uploads.maxClipsPerExam} clips`);
   const upload = multer({
@@ -144,7 +144,14 @@ export function registerClipRoutes(kit: RouteKit, { db, storage, config, jobs }:
         const originalKey = `programs/${user.programId}/clips/${clipId}/original`;
         const duplicate = await db("clips").where({ exam_id: exam.id, sha256: digest }).first("id");
         if (duplicate) throw new HttpError(409, "duplicate_clip", "file: this exact file is already attached to the exam", { clipId: duplicate.id });
-        await storage.put(originalKey, file.path, media.mime);
+        try {
+          await storage.put(originalKey, file.path, media.mime);
+        } catch (err) {
+          // A put that failed half-way may have left part of the object behind.
+          await storage.delete(originalKey).catch(() => undefined);
+          log(err);
+          throw storageFailed(err);
+        }
         let row: ClipRow;
         try {
           row = await db.transaction(async (trx) => {
