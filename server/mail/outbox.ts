@@ -61,7 +61,9 @@ export async function deliverDueMail(db: Db, transport: Mailer, s: OutboxSetting
   for (const row of rows) {
     try {
       await transport.send({ to: row.to, subject: row.subject, text: row.text, html: row.html ?? undefined });
-      await db("mail_outbox").where("id", row.id).update({ sent_at: db.fn.now(), next_attempt_at: null, last_error: null });
+      // The body goes once sent: it may hold a one-time link (reset, invitation) that the
+      // database otherwise keeps only as a hash. Recipient, subject and times stay.
+      await db("mail_outbox").where("id", row.id).update({ sent_at: db.fn.now(), next_attempt_at: null, last_error: null, text: "", html: null });
       sent++;
     } catch (err) {
       failed++;

@@ -87,6 +87,9 @@ describe("mail outbox", () => {
     for (const row of sent) {
       expect(row.next_attempt_at).toBeNull();
       expect(row.last_error).toBeNull();
+      // The one-time links are not kept once delivered.
+      expect(row.text).toBe("");
+      expect(row.html).toBeNull();
     }
   }, 60_000);
 
