@@ -10,6 +10,7 @@ import { OpenAPIRegistry, OpenApiGeneratorV31 } from "@asteasolutions/zod-to-ope
 import type { Db } from "./db/knex";
 import type { Config } from "./config";
 import { apiNotFound, errorHandler } from "./http/errors";
+import { hstsWhenSecure, sameOriginGuard } from "./http/security";
 import type { RouteKit } from "./http/route";
 import { createAuthenticate } from "./auth/passport";
 import { registerHealthRoutes } from "./routes/health/router";
@@ -55,10 +56,21 @@ export function buildApp(deps: AppDeps) {
   app.use(
     helmet({
       contentSecurityPolicy: {
-        directives: { "img-src": ["'self'", "data:", "blob:"], "media-src": ["'self'", "blob:"] },
+        // Styles and fonts come from the built client's own files only; React's style
+        // props go through the CSSOM, which style-src does not govern.
+        directives: {
+          "img-src": ["'self'", "data:", "blob:"],
+          "media-src": ["'self'", "blob:"],
+          "style-src": ["'self'"],
+          "font-src": ["'self'", "data:"],
+        },
       },
+      // Sent by hstsWhenSecure, only over HTTPS: a plain-HTTP answer may not set it (RFC 6797 section 7.2).
+      strictTransportSecurity: false,
     }),
   );
+  app.use(hstsWhenSecure);
+  app.use("/api", sameOriginGuard(deps.config.appUrl));
   app.use("/api", express.json({ limit: deps.config.jsonBodyLimit }));
   app.use("/api", cookieParser());
 
