@@ -77,7 +77,9 @@ describe("malformed multipart", () => {
     const cases: [string, string, Buffer][] = [
       ["truncated", `multipart/form-data; boundary=${b}`, whole.subarray(0, whole.length - 40)],
       ["no boundary", "multipart/form-data", whole],
-      ["control characters in the name", `multipart/form-data; boundary=${b}`, multipart(b, "sc\u0001an\u0000\u007f.png", pngBytes)],
+      ["NUL in the name", `multipart/form-data; boundary=${b}`, multipart(b, "sc\u0000an.png", pngBytes)],
+      ["control characters in the name", `multipart/form-data; boundary=${b}`, multipart(b, "sc\u0001an\u007f.png", pngBytes)],
+      ["a tab in the name", `multipart/form-data; boundary=${b}`, multipart(b, "sc\tan.png", pngBytes)],
       [
         "NUL in the view field",
         `multipart/form-data; boundary=${b}`,
