@@ -29,7 +29,14 @@ export interface Config {
   /** What happens to an original upload once its exam is submitted. */
   originalRetention: "delete_on_submit" | "keep";
   jobs: { schema: string; retryLimit: number; retryDelaySeconds: number; expireInSeconds: number; stuckAfterSeconds: number; runWorker: boolean };
-  loginRateLimit: { windowMs: number; max: number };
+  /**
+   * Limits of anonymous requests, each per window: `max` failed sign-ins per account and
+   * client, `perAccount` failed sign-ins of one account from all clients, `perClient` failed
+   * sign-ins of one client over all accounts; `anonymousPerClient` requests of one client to
+   * the other public routes that do work (password reset, invitations), `anonymousPerKey`
+   * of those per e-mail address or token.
+   */
+  loginRateLimit: { windowMs: number; max: number; perAccount: number; perClient: number; anonymousPerClient: number; anonymousPerKey: number };
   jsonBodyLimit: string;
   trustProxy: boolean | number;
   bcryptRounds: number;
@@ -114,6 +121,19 @@ function storageSettings(env: NodeJS.ProcessEnv): Config["storage"] {
   };
 }
 
+function rateLimits(env: NodeJS.ProcessEnv): Config["loginRateLimit"] {
+  const max = int(env.LOGIN_RATE_MAX, 10, "LOGIN_RATE_MAX");
+  // The wider limits follow LOGIN_RATE_MAX unless set on their own.
+  return {
+    windowMs: int(env.LOGIN_RATE_WINDOW_MS, 15 * 60_000, "LOGIN_RATE_WINDOW_MS"),
+    max,
+    perAccount: int(env.LOGIN_RATE_MAX_PER_ACCOUNT, 3 * max, "LOGIN_RATE_MAX_PER_ACCOUNT"),
+    perClient: int(env.LOGIN_RATE_MAX_PER_CLIENT, 5 * max, "LOGIN_RATE_MAX_PER_CLIENT"),
+    anonymousPerClient: int(env.ANON_RATE_MAX_PER_CLIENT, 5 * max, "ANON_RATE_MAX_PER_CLIENT"),
+    anonymousPerKey: int(env.ANON_RATE_MAX_PER_KEY, max, "ANON_RATE_MAX_PER_KEY"),
+  };
+}
+
 /**
  * Reads the configuration; throws ConfigError when a setting is unusable. `dataDir` is where
  * a development run keeps its generated JWT secret (the checkout's .data by default).
@@ -163,10 +183,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, opts: { dataDir
       stuckAfterSeconds: int(env.JOB_STUCK_AFTER_SECONDS, 20 * 60, "JOB_STUCK_AFTER_SECONDS"),
       runWorker: env.RUN_WORKER !== "false",
     },
-    loginRateLimit: {
-      windowMs: int(env.LOGIN_RATE_WINDOW_MS, 15 * 60_000, "LOGIN_RATE_WINDOW_MS"),
-      max: int(env.LOGIN_RATE_MAX, 10, "LOGIN_RATE_MAX"),
-    },
+    loginRateLimit: rateLimits(env),
     jsonBodyLimit: env.JSON_BODY_LIMIT ?? "1mb",
     trustProxy: env.TRUST_PROXY ? (/^\d+$/.test(env.TRUST_PROXY) ? Number(env.TRUST_PROXY) : env.TRUST_PROXY === "true") : false,
     digestCron: env.DIGEST_CRON ?? "0 7 * * *",

@@ -10,6 +10,7 @@ import { createJobQueue, DIGEST_QUEUE } from "./jobs/queue";
 import { sendOverdueDigests } from "./services/notify";
 import { startMediaWorker } from "./jobs/worker";
 import { buildApp } from "./app";
+import { closePasswordPool } from "./auth/passwords";
 
 export async function createRuntime(config: Config, opts: { worker: boolean; migrate?: boolean }) {
   const db = createDb(config.databaseUrl);
@@ -36,6 +37,7 @@ export async function createRuntime(config: Config, opts: { worker: boolean; mig
       await queue.stop();
       await sender?.stop();
       mailer.close();
+      await closePasswordPool();
       await db.destroy();
     },
   };

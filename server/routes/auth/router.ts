@@ -1,18 +1,13 @@
 // Sign-in, sign-out, the current user, password reset and change, invitation acceptance.
 import { z } from "zod";
-import { rateLimit, ipKeyGenerator } from "express-rate-limit";
-import type { RequestHandler } from "express";
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../app";
-import { HttpError, validationError } from "../../http/errors";
+import { HttpError } from "../../http/errors";
 import {
-  acceptInvitationNewSchema,
-  acceptInvitationSchema,
   myProgramsSchema,
   programChoiceSchema,
   changePasswordSchema,
   forgotPasswordSchema,
-  invitationPreviewSchema,
   loginResponseSchema,
   loginSchema,
   resetPasswordSchema,
@@ -26,29 +21,18 @@ import { revokeSessions } from "../../repositories/sessions";
 import { audit } from "../../repositories/audit";
 import { openSession } from "../../services/sign-in";
 import { passwordResetMail } from "../../mail/templates";
+import { authLimiters } from "./limits";
+import { registerInvitationRoutes } from "./invitations";
 import { queueMail } from "../../mail/outbox";
 
 const RESET_MINUTES = 60;
 const invalidCredentials = () => new HttpError(401, "invalid_credentials", "E-mail or password is incorrect");
 
-function limiter(windowMs: number, limit: number, key: (req: Parameters<RequestHandler>[0]) => string): RequestHandler {
-  return rateLimit({
-    windowMs,
-    limit,
-    standardHeaders: "draft-8",
-    legacyHeaders: false,
-    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? "unknown")}|${key(req)}`,
-    handler: (_req, _res, next) => next(new HttpError(429, "rate_limited", "Too many attempts; wait a few minutes and try again")),
-  });
-}
-
-const bodyEmail = (req: { body?: { email?: unknown } }) => (typeof req.body?.email === "string" ? req.body.email.trim().toLowerCase() : "");
-
-export function registerAuthRoutes(kit: RouteKit, { db, config }: RouteContext) {
-  // Counted per address and client, failures only: a right password resets nothing, but
-  // once the limit is reached even a right password waits out the window.
-  const loginLimiter = limiter(config.loginRateLimit.windowMs, config.loginRateLimit.max, bodyEmail);
-  const forgotLimiter = limiter(config.loginRateLimit.windowMs, config.loginRateLimit.max, bodyEmail);
+export function registerAuthRoutes(kit: RouteKit, ctx: RouteContext) {
+  const { db, config } = ctx;
+  // Sign-in counts failures only; once a limit is reached even a right password waits out
+  // the window. See ./limits.ts.
+  const limits = authLimiters(config.loginRateLimit);
 
   defineRoute(kit, {
     method: "post",
@@ -57,7 +41,7 @@ export function registerAuthRoutes(kit: RouteKit, { db, config }: RouteContext) 
     tag: "auth",
     access: "public",
     body: loginSchema,
-    before: [loginLimiter],
+    before: limits.login,
     responses: {
       200: { description: "Signed in; also sets the httpOnly session cookie", schema: loginResponseSchema },
       429: { description: "Too many attempts" },
@@ -123,8 +107,8 @@ export function registerAuthRoutes(kit: RouteKit, { db, config }: RouteContext) 
     tag: "auth",
     access: "public",
     body: forgotPasswordSchema,
-    before: [forgotLimiter],
-    responses: { 202: { description: "If the address belongs to a member, a link is on its way" } },
+    before: limits.forgot,
+    responses: { 202: { description: "If the address belongs to a member, a link is on its way" }, 429: { description: "Too many attempts" } },
     handler: async ({ res, body }) => {
       const user = await db("users").where("email", body.email).first("id", "email");
       const memberships = user ? await activeMemberships(db, user.id) : [];
@@ -152,14 +136,19 @@ export function registerAuthRoutes(kit: RouteKit, { db, config }: RouteContext) 
     tag: "auth",
     access: "public",
     body: resetPasswordSchema,
-    responses: { 204: { description: "Password set; every session of the user is signed out" } },
+    before: limits.byToken,
+    responses: { 204: { description: "Password set; every session of the user is signed out" }, 429: { description: "Too many attempts" } },
     handler: async ({ req, body }) => {
+      const tokenHash = hashToken(body.token);
+      const usable = (r: { used_at: Date | null; expires_at: Date } | undefined) => Boolean(r && !r.used_at && r.expires_at > new Date());
+      const invalid = () => new HttpError(400, "invalid_token", "token: this reset link is invalid, used or expired; ask for a new one");
+      // The token first: a bad one costs a lookup, never a hash.
+      if (!usable(await db("password_resets").where("token_hash", tokenHash).first("used_at", "expires_at"))) throw invalid();
       const passwordHash = await hashPassword(body.password, config.bcryptRounds);
       await db.transaction(async (trx) => {
-        const reset = await trx("password_resets").where("token_hash", hashToken(body.token)).forUpdate().first();
-        if (!reset || reset.used_at || reset.expires_at < new Date()) {
-          throw new HttpError(400, "invalid_token", "token: this reset link is invalid, used or expired; ask for a new one");
-        }
+        // Checked again under the row lock: two requests with one link set one password.
+        const reset = await trx("password_resets").where("token_hash", tokenHash).forUpdate().first();
+        if (!usable(reset)) throw invalid();
         await trx("users").where("id", reset.user_id).update({ password_hash: passwordHash, password_changed_at: trx.fn.now() });
         // Every outstanding link of this user dies with the one just used.
         await trx("password_resets").where("user_id", reset.user_id).whereNull("used_at").update({ used_at: trx.fn.now() });
@@ -237,84 +226,5 @@ export function registerAuthRoutes(kit: RouteKit, { db, config }: RouteContext) 
     },
   });
 
-  const openInvitation = (trx: typeof db, token: string) =>
-    trx("invitations as i")
-      .join("programs as p", "p.id", "i.program_id")
-      .where("i.token_hash", hashToken(token))
-      .whereNull("i.accepted_at")
-      .whereNull("i.revoked_at")
-      .andWhere("i.expires_at", ">", trx.fn.now());
-
-  const invitationNotFound = () => new HttpError(404, "invitation_not_found", "This invitation is invalid, used, revoked or expired");
-
-  defineRoute(kit, {
-    method: "get",
-    path: "/auth/invitations/:token",
-    summary: "What an invitation offers, for the accept page",
-    tag: "auth",
-    access: "public",
-    params: z.object({ token: z.string().min(20).max(200) }),
-    responses: { 200: { description: "The invitation", schema: invitationPreviewSchema }, 404: { description: "Not valid" } },
-    handler: async ({ params }) => {
-      const inv = await openInvitation(db, params.token).first("i.email", "i.roles", "i.name", "p.name as program_name");
-      if (!inv) throw invitationNotFound();
-      const existing = await db("users").where("email", inv.email).whereNotNull("password_hash").first("id");
-      return { email: inv.email, programName: inv.program_name, roles: inv.roles, existingUser: Boolean(existing), name: inv.name ?? null };
-    },
-  });
-
-  defineRoute(kit, {
-    method: "post",
-    path: "/auth/invitations/accept",
-    summary: "Accept an invitation: set a password (or confirm your existing one) and join the program",
-    tag: "auth",
-    access: "public",
-    body: acceptInvitationSchema,
-    responses: { 200: { description: "Joined and signed in", schema: loginResponseSchema }, 404: { description: "Not valid" } },
-    handler: async ({ req, res, body }) => {
-      const existingAccount = await db("users")
-        .where("email", db("invitations").where("token_hash", hashToken(body.token)).select("email").limit(1))
-        .whereNotNull("password_hash")
-        .first("id");
-      if (!existingAccount) {
-        // A new person: the stricter rules of a new account apply.
-        const strict = acceptInvitationNewSchema.safeParse(body);
-        if (!strict.success) throw validationError(strict.error, "body");
-      }
-      const passwordHash = await hashPassword(body.password, config.bcryptRounds);
-      return db.transaction(async (trx) => {
-        const inv = await openInvitation(trx, body.token).forUpdate("i").first("i.*", "p.name as program_name");
-        if (!inv) throw invitationNotFound();
-        let user = await trx("users").where("email", inv.email).forUpdate().first("id", "name", "email", "password_hash");
-        if (user?.password_hash) {
-          // An existing account proves itself with its own password.
-          if (!(await verifyPassword(body.password, user.password_hash, config.bcryptRounds))) {
-            throw new HttpError(400, "wrong_password", "password: you already have an account; enter its current password to join");
-          }
-        } else if (user) {
-          await trx("users").where("id", user.id).update({ name: body.name!, password_hash: passwordHash, password_changed_at: trx.fn.now() });
-        } else {
-          [user] = await trx("users")
-            .insert({ email: inv.email, name: body.name!, password_hash: passwordHash, password_changed_at: trx.fn.now() })
-            .returning(["id", "name", "email"]);
-        }
-        await trx.raw(
-          `INSERT INTO memberships (user_id, program_id, roles) VALUES (?, ?, ?)
-           ON CONFLICT (user_id, program_id) DO UPDATE SET roles = EXCLUDED.roles, deactivated_at = NULL`,
-          [user!.id, inv.program_id, inv.roles],
-        );
-        await trx("invitations").where("id", inv.id).update({ accepted_at: trx.fn.now() });
-        await audit(trx, {
-          programId: inv.program_id,
-          actorUserId: user!.id,
-          action: "invitation.accepted",
-          entityType: "invitation",
-          entityId: inv.id,
-          ip: req.ip,
-        });
-        const me = (await activeMemberships(trx, user!.id)).find((m) => m.programId === inv.program_id)!;
-        return openSession(trx, config, req, res, me, "auth.signed_in");
-      });
-    },
-  });
+  registerInvitationRoutes(kit, ctx, limits.byToken);
 }
