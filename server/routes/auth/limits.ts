@@ -38,7 +38,13 @@ export function authLimiters(limits: Config["loginRateLimit"]) {
   // One budget per client across all the non-sign-in public routes.
   const anonymousClient = limiter("anon-client", w, limits.anonymousPerClient, client);
   return {
-    login: [limiter("login-client-account", w, limits.max, (req) => `${client(req)}|${bodyEmail(req)}`)],
+    login: [
+      limiter("login-client-account", w, limits.max, (req) => `${client(req)}|${bodyEmail(req)}`, true),
+      // Guessing one account's password from many addresses…
+      limiter("login-account", w, limits.perAccount, bodyEmail, true),
+      // …and one address trying a password on many accounts.
+      limiter("login-client", w, limits.perClient, client, true),
+    ],
     forgot: [anonymousClient, limiter("forgot-email", w, limits.anonymousPerKey, bodyEmail)],
     byToken: [anonymousClient, limiter("token", w, limits.anonymousPerKey, token)],
   };
