@@ -106,7 +106,7 @@ try {
   const runtime = await createRuntime(config, { worker: config.jobs.runWorker });
   cleanups.push({ name: "the app (worker, job queue, database pool, mailer)", stop: () => runtime.close() });
   checkpoint();
-  if (await seedDemoIfEmpty(runtime.db)) console.log("Seeded the demo programs.");
+  if (await seedDemoIfEmpty(runtime.db, config.bcryptRounds)) console.log("Seeded the demo programs.");
   checkpoint();
   if (env.SEED_DEMO_EXAMS !== "false") {
     const deps = { db: runtime.db, storage: runtime.storage, jobs: runtime.queue };

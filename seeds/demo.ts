@@ -42,8 +42,11 @@ export const DEMO_PROGRAMS: { name: string; slug: string; users: DemoUser[] }[] 
   },
 ];
 
-/** Seeds the demo when the database holds no program yet; returns whether it did. */
-export async function seedDemoIfEmpty(db: Db, bcryptRounds = 10): Promise<boolean> {
+/**
+ * Seeds the demo when the database holds no program yet; returns whether it did. Pass the
+ * configured bcrypt cost: seeded accounts must cost as much to check as any other.
+ */
+export async function seedDemoIfEmpty(db: Db, bcryptRounds: number): Promise<boolean> {
   const hash = await hashPassword(DEMO_PASSWORD, bcryptRounds);
   return db.transaction(async (trx) => {
     // Serialises concurrent first starts: only one seeds.

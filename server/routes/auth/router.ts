@@ -13,7 +13,7 @@ import {
   resetPasswordSchema,
   sessionUserSchema,
 } from "../../../shared/schemas/auth";
-import { verifyPassword, hashPassword } from "../../auth/passwords";
+import { verifyPassword, hashPassword, hashCost } from "../../auth/passwords";
 import { clearSessionCookie } from "../../auth/cookies";
 import { hashToken, newEmailToken } from "../../auth/tokens";
 import { activeMemberships } from "../../repositories/members";
@@ -29,10 +29,27 @@ const RESET_MINUTES = 60;
 const invalidCredentials = () => new HttpError(401, "invalid_credentials", "E-mail or password is incorrect");
 
 export function registerAuthRoutes(kit: RouteKit, ctx: RouteContext) {
-  const { db, config } = ctx;
+  const { db, config, log } = ctx;
   // Sign-in counts failures only; once a limit is reached even a right password waits out
   // the window. See ./limits.ts.
   const limits = authLimiters(config.loginRateLimit);
+
+  async function sendResetLink(email: string) {
+    const user = await db("users").where("email", email).first("id", "email");
+    const memberships = user ? await activeMemberships(db, user.id) : [];
+    if (!user || memberships.length === 0) return;
+    const { token, hash } = newEmailToken();
+    const link = `${config.appUrl}/reset-password?token=${token}`;
+    await db.transaction(async (trx) => {
+      await trx("password_resets").insert({
+        user_id: user.id,
+        token_hash: hash,
+        expires_at: trx.raw(`now() + make_interval(mins => ?)`, [RESET_MINUTES]),
+      });
+      // Delivered by the outbox's sender.
+      await queueMail(trx, passwordResetMail({ to: user.email, link, expiresMinutes: RESET_MINUTES }));
+    });
+  }
 
   defineRoute(kit, {
     method: "post",
@@ -60,6 +77,12 @@ export function registerAuthRoutes(kit: RouteKit, ctx: RouteContext) {
           details: { email: body.email },
         });
         throw invalidCredentials();
+      }
+      // Hashes made at another cost (an older setting, the demo seed) are renewed at the
+      // configured one, so every account costs the same to check as the unknown-address path.
+      if (hashCost(user!.password_hash) !== config.bcryptRounds) {
+        const renewed = await hashPassword(body.password, config.bcryptRounds);
+        await db("users").where({ id: user!.id, password_hash: user!.password_hash }).update({ password_hash: renewed });
       }
       return db.transaction((trx) => openSession(trx, config, req, res, chosen, "auth.signed_in"));
     },
@@ -109,23 +132,11 @@ export function registerAuthRoutes(kit: RouteKit, ctx: RouteContext) {
     body: forgotPasswordSchema,
     before: limits.forgot,
     responses: { 202: { description: "If the address belongs to a member, a link is on its way" }, 429: { description: "Too many attempts" } },
-    handler: async ({ res, body }) => {
-      const user = await db("users").where("email", body.email).first("id", "email");
-      const memberships = user ? await activeMemberships(db, user.id) : [];
-      if (user && memberships.length > 0) {
-        const { token, hash } = newEmailToken();
-        // Delivered by the outbox's sender, so the response time does not tell whether the address exists.
-        const link = `${config.appUrl}/reset-password?token=${token}`;
-        await db.transaction(async (trx) => {
-          await trx("password_resets").insert({
-            user_id: user.id,
-            token_hash: hash,
-            expires_at: trx.raw(`now() + make_interval(mins => ?)`, [RESET_MINUTES]),
-          });
-          await queueMail(trx, passwordResetMail({ to: user.email, link, expiresMinutes: RESET_MINUTES }));
-        });
-      }
+    handler: ({ res, body }) => {
+      // Answered before any lookup: a real and an unknown address take the same path until
+      // the response is out, so its timing tells nothing. The work goes on in the background.
       res.status(202).json({ ok: true });
+      void sendResetLink(body.email).catch((err) => log({ msg: "password reset request failed", err }));
     },
   });
 
