@@ -4,6 +4,7 @@
 import type { Knex } from "knex";
 import type { Db } from "../db/knex";
 import { queueMail } from "../mail/outbox";
+import { threadReviewers } from "../policies/exam";
 import { feedbackReadyMail, overdueDigestMail, replyMail } from "../mail/templates";
 
 /** The sonographer's feedback is final: a notification and an e-mail. */
@@ -30,7 +31,7 @@ export async function feedbackReady(
 
 /** A sonographer's question reaches every reviewer who read the exam. */
 export async function replyPosted(trx: Knex.Transaction, appUrl: string, exam: { id: string; program_id: string; code: string }, body: string): Promise<void> {
-  const reviewers = await trx("reviews as r").join("users as u", "u.id", "r.reviewer_id").where("r.exam_id", exam.id).distinct("u.id", "u.email", "u.name");
+  const reviewers = await threadReviewers(trx, exam.id).distinct("u.id", "u.email", "u.name");
   if (reviewers.length) {
     await trx("notifications").insert(
       reviewers.map((r) => ({

@@ -225,3 +225,45 @@ describe("GET /api/reviews/questions", () => {
     expect(notes.body.items.some((n: { kind: string; examId: string }) => n.kind === "feedback_answer" && n.examId === exam.id)).toBe(true);
   });
 });
+
+describe("calibration readers and the learner's thread", () => {
+  it("keeps a reader whose only read was a calibration read out of the thread, the final result and the learner's feedback, but lets them see the exam", async () => {
+    const s = await setup();
+    const exam = await reviewedExam(s);
+    const spare = await reviewedExam(s);
+    const extra = await makeMember(kit.db, s.programId, ["reviewer"]);
+    const set = await post(s.lead, "/api/calibration-sets", {
+      name: "Thread check",
+      exams: [{ examId: exam.id }, { examId: spare.id }],
+      reviewerIds: [s.other.id, extra.id],
+    });
+    expect(set.status, JSON.stringify(set.body)).toBe(201);
+    for (let k = 0; k < 2; k++) {
+      const claim = await post(s.other, "/api/queue/next", {});
+      expect(claim.status).toBe(200);
+      // What the calibration read needs: the blinded exam.
+      expect((await get(s.other, `/api/exams/${claim.body.exam.id}`)).status).toBe(200);
+      const done = await post(s.other, `/api/assignments/${claim.body.assignment.id}/review`, {
+        scores: SCORES,
+        reads: READS,
+        feedback: "Calibration comment only for the QA lead.",
+        timeSpentSeconds: 30,
+      });
+      expect(done.body.examState).toBe("calibration");
+    }
+    await ask(s, exam.id, "Is a question seen by the calibration readers?");
+
+    expect((await get(s.other, `/api/exams/${exam.id}/messages`)).status).toBe(404);
+    expect((await post(s.other, `/api/exams/${exam.id}/messages`, { body: "Not mine to answer" })).status).toBe(404);
+    expect((await get(s.other, `/api/reviews/exams/${exam.id}`)).status).toBe(404);
+    expect((await get(s.other, "/api/reviews/questions")).body.items).toEqual([]);
+    const notes = await get(s.other, "/api/notifications");
+    expect(notes.body.items.filter((n: { kind: string }) => n.kind === "feedback_reply")).toEqual([]);
+    // The learner sees the deciding reviewer's comment only.
+    const fb = await get(s.sonographer, `/api/me/feedback/${exam.id}`);
+    expect(fb.body.comments.map((c: { text: string }) => c.text)).toEqual([FEEDBACK]);
+    // The real reader keeps the thread.
+    expect((await get(s.reader, `/api/exams/${exam.id}/messages`)).status).toBe(200);
+    expect((await get(s.reader, `/api/reviews/exams/${exam.id}`)).status).toBe(200);
+  });
+});

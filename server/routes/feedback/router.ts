@@ -11,7 +11,7 @@ import { creditFor, criteriaFor } from "../../../shared/rubric/logic";
 import { getRubric } from "../../repositories/rubrics";
 import { getSettings } from "../../repositories/settings";
 import { audit } from "../../repositories/audit";
-import { assertCanView } from "../../policies/exam";
+import { assertCanView, DECIDING_READS } from "../../policies/exam";
 import { replyPosted } from "../../services/notify";
 import type { AuthUser } from "../../auth/types";
 import type { Feedback } from "../../../shared/schemas/feedback";
@@ -48,8 +48,11 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config }: RouteConte
     const [rubrics, programSettings, reviews, outcomes, snippets, messages] = await Promise.all([
       Promise.all([...new Set<string>(rows.map((r) => r.rubric_id))].map((id) => getRubric(db, user.programId, id))),
       getSettings(db, user.programId),
+      // A calibration read's comment is for the QA lead's calibration, not the learner.
       db("reviews as v")
         .join("users as u", "u.id", "v.reviewer_id")
+        .join("assignments as va", "va.id", "v.assignment_id")
+        .whereIn("va.kind", DECIDING_READS)
         .whereIn("v.exam_id", ids)
         .orderBy("v.submitted_at")
         .select("v.exam_id", "u.name", "v.feedback", "v.submitted_at"),
@@ -201,7 +204,7 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config }: RouteConte
     responses: { 201: { description: "Posted" } },
     handler: async ({ req, res, user, params, body }) => {
       const exam = await db("exams").where({ id: params.id, program_id: user.programId }).first("id", "program_id", "sonographer_id", "status", "code");
-      const access = await assertCanView(db, user, exam);
+      const access = await assertCanView(db, user, exam, "thread");
       if (exam!.status !== "reviewed") throw new HttpError(409, "not_reviewed", "Questions open once the feedback is final");
       const posted = await db.transaction(async (trx) => {
         const [m] = await trx("feedback_messages")
@@ -242,7 +245,7 @@ export function registerFeedbackRoutes(kit: RouteKit, { db, config }: RouteConte
     responses: { 200: { description: "Messages" } },
     handler: async ({ user, params }) => {
       const exam = await db("exams").where({ id: params.id, program_id: user.programId }).first("id", "program_id", "sonographer_id", "status", "code");
-      const access = await assertCanView(db, user, exam);
+      const access = await assertCanView(db, user, exam, "thread");
       const settings = await getSettings(db, user.programId);
       const rows = await db("feedback_messages as m")
         .join("users as u", "u.id", "m.author_id")

@@ -4,6 +4,7 @@ import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../app";
 import { homeSchema, type Home } from "../../../shared/schemas/home";
 import { claimable } from "../../services/queue";
+import { reviewerReads } from "../../policies/exam";
 
 export function registerHomeRoutes(kit: RouteKit, { db }: RouteContext) {
   defineRoute(kit, {
@@ -63,7 +64,7 @@ export function registerHomeRoutes(kit: RouteKit, { db }: RouteContext) {
           // Exams I reviewed whose thread ends with a question from the sonographer.
           db("exams as e")
             .where("e.program_id", pid)
-            .whereExists((q) => q.select(db.raw("1")).from("reviews as v").whereRaw("v.exam_id = e.id").andWhere("v.reviewer_id", user.id))
+            .whereExists(reviewerReads(db, user.id, "thread", db.ref("e.id")))
             .whereRaw(
               `(SELECT m.author_id = e.sonographer_id FROM feedback_messages m WHERE m.exam_id = e.id ORDER BY m.created_at DESC, m.id DESC LIMIT 1) IS TRUE`,
             )

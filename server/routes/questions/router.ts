@@ -4,6 +4,7 @@
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../app";
 import { notFound } from "../../http/errors";
+import { DECIDING_READS, examAccess, reviewerReads } from "../../policies/exam";
 import { idParamsSchema } from "../../../shared/schemas/common";
 import { criteriaFor } from "../../../shared/rubric/logic";
 import { getRubric } from "../../repositories/rubrics";
@@ -46,7 +47,7 @@ export function registerQuestionRoutes(kit: RouteKit, { db }: RouteContext) {
               ORDER BY lm.created_at DESC, lm.id DESC LIMIT 1) AS last_from_sonographer`,
           ),
         );
-      if (!isLead(user)) q.whereExists(db("reviews as v").whereRaw("v.exam_id = e.id").andWhere("v.reviewer_id", user.id).select(db.raw("1")));
+      if (!isLead(user)) q.whereExists(reviewerReads(db, user.id, "thread", db.ref("e.id")));
       const rows = await q;
       return {
         items: rows.map((r) => ({
@@ -73,12 +74,28 @@ export function registerQuestionRoutes(kit: RouteKit, { db }: RouteContext) {
       const exam = await db("exams as e")
         .join("applications as ap", "ap.id", "e.application_id")
         .where({ "e.id": params.id, "e.program_id": user.programId })
-        .first("e.id", "e.code", "e.application_id", "e.performed_at", "e.setting", "e.status", "ap.code as app_code", "ap.name as app_name");
-      const review = exam
-        ? await db("reviews").where({ exam_id: exam.id, reviewer_id: user.id, program_id: user.programId }).orderBy("submitted_at", "desc").first()
-        : undefined;
+        .first(
+          "e.id",
+          "e.program_id",
+          "e.sonographer_id",
+          "e.code",
+          "e.application_id",
+          "e.performed_at",
+          "e.setting",
+          "e.status",
+          "ap.code as app_code",
+          "ap.name as app_name",
+        );
       // 404 rather than 403, as in policies/exam.ts: an id of an exam you did not read reveals nothing.
-      if (!exam || (!review && !isLead(user))) throw notFound("Exam");
+      // A calibration read alone gives no access: the final result is not its reader's to see.
+      const access = await examAccess(db, user, exam, "thread");
+      if (!exam || (access !== "reviewer" && access !== "lead")) throw notFound("Exam");
+      const review = await db("reviews as v")
+        .join("assignments as va", "va.id", "v.assignment_id")
+        .where({ "v.exam_id": exam.id, "v.reviewer_id": user.id, "v.program_id": user.programId })
+        .whereIn("va.kind", DECIDING_READS)
+        .orderBy("v.submitted_at", "desc")
+        .first("v.*");
 
       const [rubric, findings, result] = await Promise.all([
         review ? getRubric(db, user.programId, review.rubric_id) : Promise.resolve(undefined),
