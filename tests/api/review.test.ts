@@ -2,7 +2,7 @@
 // versions, double reads and adjudication, derived results, feedback delivery, bad input.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
-import { makeExam, makeKit, makeMember, makeProgram, mailsFor, tokenFor, waitForMail, type TestKit, type TestMember } from "./helpers";
+import { makeClip, makeExam, makeKit, makeMember, makeProgram, mailsFor, tokenFor, waitForMail, type TestKit, type TestMember } from "./helpers";
 import { queueSubmittedExam, sampledForSecondRead } from "../../server/services/queue";
 import { sendOverdueDigests } from "../../server/services/notify";
 
@@ -423,5 +423,71 @@ describe("sampling for a second read", () => {
     expect(picked.length).toBeLessThan(400 + 72);
     expect(ids.some((id) => sampledForSecondRead(id, 0))).toBe(false);
     expect(ids.every((id) => sampledForSecondRead(id, 1))).toBe(true);
+  });
+});
+
+describe("access through a claim or a handed adjudication", () => {
+  const get = async (m: TestMember, path: string) =>
+    request(kit.app)
+      .get(path)
+      .set("Authorization", await auth(m));
+
+  it("lets the reviewer a QA lead handed an adjudication open the blinded exam and its clip media, and nobody else", async () => {
+    const s = await setup(4);
+    const exam = await queued(s, { double: true, setting: "clinical" });
+    const clip = await makeClip(kit, { id: exam.id, program_id: s.programId }, "ready");
+    const a = await next(s.reviewers[0]);
+    const b = await next(s.reviewers[1]);
+    await review(s.reviewers[0], a.body.assignment.id, body({ scores: { quality: "4" } }));
+    expect((await review(s.reviewers[1], b.body.assignment.id, body({ scores: { quality: "1", depth: "too_deep" } }))).body.examState).toBe("adjudication");
+    const adj = await kit.db("assignments").where({ exam_id: exam.id, kind: "adjudication" }).first("id");
+    const handed = await request(kit.app)
+      .post(`/api/assignments/${adj.id}/reassign`)
+      .set("Authorization", await auth(s.lead))
+      .send({ reviewerId: s.reviewers[2].id });
+    expect(handed.status).toBe(200);
+
+    const seen = await get(s.reviewers[2], `/api/exams/${exam.id}`);
+    expect(seen.status, JSON.stringify(seen.body)).toBe(200);
+    const json = JSON.stringify(seen.body);
+    for (const secret of [s.sonographer.name, s.sonographer.email, s.sonographer.id]) expect(json).not.toContain(secret);
+    expect((await get(s.reviewers[2], `/api/clips/${clip.id}/media/video`)).status).toBe(200);
+    // A reviewer without a read or a handed adjudication still meets 404.
+    expect((await get(s.reviewers[3], `/api/exams/${exam.id}`)).status).toBe(404);
+    expect((await get(s.reviewers[3], `/api/clips/${clip.id}/media/video`)).status).toBe(404);
+  });
+
+  it("takes the exam, its media, autosave and submission away from a claim whose lease ran out, even before anyone re-claims it", async () => {
+    const s = await setup(1);
+    const exam = await queued(s);
+    const clip = await makeClip(kit, { id: exam.id, program_id: s.programId }, "ready");
+    const r = s.reviewers[0];
+    const a = await next(r);
+    const id = a.body.assignment.id;
+    expect((await get(r, `/api/exams/${exam.id}`)).status).toBe(200);
+    expect((await get(r, `/api/clips/${clip.id}/media/video`)).status).toBe(200);
+    const past = new Date(Date.now() - 1000);
+    await kit.db("assignments").where("id", id).update({ lease_expires_at: past });
+
+    expect((await get(r, `/api/exams/${exam.id}`)).status).toBe(404);
+    expect((await get(r, `/api/clips/${clip.id}/media/video`)).status).toBe(404);
+    const save = await request(kit.app)
+      .put(`/api/assignments/${id}/draft`)
+      .set("Authorization", await auth(r))
+      .send({ scores: { quality: "2" }, feedback: "after the lease" });
+    expect(save.status).toBe(409);
+    expect(save.body.error.code).toBe("claim_expired");
+    expect(save.body.error.message).toMatch(/ran out/);
+    const late = await review(r, id, body());
+    expect(late.status).toBe(409);
+    expect(late.body.error.code).toBe("claim_expired");
+    expect((await get(r, `/api/assignments/${id}`)).body.error.code).toBe("claim_expired");
+    // Nothing was revived or written: the lease is still over and no review exists.
+    const row = await kit.db("assignments").where("id", id).first();
+    expect(row.lease_expires_at.getTime()).toBe(past.getTime());
+    expect(await kit.db("reviews").where("assignment_id", id)).toHaveLength(0);
+    // Back in the queue: claiming it anew gives a fresh lease and access again.
+    expect((await next(r)).body.assignment.id).toBe(id);
+    expect((await get(r, `/api/exams/${exam.id}`)).status).toBe(200);
   });
 });

@@ -19,21 +19,31 @@ import type { Db } from "../../db/knex";
 
 /** The caller's own claim on an assignment (or 404/403/409 saying why not). */
 async function ownClaim(db: Db | Knex.Transaction, user: AuthUser, id: string, lock = false) {
-  const q = db("assignments").where({ id, program_id: user.programId }).first();
+  const q = db("assignments").where({ id, program_id: user.programId }).first(withLease(db));
   if (lock) q.forUpdate();
   const a = await q;
   if (!a || (a.reviewer_id !== user.id && a.assigned_to !== user.id)) throw notFound("Assignment");
   if (a.state === "submitted") throw new HttpError(409, "already_submitted", "This review has already been submitted");
   if (a.state !== "claimed" || a.reviewer_id !== user.id)
     throw new HttpError(409, "not_claimed", "You no longer hold this exam: the claim expired and it went back to the queue");
+  // README "Review rules": when the lease runs out the read goes back to the queue, so the holder lost it
+  // even while nobody has claimed it again (claim it anew with "Start next").
+  if (claimExpired(a)) throw claimExpiredError();
   return a;
 }
+
+/** An assignment row with `lease_over` computed by the database clock (the one the queue uses). */
+const withLease = (db: Db | Knex.Transaction) => ["*", db.raw("(lease_expires_at IS NULL OR lease_expires_at <= now()) AS lease_over")];
+const claimExpired = (a: { state: string; lease_over: boolean }) => a.state === "claimed" && a.lease_over;
+const claimExpiredError = () =>
+  new HttpError(409, "claim_expired", "Your claim on this exam ran out and the read went back to the queue; start the next exam to claim it again");
 
 export function registerQueueRoutes(kit: RouteKit, { db, config }: RouteContext) {
   /** Everything the scoring workspace needs for one assignment. */
   async function workspace(user: AuthUser, assignmentId: string) {
-    const a = await db("assignments").where({ id: assignmentId, program_id: user.programId }).first();
+    const a = await db("assignments").where({ id: assignmentId, program_id: user.programId }).first(withLease(db));
     if (!a || a.reviewer_id !== user.id) throw notFound("Assignment");
+    if (claimExpired(a)) throw claimExpiredError();
     const d = await examDetail(db, user.programId, a.exam_id);
     const [settings, rubric, views, findings, draft, snippets] = await Promise.all([
       getSettings(db, user.programId),

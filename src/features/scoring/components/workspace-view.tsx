@@ -96,7 +96,8 @@ export function WorkspaceView({ workspace, application, notice }: { workspace: W
   });
   const autosave = useDraftAutosave(assignment.id, body, version, draft?.savedAt ?? null);
   const leaseExpiresAt = autosave.state.kind === "saved" ? autosave.state.leaseExpiresAt : assignment.leaseExpiresAt;
-  const claimLost = autosave.state.kind === "lost" || (isApiError(submit.error, 409) && submit.error.code === "not_claimed");
+  const claimLost =
+    autosave.state.kind === "lost" || (isApiError(submit.error, 409) && (submit.error.code === "not_claimed" || submit.error.code === "claim_expired"));
 
   const changed = () => setVersion((v) => v + 1);
   const clearIssue = (place: string) =>
