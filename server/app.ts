@@ -30,6 +30,7 @@ import { registerProgressRoutes } from "./routes/progress/router";
 import { registerCalibrationRoutes } from "./routes/calibration/router";
 import { registerQuestionRoutes } from "./routes/questions/router";
 import type { Storage } from "./storage/types";
+import { log as defaultLog } from "./log";
 import type { JobQueue } from "./jobs/queue";
 
 export interface AppDeps {
@@ -49,7 +50,7 @@ const CLIENT_DIR = path.resolve(here, "..", process.env.CLIENT_DIST ?? "dist");
 
 /** Builds the app and returns it with the table of its API routes. */
 export function buildApp(deps: AppDeps) {
-  const log = deps.log ?? ((m: unknown) => console.error(m));
+  const log = deps.log ?? defaultLog;
   const app = express();
   app.disable("x-powered-by");
   app.set("trust proxy", deps.config.trustProxy);

@@ -11,22 +11,23 @@ import { sendOverdueDigests } from "./services/notify";
 import { startMediaWorker } from "./jobs/worker";
 import { buildApp } from "./app";
 import { closePasswordPool } from "./auth/passwords";
+import { log } from "./log";
 
 export async function createRuntime(config: Config, opts: { worker: boolean; migrate?: boolean }) {
   const db = createDb(config.databaseUrl);
   if (opts.migrate !== false) await migrate(db);
   const storage = createStorage(config);
-  const queue = await createJobQueue(config, { schedule: opts.worker });
-  const worker = opts.worker ? await startMediaWorker({ db, storage, config, queue }) : undefined;
+  const queue = await createJobQueue(config, { schedule: opts.worker, log });
+  const worker = opts.worker ? await startMediaWorker({ db, storage, config, queue, log }) : undefined;
   const mailer = createMailer(config.smtp);
-  const sender = opts.worker ? startMailSender(db, mailer, config.mailOutbox, (e) => console.error(e)) : undefined;
+  const sender = opts.worker ? startMailSender(db, mailer, config.mailOutbox, log) : undefined;
   if (opts.worker) {
     await queue.boss.schedule(DIGEST_QUEUE, config.digestCron, {}, { tz: "UTC" });
     await queue.boss.work(DIGEST_QUEUE, async () => {
       await sendOverdueDigests(db, config.appUrl);
     });
   }
-  const { app } = buildApp({ db, config, storage, jobs: queue });
+  const { app } = buildApp({ db, config, storage, jobs: queue, log });
   return {
     db,
     app,

@@ -7,14 +7,15 @@ import { createJobQueue } from "./jobs/queue";
 import { startMediaWorker } from "./jobs/worker";
 import { createMailer } from "./mail/mailer";
 import { startMailSender } from "./mail/outbox";
+import { log, logger } from "./log";
 
 const config = loadConfig();
 const db = createDb(config.databaseUrl, 4);
 const queue = await createJobQueue(config);
 const worker = await startMediaWorker({ db, storage: createStorage(config), config, queue });
 const mailer = createMailer(config.smtp);
-const sender = startMailSender(db, mailer, config.mailOutbox, (e) => console.error(e));
-console.log("Soundings media worker: waiting for clip jobs and outgoing mail");
+const sender = startMailSender(db, mailer, config.mailOutbox, log);
+logger.info("Soundings media worker: waiting for clip jobs and outgoing mail");
 const stop = async () => {
   await worker.stop();
   await sender.stop();

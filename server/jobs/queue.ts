@@ -3,6 +3,7 @@
 import PgBoss from "pg-boss";
 import type { Config } from "../config";
 import { isConnectionLoss } from "../db/connection-errors";
+import { log as defaultLog } from "../log";
 
 export const CLIP_QUEUE = "clip-process";
 /** Daily e-mail to reviewers about reads waiting past the program's turnaround target. */
@@ -34,7 +35,7 @@ export async function createJobQueue(config: Config, opts: { supervise?: boolean
     supervise: opts.supervise ?? true,
     maintenanceIntervalSeconds: 30,
   });
-  const log = opts.log ?? ((e: unknown) => console.error(e));
+  const log = opts.log ?? defaultLog;
   let stopping = false;
   let lossSaidAt = 0;
   // pg-boss polls and reports every failed poll: a lost database is said once a minute in

@@ -6,6 +6,7 @@ import type { Storage } from "../storage/types";
 import type { Config } from "../config";
 import { CLIP_QUEUE, type ClipJob, type JobQueue } from "./queue";
 import { processClipJob } from "./process-clip";
+import { log as defaultLog } from "../log";
 
 export interface MediaWorker {
   stop(): Promise<void>;
@@ -25,7 +26,7 @@ export async function sweepStuckClips(db: Db, queue: JobQueue, stuckAfterSeconds
 
 export async function startMediaWorker(deps: { db: Db; storage: Storage; config: Config; queue: JobQueue; log?: (e: unknown) => void }): Promise<MediaWorker> {
   const { db, storage, config, queue } = deps;
-  const log = deps.log ?? ((e: unknown) => console.error(e));
+  const log = deps.log ?? defaultLog;
   const sweep = () => sweepStuckClips(db, queue, config.jobs.stuckAfterSeconds);
   await sweep();
   const timer = setInterval(() => void sweep().catch(log), Math.max(5, Math.min(60, config.jobs.stuckAfterSeconds)) * 1000);
