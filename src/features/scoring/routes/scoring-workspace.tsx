@@ -31,13 +31,16 @@ export default function ScoringWorkspacePage() {
     );
   }
   if (query.isError) {
-    const gone = isApiError(query.error, 404) || isApiError(query.error, 400);
+    const expired = isApiError(query.error, 409) && query.error.code === "claim_expired";
+    const gone = expired || isApiError(query.error, 404) || isApiError(query.error, 400);
     return (
       <div>
         <PageHeader title="Scoring" eyebrow="Queue" />
         {gone ? (
           <EmptyState title="This exam is not in your hands" action={backToQueue}>
-            It was released, reassigned or never claimed by you. Start the next one from the queue.
+            {expired
+              ? "Your claim ran out and the exam went back to the queue. Start the next one from the queue to claim it again."
+              : "It was released, reassigned or never claimed by you. Start the next one from the queue."}
           </EmptyState>
         ) : (
           <ErrorState error={query.error} onRetry={() => void query.refetch()} retrying={query.isFetching} />
