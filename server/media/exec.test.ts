@@ -68,3 +68,12 @@ describe("processVideo under a time limit", () => {
     }
   });
 });
+
+describe("trimReason", () => {
+  it("drops ffmpeg's '[demuxer @ 0xaddress]' prefixes, which mean nothing to the reader", async () => {
+    const { trimReason } = await import("./exec");
+    expect(
+      trimReason("[mov,mp4,m4a,3gp,3g2,mj2 @ 0x5556f1c2d480] moov atom not found\nfile:/tmp/x: Invalid data found when processing input\n", ["file:/tmp/x"]),
+    ).toBe("moov atom not found; Invalid data found when processing input");
+  });
+});

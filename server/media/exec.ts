@@ -17,6 +17,8 @@ export function trimReason(stderr: string, args: readonly string[] = []): string
   // Storage paths mean nothing to the person reading the error (and reveal the server's layout).
   let text = stderr;
   for (const a of args) if (a.startsWith("file:")) text = text.split(`${a}: `).join("").split(a).join("the file");
+  // "[mov,mp4,m4a,3gp,3g2,mj2 @ 0x55d0c0a1b480] " names a demuxer instance by its memory address.
+  text = text.replace(/\[[^\]\n]* @ 0x[0-9a-f]+\] /g, "");
   const lines = text
     .split(/\r?\n/)
     .map((l) => l.trim())

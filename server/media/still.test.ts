@@ -142,6 +142,17 @@ describe("processStill", () => {
     await expect(processStill(f("bomb.jpg"), f("out-bomb-jpg"))).rejects.toThrow("The image is 60000×60000 pixels; the limit is 50 megapixels");
   });
 
+  it("fits the thumbnail of a tall, thin still inside 320×960 (not 320 wide and 1.28 million high)", async () => {
+    await sharp({ create: { width: 1, height: 4000, channels: 3, background: "#888" } })
+      .png()
+      .toFile(f("thin.png"));
+    const out = await processStill(f("thin.png"), f("out-thin"));
+    const thumb = await sharp(out.thumbPath).metadata();
+    expect(thumb.height).toBe(960);
+    expect(thumb.width).toBe(1);
+    expect([out.width, out.height]).toEqual([1, 4000]);
+  });
+
   it("refuses a file that is not an image with a readable error", async () => {
     await expect(processStill(f("notes.mp4"), f("out-bad"))).rejects.toThrow(/could not be read as an image/);
   });

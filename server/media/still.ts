@@ -3,7 +3,7 @@
 import fs from "node:fs/promises";
 import path from "node:path";
 import sharp, { type OutputInfo } from "sharp";
-import { MediaError } from "./exec";
+import { MediaError, trimReason } from "./exec";
 import { imageSizeProblem, MAX_PIXELS } from "./limits";
 import { redactionPixels, type Redaction } from "./plan";
 
@@ -15,6 +15,8 @@ export interface ProcessedStill {
 }
 
 export const THUMB_WIDTH = 320;
+/** A thumbnail's most height: a tall, thin still is fitted inside 320×960 instead of stretched to 320 wide. */
+export const THUMB_MAX_HEIGHT = 960;
 
 /** sharp's own cap on decoded pixels, in case a header understates what the decoder meets. */
 const SHARP_INPUT = { limitInputPixels: MAX_PIXELS } as const;
@@ -49,7 +51,8 @@ export async function processStill(input: string, outDir: string, opts: { redact
     decoded = await sharp(input, SHARP_INPUT).rotate().raw({ depth: "uchar" }).toBuffer({ resolveWithObject: true });
   } catch (err) {
     if (err instanceof MediaError) throw err;
-    throw new MediaError(`The file could not be read as an image: ${(err as Error).message}`);
+    // libvips reports one line per problem; keep the last distinct few on one line.
+    throw new MediaError(`The file could not be read as an image: ${trimReason((err as Error).message)}`);
   }
   const { data, info } = decoded;
   paintBlack(data, info.width, info.height, info.channels, info.channels === 2 || info.channels === 4, opts.redactions ?? []);
@@ -60,7 +63,11 @@ export async function processStill(input: string, outDir: string, opts: { redact
   try {
     const img = sharp(data, { raw });
     await (format === "png" ? img.png() : img.jpeg({ quality: 90 })).toFile(imagePath);
-    await sharp(data, { raw }).resize({ width: THUMB_WIDTH }).flatten({ background: "#000" }).jpeg({ quality: 80 }).toFile(thumbPath);
+    await sharp(data, { raw })
+      .resize({ width: THUMB_WIDTH, height: THUMB_MAX_HEIGHT, fit: "inside" })
+      .flatten({ background: "#000" })
+      .jpeg({ quality: 80 })
+      .toFile(thumbPath);
   } catch (err) {
     await Promise.all([imagePath, thumbPath].map((f) => fs.rm(f, { force: true })));
     throw err;
