@@ -114,7 +114,6 @@ async function referencedKeys(config: Config): Promise<string[]> {
 /** Writes a backup of `config`'s database and media into `folder` (which must not hold one). */
 export async function createBackup(config: Config, folder: string, log: (line: string) => void = console.log): Promise<Manifest> {
   if (fs.existsSync(path.join(folder, MANIFEST))) throw new BackupError(`${folder} already holds a backup (${MANIFEST}); choose another folder`);
-  await fsp.mkdir(path.join(folder, MEDIA_DIR), { recursive: true });
 
   const db = createDb(config.databaseUrl, 1);
   let schemaVersion: string | null;
@@ -125,6 +124,8 @@ export async function createBackup(config: Config, folder: string, log: (line: s
     await db.destroy();
   }
 
+  // The folder is made only once the database has answered.
+  await fsp.mkdir(path.join(folder, MEDIA_DIR), { recursive: true });
   run("pg_dump", ["-Fc", "--no-owner", "-f", path.join(folder, DUMP_FILE), `--dbname=${config.databaseUrl}`], "pg_dump");
   const database = await entry(folder, DUMP_FILE);
   log(`database: ${DUMP_FILE} (${database.size} bytes, schema ${schemaVersion ?? "none"})`);
