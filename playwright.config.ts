@@ -1,6 +1,7 @@
 // Browser tests run in Debian's Chromium (never a downloaded browser) against the app that
 // scripts/test-run.ts starts on a throw-away database; BASE_URL tells them where it is.
 import { defineConfig } from "@playwright/test";
+import { chromiumLaunchOptions } from "./tests/browser/chromium";
 
 export default defineConfig({
   testDir: "tests/browser",
@@ -13,18 +14,6 @@ export default defineConfig({
     baseURL: process.env.BASE_URL ?? "http://127.0.0.1:3000",
     screenshot: "only-on-failure",
     trace: "off",
-    launchOptions: {
-      executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
-      args: [
-        "--headless",
-        "--no-sandbox",
-        "--disable-gpu",
-        "--disable-quic",
-        "--no-first-run",
-        "--disable-background-networking",
-        "--disable-component-update",
-        "--disable-sync",
-      ],
-    },
+    launchOptions: chromiumLaunchOptions,
   },
 });

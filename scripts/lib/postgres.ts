@@ -50,10 +50,10 @@ export function clusterDir(preferred: string): string {
   return fallback;
 }
 
-/** True when something accepts TCP connections on 127.0.0.1:port. */
-export function portInUse(port: number): Promise<boolean> {
+/** True when something accepts TCP connections on host:port (loopback unless told). */
+export function portInUse(port: number, host = "127.0.0.1"): Promise<boolean> {
   return new Promise((resolve) => {
-    const s = net.connect({ host: "127.0.0.1", port }, () => {
+    const s = net.connect({ host, port }, () => {
       s.destroy();
       resolve(true);
     });

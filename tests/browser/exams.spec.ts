@@ -17,6 +17,34 @@ async function signIn(page: Page) {
   await expect(page.getByRole("heading", { level: 1, name: "Home" })).toBeVisible();
 }
 
+/** A new draft whose exam answer, on its way to the page, lists one clip in the given state. */
+async function draftShowingOneClip(page: Page, fields: { applicationCode: string; setting: string; transducer: string }, clip: Record<string, unknown>) {
+  const created = await page.request.post("/api/exams", {
+    data: { ...fields, performedAt: new Date(Date.now() - 3_600_000).toISOString(), preset: "", indication: "", findings: [] },
+  });
+  const { exam } = (await created.json()) as { exam: { id: string } };
+  await page.route(`**/api/exams/${exam.id}`, async (route) => {
+    const response = await route.fetch();
+    const body = (await response.json()) as { exam: Record<string, unknown> };
+    const shown = {
+      kind: "video",
+      sizeBytes: 3000,
+      width: null,
+      height: null,
+      seconds: null,
+      fps: null,
+      frames: null,
+      redactions: [],
+      precheck: null,
+      media: { video: null, image: null, poster: null, strip: null, thumb: null },
+      createdAt: new Date().toISOString(),
+      ...clip,
+    };
+    await route.fulfill({ response, json: { exam: { ...body.exam, clips: [shown] } } });
+  });
+  return exam;
+}
+
 async function shot(page: Page, testInfo: TestInfo, name: string) {
   const file = path.join(testInfo.project.outputDir, `${name}.png`);
   await page.screenshot({ path: file, fullPage: true });
@@ -206,42 +234,18 @@ test("on a draft's exam page, a redaction box added by keyboard is saved and the
 
 test("a clip being processed names its state once on the exam page", async ({ page }) => {
   await signIn(page);
-  const created = await page.request.post("/api/exams", {
-    data: {
-      applicationCode: "efast",
-      performedAt: new Date(Date.now() - 3_600_000).toISOString(),
-      setting: "simulated",
-      transducer: "curvilinear",
-      preset: "",
-      indication: "",
-      findings: [],
-    },
-  });
-  const { exam } = (await created.json()) as { exam: { id: string } };
   // The answer is altered on its way to the page so the clip stays "processing" while we look.
-  await page.route(`**/api/exams/${exam.id}`, async (route) => {
-    const response = await route.fetch();
-    const body = (await response.json()) as { exam: Record<string, unknown> };
-    const clip = {
+  const exam = await draftShowingOneClip(
+    page,
+    { applicationCode: "efast", setting: "simulated", transducer: "curvilinear" },
+    {
       id: "00000000-0000-4000-8000-000000000002",
       view: "ruq",
-      kind: "video",
       state: "processing",
       error: null,
       originalName: "sweep.mp4",
-      sizeBytes: 3000,
-      width: null,
-      height: null,
-      seconds: null,
-      fps: null,
-      frames: null,
-      redactions: [],
-      precheck: null,
-      media: { video: null, image: null, poster: null, strip: null, thumb: null },
-      createdAt: new Date().toISOString(),
-    };
-    await route.fulfill({ response, json: { exam: { ...body.exam, clips: [clip] } } });
-  });
+    },
+  );
   await page.goto(`/exams/${exam.id}`);
   const panel = page.getByRole("region", { name: "Clip 1: Right upper quadrant" });
   await expect(panel.getByRole("status", { name: "State of Clip 1: Right upper quadrant" })).toHaveText("Processing");
@@ -251,42 +255,18 @@ test("a clip being processed names its state once on the exam page", async ({ pa
 
 test("a clip that failed processing shows the reason and a Retry button", async ({ page }) => {
   await signIn(page);
-  const created = await page.request.post("/api/exams", {
-    data: {
-      applicationCode: "dvt",
-      performedAt: new Date(Date.now() - 3_600_000).toISOString(),
-      setting: "educational",
-      transducer: "linear",
-      preset: "",
-      indication: "",
-      findings: [],
-    },
-  });
-  const { exam } = (await created.json()) as { exam: { id: string } };
   // The answer is altered on its way to the page: a failure takes the worker several attempts.
-  await page.route(`**/api/exams/${exam.id}`, async (route) => {
-    const response = await route.fetch();
-    const body = (await response.json()) as { exam: Record<string, unknown> };
-    const clip = {
+  const exam = await draftShowingOneClip(
+    page,
+    { applicationCode: "dvt", setting: "educational", transducer: "linear" },
+    {
       id: "00000000-0000-4000-8000-000000000001",
       view: null,
-      kind: "video",
       state: "failed",
       error: "The video could not be read: the file ends before its first frame",
       originalName: "cut-short.mp4",
-      sizeBytes: 3000,
-      width: null,
-      height: null,
-      seconds: null,
-      fps: null,
-      frames: null,
-      redactions: [],
-      precheck: null,
-      media: { video: null, image: null, poster: null, strip: null, thumb: null },
-      createdAt: new Date().toISOString(),
-    };
-    await route.fulfill({ response, json: { exam: { ...body.exam, clips: [clip] } } });
-  });
+    },
+  );
   await page.goto(`/exams/${exam.id}/edit`);
   const row = page.getByRole("listitem", { name: "Clip cut-short.mp4" });
   await expect(row.getByText("Failed", { exact: true })).toBeVisible();

@@ -7,12 +7,12 @@ import { afterAll, describe, expect, it } from "vitest";
 import { spawn, type ChildProcess } from "node:child_process";
 import crypto from "node:crypto";
 import fs from "node:fs";
-import net from "node:net";
 import os from "node:os";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { chromium } from "@playwright/test";
-import { freePort } from "../../scripts/lib/postgres";
+import { chromiumLaunchOptions } from "../browser/chromium";
+import { freePort, portInUse } from "../../scripts/lib/postgres";
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "../..");
 const cleanups: (() => unknown)[] = [];
@@ -95,15 +95,6 @@ function pidAlive(pid: number): boolean {
   return !/^\d+ \(.*\) Z/.test(stat);
 }
 
-const reachable = (host: string, port: number) =>
-  new Promise<boolean>((resolve) => {
-    const s = net.connect({ host, port }, () => {
-      s.destroy();
-      resolve(true);
-    });
-    s.on("error", () => resolve(false));
-  });
-
 /** Lines that must never show in a stop: connection errors and stack frames. */
 const NOISE = /ECONNREFUSED|terminating connection|Acquire connection|Connection terminated|^\s+at .+:\d+:\d+\)?$/m;
 
@@ -137,21 +128,9 @@ describe("npm start", () => {
 
     // Loopback only: another local address (127.0.0.2 is the loopback device as well) is refused.
     expect(new URL(url!).hostname).toBe("127.0.0.1");
-    expect(await reachable("127.0.0.2", Number(port))).toBe(false);
+    expect(await portInUse(Number(port), "127.0.0.2")).toBe(false);
 
-    const browser = await chromium.launch({
-      executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
-      args: [
-        "--headless",
-        "--no-sandbox",
-        "--disable-gpu",
-        "--disable-quic",
-        "--no-first-run",
-        "--disable-background-networking",
-        "--disable-component-update",
-        "--disable-sync",
-      ],
-    });
+    const browser = await chromium.launch(chromiumLaunchOptions);
     try {
       const page = await browser.newPage();
       await page.goto(`${url}/`);
