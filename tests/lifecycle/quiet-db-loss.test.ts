@@ -19,6 +19,9 @@ beforeEach(() => {
     vi.spyOn(console, m).mockImplementation((...args: unknown[]) => void printed.push(args.map((a) => (a instanceof Error ? a.stack : String(a))).join(" ")));
 });
 afterEach(() => vi.restoreAllMocks());
+// The queue's own lines go to the logger it is given (the server's is silent under test), so
+// they are caught here; the pool's would reach the console, which is caught above.
+const log = (e: unknown) => void printed.push(e instanceof Error ? (e.stack ?? e.message) : String(e));
 
 const NOISE = /ECONNREFUSED|terminating connection|Acquire connection|Connection Error|^\s+at .+:\d+:\d+\)?$/m;
 const LOST_LINE = "Job queue: lost its database connection";
@@ -29,7 +32,7 @@ describe("a database that stops under open connections", () => {
     cleanups.push(() => cluster.destroy());
     const config = loadConfig({ NODE_ENV: "test", DATABASE_URL: cluster.url() });
     const db = createDb(config.databaseUrl, 2);
-    const queue = await createJobQueue(config); // the default log: console.error
+    const queue = await createJobQueue(config, { log });
     await queue.boss.work(CLIP_QUEUE, { pollingIntervalSeconds: 0.5 }, async () => {});
     await db.raw("select 1");
 
@@ -48,7 +51,7 @@ describe("a database that stops under open connections", () => {
   it("says a lost connection once, other errors in full, and nothing once the queue stops", async () => {
     const cluster = await startTemporaryCluster("soundings-quiet-");
     cleanups.push(() => cluster.destroy());
-    const queue = await createJobQueue(loadConfig({ NODE_ENV: "test", DATABASE_URL: cluster.url() }));
+    const queue = await createJobQueue(loadConfig({ NODE_ENV: "test", DATABASE_URL: cluster.url() }), { log });
     const refused = Object.assign(new Error("connect ECONNREFUSED 127.0.0.1:5"), { code: "ECONNREFUSED" });
     for (let i = 0; i < 3; i++) queue.boss.emit("error", refused);
     expect(printed).toEqual([`${LOST_LINE} (ECONNREFUSED); retrying`]);
