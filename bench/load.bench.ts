@@ -13,13 +13,8 @@ import { startTemporaryCluster } from "../scripts/lib/postgres";
 import { createDb, migrate } from "../server/db/knex";
 import { loadConfig } from "../server/config";
 import { buildApp } from "../server/app";
+import { seedQueueProgram } from "./queue-program";
 import { createLocalStorage } from "../server/storage/local";
-import { insertCatalogue } from "../server/repositories/applications";
-import { ensureDefaultRubric } from "../server/repositories/rubrics";
-import { createSession } from "../server/repositories/sessions";
-import { signSessionToken } from "../server/auth/tokens";
-import { queueSubmittedExam } from "../server/services/queue";
-import { DEFAULT_CATALOGUE } from "../shared/catalogue";
 
 const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 100);
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 30);
@@ -31,49 +26,9 @@ const config = loadConfig({ NODE_ENV: "test", DATABASE_URL: cluster.url(), SMTP_
 const db = createDb(config.databaseUrl, 20);
 try {
   await migrate(db);
-  const [program] = await db("programs").insert({ name: "Load Bench Program", slug: "load-bench" }).returning("id");
-  await insertCatalogue(
-    db,
-    program.id,
-    DEFAULT_CATALOGUE.filter((a) => a.code === "aorta"),
-  );
-  await db.transaction((trx) => ensureDefaultRubric(trx, program.id));
-  const app = await db("applications").where("program_id", program.id).first("id");
-  const token = async (userId: string) => {
-    const sid = await createSession(db, { userId, programId: program.id, ttlSeconds: 3600 });
-    return signSessionToken(config.jwtSecret, { sub: userId, sid, pid: program.id }, 3600);
-  };
-  const [sono] = await db("users").insert({ email: "load-sono@bench.example", name: "Load Sonographer" }).returning("id");
-  await db("memberships").insert({ user_id: sono.id, program_id: program.id, roles: ["sonographer"] });
-  const sonoToken = await token(sono.id);
-  const reviewerTokens: string[] = [];
-  for (let i = 0; i < CONNECTIONS; i++) {
-    const [u] = await db("users")
-      .insert({ email: `load-reviewer-${i}@bench.example`, name: `Load Reviewer ${i}` })
-      .returning("id");
-    await db("memberships").insert({ user_id: u.id, program_id: program.id, roles: ["reviewer"] });
-    reviewerTokens.push(await token(u.id));
-  }
-  const exams = await db("exams")
-    .insert(
-      Array.from({ length: EXAMS }, (_, i) => ({
-        program_id: program.id,
-        sonographer_id: sono.id,
-        application_id: app.id,
-        code: `EX-L${i}`,
-        performed_at: new Date(),
-        setting: "clinical",
-        transducer: "curvilinear",
-        status: "submitted",
-        submitted_at: new Date(),
-        attested_at: new Date(),
-      })),
-    )
-    .returning(["id", "setting"]);
-  await db("exam_findings").insert(exams.map((e) => ({ exam_id: e.id, finding_key: "aneurysm", read: "negative" })));
-  await db.transaction(async (trx) => {
-    for (const e of exams) await queueSubmittedExam(trx, { id: e.id, program_id: program.id, setting: e.setting }, 0);
-  });
+  const seeded = await seedQueueProgram(db, config.jwtSecret, { tag: "Load", reviewers: CONNECTIONS, exams: EXAMS, setting: () => "clinical" });
+  const program = { id: seeded.programId };
+  const { sonographerToken: sonoToken, reviewerTokens, exams } = seeded;
   // One ready 4 MiB clip on the sonographer's first exam, for the Range requests.
   const clipId = crypto.randomUUID();
   const videoKey = `programs/${program.id}/clips/${clipId}/v1/video.mp4`;

@@ -8,13 +8,8 @@ import { startTemporaryCluster } from "../scripts/lib/postgres";
 import { createDb, migrate } from "../server/db/knex";
 import { loadConfig } from "../server/config";
 import { buildApp } from "../server/app";
+import { seedQueueProgram } from "./queue-program";
 import { createLocalStorage } from "../server/storage/local";
-import { insertCatalogue } from "../server/repositories/applications";
-import { ensureDefaultRubric } from "../server/repositories/rubrics";
-import { createSession } from "../server/repositories/sessions";
-import { signSessionToken } from "../server/auth/tokens";
-import { queueSubmittedExam } from "../server/services/queue";
-import { DEFAULT_CATALOGUE } from "../shared/catalogue";
 
 const REVIEWERS = 50;
 const EXAMS = 3000;
@@ -26,44 +21,11 @@ const config = loadConfig({ NODE_ENV: "test", DATABASE_URL: cluster.url(), SMTP_
 const db = createDb(config.databaseUrl, 20);
 try {
   await migrate(db);
-  const [program] = await db("programs").insert({ name: "Bench Program", slug: "bench" }).returning("id");
-  await insertCatalogue(
-    db,
-    program.id,
-    DEFAULT_CATALOGUE.filter((a) => a.code === "aorta"),
-  );
-  await db.transaction((trx) => ensureDefaultRubric(trx, program.id));
-  const app = await db("applications").where("program_id", program.id).first("id");
-  const [sono] = await db("users").insert({ email: "bench-sono@bench.example", name: "Bench Sonographer" }).returning("id");
-  await db("memberships").insert({ user_id: sono.id, program_id: program.id, roles: ["sonographer"] });
-  const tokens: string[] = [];
-  for (let i = 0; i < REVIEWERS; i++) {
-    const [u] = await db("users")
-      .insert({ email: `bench-reviewer-${i}@bench.example`, name: `Bench Reviewer ${i}` })
-      .returning("id");
-    await db("memberships").insert({ user_id: u.id, program_id: program.id, roles: ["reviewer"] });
-    const sid = await createSession(db, { userId: u.id, programId: program.id, ttlSeconds: 3600 });
-    tokens.push(signSessionToken(config.jwtSecret, { sub: u.id, sid, pid: program.id }, 3600));
-  }
-  const exams = await db("exams")
-    .insert(
-      Array.from({ length: EXAMS }, (_, i) => ({
-        program_id: program.id,
-        sonographer_id: sono.id,
-        application_id: app.id,
-        code: `EX-B${i}`,
-        performed_at: new Date(),
-        setting: i % 3 ? "clinical" : "educational",
-        transducer: "curvilinear",
-        status: "submitted",
-        submitted_at: new Date(),
-        attested_at: new Date(),
-      })),
-    )
-    .returning(["id", "setting"]);
-  await db("exam_findings").insert(exams.map((e) => ({ exam_id: e.id, finding_key: "aneurysm", read: "negative" })));
-  await db.transaction(async (trx) => {
-    for (const e of exams) await queueSubmittedExam(trx, { id: e.id, program_id: program.id, setting: e.setting }, 0);
+  const { reviewerTokens: tokens } = await seedQueueProgram(db, config.jwtSecret, {
+    tag: "Bench",
+    reviewers: REVIEWERS,
+    exams: EXAMS,
+    setting: (i) => (i % 3 ? "clinical" : "educational"),
   });
 
   const { app: server } = buildApp({
