@@ -76,7 +76,9 @@ try {
       const port = await freePort();
       server = spawn(process.execPath, ["--import", "tsx", "server/index.ts"], {
         cwd: root,
-        env: { ...env, PORT: String(port), APP_URL: `http://127.0.0.1:${port}`, LOGIN_RATE_MAX: "1000" },
+        // Its own job schema: clip jobs the API tests left queued (they often run no worker)
+        // would otherwise be worked through first and hold up the browser specs' clips.
+        env: { ...env, PORT: String(port), APP_URL: `http://127.0.0.1:${port}`, LOGIN_RATE_MAX: "1000", JOB_SCHEMA: "pgboss_browser" },
         stdio: ["ignore", "inherit", "inherit"],
       });
       let up = false;
