@@ -74,14 +74,37 @@ async function waitFor(what: string, check: () => boolean, ms: number) {
   }
 }
 
-/** True while any process of the group `pgid` is alive. */
-function groupAlive(pgid: number): boolean {
-  try {
-    process.kill(-pgid, 0);
-    return true;
-  } catch {
-    return false;
+/**
+ * The live processes of group `pgid`, zombies left out: an orphan (vite's esbuild, say) is
+ * reparented to PID 1, and this machine's init may reap it late, so `kill(-pgid, 0)` alone
+ * would count a process that has ended.
+ */
+function groupMembers(pgid: number): number[] {
+  return fs
+    .readdirSync("/proc")
+    .filter((d) => /^\d+$/.test(d))
+    .flatMap((d) => {
+      let stat: string;
+      try {
+        stat = fs.readFileSync(`/proc/${d}/stat`, "utf8");
+      } catch {
+        return []; // ended while we looked
+      }
+      // Fields after "(comm)": state, ppid, pgrp, ...
+      const [state, , pgrp] = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
+      return Number(pgrp) === pgid && state !== "Z" ? [Number(d)] : [];
+    });
+}
+
+/** True while any process of the group `pgid` still runs a short while after its leader ended. */
+async function groupAlive(pgid: number): Promise<boolean> {
+  // A grandchild may take a moment to notice its parent is gone (esbuild reads its stdin).
+  const deadline = Date.now() + 5_000;
+  while (groupMembers(pgid).length > 0) {
+    if (Date.now() > deadline) return true;
+    await new Promise((r) => setTimeout(r, 100));
   }
+  return false;
 }
 
 /** True while `pid` runs (a zombie, ended but not yet reaped, counts as ended). */
@@ -112,7 +135,7 @@ describe("npm start", () => {
     expect(run.output()).not.toMatch(/client build failed/i);
     expect(run.output()).not.toMatch(NOISE);
     expect(fs.existsSync(path.join(pgDir, "data", "postmaster.pid"))).toBe(false);
-    expect(groupAlive(run.child.pid!)).toBe(false);
+    expect(await groupAlive(run.child.pid!)).toBe(false);
   }, 180_000);
 
   it("serves the sign-in page on its first start from a checkout without a client build, and Ctrl-C stops everything", async () => {
@@ -150,6 +173,6 @@ describe("npm start", () => {
     // pg_ctl's stop returns once the pid file is gone; the process ends (and is reaped) just after.
     await waitFor("the postmaster to end", () => !pidAlive(postmaster), 5_000);
     expect(fs.existsSync(path.join(pgDir, "data", "postmaster.pid"))).toBe(false);
-    expect(groupAlive(run.child.pid!)).toBe(false);
+    expect(await groupAlive(run.child.pid!)).toBe(false);
   }, 300_000);
 });
