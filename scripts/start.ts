@@ -62,9 +62,16 @@ function buildClient(env: NodeJS.ProcessEnv): Promise<void> {
       stdio: "inherit",
     });
     child.once("error", reject);
-    child.once("exit", (code, signal) =>
-      code === 0 ? resolve() : reject(new Error(signal ? `The client build was stopped (${signal})` : "The client build failed")),
-    );
+    child.once("exit", (code, signal) => {
+      if (code === 0) return resolve();
+      // A terminal's Ctrl-C reaches the build too, and its exit may be seen before our own
+      // SIGINT handler runs: a build ended by SIGINT/SIGTERM is a stop, not a failure.
+      if (signal === "SIGINT" || signal === "SIGTERM" || code === 130 || code === 143) {
+        stopAsked = true;
+        return reject(new StopRequested());
+      }
+      reject(new Error(signal ? `The client build was stopped (${signal})` : "The client build failed"));
+    });
   });
 }
 

@@ -96,6 +96,15 @@ function groupMembers(pgid: number): number[] {
     });
 }
 
+/** The command line of `pid`, or "" once it has ended. */
+function readCmdline(pid: number): string {
+  try {
+    return fs.readFileSync(`/proc/${pid}/cmdline`, "utf8").replaceAll("\0", " ");
+  } catch {
+    return "";
+  }
+}
+
 /** True while any process of the group `pgid` still runs a short while after its leader ended. */
 async function groupAlive(pgid: number): Promise<boolean> {
   // A grandchild may take a moment to notice its parent is gone (esbuild reads its stdin).
@@ -136,6 +145,26 @@ describe("npm start", () => {
     expect(run.output()).not.toMatch(NOISE);
     expect(fs.existsSync(path.join(pgDir, "data", "postmaster.pid"))).toBe(false);
     expect(await groupAlive(run.child.pid!)).toBe(false);
+  }, 180_000);
+
+  it("takes a build ended by Ctrl-C for a stop even when the build's exit is seen before the signal", async () => {
+    // The order of the two events is up to the machine; SIGINT to the build alone is the
+    // case where its exit comes first (one fresh-clone run exited 1 so).
+    const pgDir = tempDir("soundings-start-build-");
+    const clientDist = `dist-lifecycle-${crypto.randomBytes(4).toString("hex")}`;
+    cleanups.push(() => fs.rmSync(path.join(root, clientDist), { recursive: true, force: true }));
+    const run = await start(pgDir, clientDist);
+    let build: number | undefined;
+    await waitFor(
+      "the client build to begin",
+      () => (build = groupMembers(run.child.pid!).find((pid) => pid !== run.child.pid && readCmdline(pid).includes("vite.js"))) !== undefined,
+      120_000,
+    );
+    process.kill(build!, "SIGINT");
+    expect(await run.exited).toBe(0);
+    expect(run.output()).toContain("Stopped.");
+    expect(run.output()).not.toMatch(/client build (failed|was stopped)/i);
+    expect(run.output()).not.toContain("Soundings is running");
   }, 180_000);
 
   it("serves the sign-in page on its first start from a checkout without a client build, and Ctrl-C stops everything", async () => {
