@@ -15,7 +15,14 @@ export default defineConfig({
     chunkSizeWarningLimit: 600,
   },
   test: {
-    include: ["shared/**/*.test.ts", "server/**/*.test.ts", "src/**/*.test.{ts,tsx}", "tests/api/**/*.test.ts", "tests/lifecycle/**/*.test.ts"],
+    include: [
+      "shared/**/*.test.ts",
+      "server/**/*.test.ts",
+      "src/**/*.test.{ts,tsx}",
+      "tests/api/**/*.test.ts",
+      "tests/lifecycle/**/*.test.ts",
+      "tests/lint/**/*.test.ts",
+    ],
     exclude: ["tests/browser/**", "node_modules/**"],
     testTimeout: 30_000,
     hookTimeout: 60_000,

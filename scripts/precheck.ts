@@ -1,5 +1,5 @@
 // `npm run precheck -- <file>...`: one line of JSON per file with the image pre-check metrics and
-// hints (CONTRACT.md "Command line"); an unreadable file gives a line with "error" and the
+// hints (README "Other commands"); an unreadable file gives a line with "error" and the
 // process exits 1 after all files are done.
 import { precheckFile } from "../server/media/precheck";
 import { TRANSDUCERS, type Transducer } from "../shared/catalogue";

@@ -7,42 +7,13 @@ import fs from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { OpenAPIRegistry, OpenApiGeneratorV31 } from "@asteasolutions/zod-to-openapi";
-import type { Db } from "./db/knex";
-import type { Config } from "./config";
 import { apiNotFound, errorHandler } from "./http/errors";
 import { hstsWhenSecure, sameOriginGuard } from "./http/security";
 import type { RouteKit } from "./http/route";
 import { createAuthenticate } from "./auth/passport";
-import { registerHealthRoutes } from "./routes/health/router";
-import { registerAuthRoutes } from "./routes/auth/router";
-import { registerUserRoutes } from "./routes/users/router";
-import { registerApplicationRoutes } from "./routes/applications/router";
-import { registerHomeRoutes } from "./routes/home/router";
-import { registerAuditRoutes } from "./routes/audit/router";
-import { registerExamRoutes } from "./routes/exams/router";
-import { registerClipRoutes } from "./routes/clips/router";
-import { registerQueueRoutes } from "./routes/queue/router";
-import { registerOversightRoutes } from "./routes/oversight/router";
-import { registerRubricRoutes } from "./routes/rubrics/router";
-import { registerFeedbackRoutes } from "./routes/feedback/router";
-import { registerReportRoutes } from "./routes/reports/router";
-import { registerProgressRoutes } from "./routes/progress/router";
-import { registerCalibrationRoutes } from "./routes/calibration/router";
-import { registerQuestionRoutes } from "./routes/questions/router";
-import type { Storage } from "./storage/types";
+import { registerApiRoutes } from "./routes";
 import { log as defaultLog } from "./log";
-import type { JobQueue } from "./jobs/queue";
-
-export interface AppDeps {
-  db: Db;
-  config: Config;
-  storage: Storage;
-  /** Where clip jobs are sent; the API never processes media itself. */
-  jobs: Pick<JobQueue, "enqueueClip">;
-  log?: (msg: unknown) => void;
-  /** Folder of the built client (default: CLIENT_DIST, else dist/). */
-  clientDir?: string;
-}
+import type { AppDeps } from "./http/context";
 
 const here = path.dirname(fileURLToPath(import.meta.url));
 // CLIENT_DIST lets parallel test runs in one checkout build and serve their own copy.
@@ -80,26 +51,12 @@ export function buildApp(deps: AppDeps) {
     registry: new OpenAPIRegistry(),
     authenticate: createAuthenticate(deps.db, deps.config.jwtSecret),
     routes: [],
+    checkResponses: deps.config.checkResponses,
   };
   kit.registry.registerComponent("securitySchemes", "bearer", { type: "http", scheme: "bearer", bearerFormat: "JWT" });
   kit.registry.registerComponent("securitySchemes", "cookie", { type: "apiKey", in: "cookie", name: "soundings_session" });
   const ctx = { ...deps, log };
-  registerHealthRoutes(kit, ctx);
-  registerAuthRoutes(kit, ctx);
-  registerHomeRoutes(kit, ctx);
-  registerApplicationRoutes(kit, ctx);
-  registerUserRoutes(kit, ctx);
-  registerAuditRoutes(kit, ctx);
-  registerExamRoutes(kit, ctx);
-  registerClipRoutes(kit, ctx);
-  registerQueueRoutes(kit, ctx);
-  registerOversightRoutes(kit, ctx);
-  registerRubricRoutes(kit, ctx);
-  registerFeedbackRoutes(kit, ctx);
-  registerReportRoutes(kit, ctx);
-  registerProgressRoutes(kit, ctx);
-  registerCalibrationRoutes(kit, ctx);
-  registerQuestionRoutes(kit, ctx);
+  registerApiRoutes(kit, ctx);
 
   let openapi: unknown;
   kit.router.get("/openapi.json", (_req, res) => {
@@ -114,7 +71,7 @@ export function buildApp(deps: AppDeps) {
     });
     res.json(openapi);
   });
-  kit.routes.push({ method: "GET", path: "/openapi.json", access: "public" });
+  kit.routes.push({ method: "GET", path: "/openapi.json", access: "public", responses: { 200: "json" } });
 
   app.use("/api", kit.router);
   app.use("/api", apiNotFound);
@@ -147,5 +104,3 @@ function serveClient(app: express.Express, dir: string) {
   });
   app.get("/{*splat}", (_req, res) => res.sendFile(index));
 }
-
-export type RouteContext = AppDeps & { log: (msg: unknown) => void };

@@ -39,6 +39,8 @@ export interface Config {
   loginRateLimit: { windowMs: number; max: number; perAccount: number; perClient: number; anonymousPerClient: number; anonymousPerKey: number };
   jsonBodyLimit: string;
   trustProxy: boolean | number;
+  /** Check every JSON answer against the schema its route declares (on under NODE_ENV=test; CHECK_RESPONSES=true|false). */
+  checkResponses: boolean;
   bcryptRounds: number;
   /** When reviewers get the digest of overdue reads (cron, UTC). */
   digestCron: string;
@@ -186,6 +188,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, opts: { dataDir
     loginRateLimit: rateLimits(env),
     jsonBodyLimit: env.JSON_BODY_LIMIT ?? "1mb",
     trustProxy: env.TRUST_PROXY ? (/^\d+$/.test(env.TRUST_PROXY) ? Number(env.TRUST_PROXY) : env.TRUST_PROXY === "true") : false,
+    checkResponses: env.CHECK_RESPONSES ? env.CHECK_RESPONSES === "true" : mode === "test",
     digestCron: env.DIGEST_CRON ?? "0 7 * * *",
     bcryptRounds: int(env.BCRYPT_ROUNDS, mode === "test" ? 4 : 12, "BCRYPT_ROUNDS"),
   };

@@ -1,4 +1,4 @@
-// The demo application catalogue (PRODUCT.md section 4). Programs start from this and
+// The demo application catalogue. Programs start from this and
 // edit their own copy. Views and findings use the trade's plain terms; typical depth is
 // a starting value for pre-check hints, not a rule.
 export const TRANSDUCERS = ["linear", "curvilinear", "phased", "endocavitary"] as const;

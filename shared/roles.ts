@@ -1,4 +1,4 @@
-// The four roles of a program membership (PRODUCT.md section 2). One person may hold several.
+// The four roles of a program membership. One person may hold several.
 export const ROLES = ["sonographer", "reviewer", "qa_lead", "admin"] as const;
 export type Role = (typeof ROLES)[number];
 

@@ -1,6 +1,8 @@
 // Declares an API route once: Express wiring (authenticate → validate → authorize →
 // handler) and its OpenAPI entry come from the same object, so the published document and
-// the role-by-route test can never miss a route.
+// the role-by-route test can never miss a route. Each route declares the schema of its
+// answers; with `checkResponses` (on in tests) every JSON answer is checked against it, and a
+// field the schema does not name is a mismatch too, so the declared contract cannot drift.
 import type { Request, Response, NextFunction, RequestHandler, Router } from "express";
 import type { OpenAPIRegistry } from "@asteasolutions/zod-to-openapi";
 import { z, type ZodType } from "zod";
@@ -23,8 +25,11 @@ export interface RouteSpec<B extends ZodType | undefined, Q extends ZodType | un
   body?: B;
   query?: Q;
   params?: P;
-  /** Response schemas by status, for the OpenAPI document. */
-  responses: Record<number, { description: string; schema?: ZodType }>;
+  /**
+   * Answers by status: a JSON `schema` (the wire shape, without transforms or defaults), or
+   * `file` naming the media types of a non-JSON body (a download, a media stream).
+   */
+  responses: Record<number, ResponseSpec>;
   /** Extra middleware run after authentication and before validation (rate limits). */
   before?: RequestHandler[];
   handler: (ctx: {
@@ -38,10 +43,18 @@ export interface RouteSpec<B extends ZodType | undefined, Q extends ZodType | un
   }) => Promise<unknown> | unknown;
 }
 
+export interface ResponseSpec {
+  description: string;
+  schema?: ZodType;
+  file?: string;
+}
+
 export interface RouteInfo {
   method: string;
   path: string;
   access: Access;
+  /** Declared answers: status → "json" (a schema), "file" or "none" (no body). */
+  responses: Record<number, "json" | "file" | "none">;
 }
 
 export interface RouteKit {
@@ -49,6 +62,8 @@ export interface RouteKit {
   registry: OpenAPIRegistry;
   authenticate: RequestHandler;
   routes: RouteInfo[];
+  /** Check each JSON answer against its declared schema (tests); a mismatch answers 500. */
+  checkResponses?: boolean;
 }
 
 const toOpenApiPath = (p: string) => p.replace(/:([A-Za-z_]+)/g, "{$1}");
@@ -58,7 +73,9 @@ export function defineRoute<B extends ZodType | undefined = undefined, Q extends
   kit: RouteKit,
   spec: RouteSpec<B, Q, P>,
 ): void {
-  kit.routes.push({ method: spec.method.toUpperCase(), path: spec.path, access: spec.access });
+  const declared: RouteInfo["responses"] = {};
+  for (const [status, r] of Object.entries(spec.responses)) declared[Number(status)] = r.schema ? "json" : r.file ? "file" : "none";
+  kit.routes.push({ method: spec.method.toUpperCase(), path: spec.path, access: spec.access, responses: declared });
   const chain: RequestHandler[] = [];
   if (spec.access !== "public") chain.push(kit.authenticate);
   if (Array.isArray(spec.access)) {
@@ -94,7 +111,10 @@ export function defineRoute<B extends ZodType | undefined = undefined, Q extends
       const result = await spec.handler({ req, res, user: req.user as never, body: body as never, query: query as never, params: params as never });
       if (!res.headersSent) {
         if (result === undefined) res.status(204).end();
-        else res.json(result);
+        else {
+          if (kit.checkResponses) checkResponse(spec, res.statusCode, result);
+          res.json(result);
+        }
       }
     } catch (err) {
       next(err);
@@ -104,7 +124,11 @@ export function defineRoute<B extends ZodType | undefined = undefined, Q extends
 
   const responses: Record<string, unknown> = {};
   for (const [status, r] of Object.entries(spec.responses)) {
-    responses[status] = r.schema ? { description: r.description, content: { "application/json": { schema: r.schema } } } : { description: r.description };
+    responses[status] = r.schema
+      ? { description: r.description, content: { "application/json": { schema: r.schema } } }
+      : r.file
+        ? { description: r.description, content: Object.fromEntries(r.file.split(/,\s*/).map((t) => [t, { schema: { type: "string", format: "binary" } }])) }
+        : { description: r.description };
   }
   if (spec.access !== "public") responses["401"] = { description: "Not signed in", content: { "application/json": { schema: errorSchema } } };
   if (Array.isArray(spec.access))
@@ -125,4 +149,47 @@ export function defineRoute<B extends ZodType | undefined = undefined, Q extends
     },
     responses: responses as never,
   });
+}
+
+/**
+ * The answer as it goes on the wire (JSON round trip: dates become strings) against the
+ * schema declared for its status. A missing schema, a failed parse, or a field the schema
+ * does not name (zod strips those silently) throws a 500 naming the route and the path.
+ */
+export function checkResponse(spec: Pick<RouteSpec<undefined, undefined, undefined>, "method" | "path" | "responses">, status: number, result: unknown) {
+  const where = `${spec.method.toUpperCase()} ${spec.path} → ${status}`;
+  const declared = spec.responses[status];
+  if (!declared) throw new HttpError(500, "response_schema_mismatch", `${where}: the route declares no answer with this status`);
+  const schema = declared.schema;
+  // Declared without a schema: tests/api/wire-contract.test.ts lists such routes and fails on them.
+  if (!schema) return;
+  const wire: unknown = JSON.parse(JSON.stringify(result));
+  const r = schema.safeParse(wire);
+  if (!r.success) {
+    const issue = r.error.issues[0];
+    throw new HttpError(500, "response_schema_mismatch", `${where}: ${issue.path.join(".") || "(answer)"}: ${issue.message}`);
+  }
+  const extra = undeclaredPath(wire, r.data, []);
+  if (extra) throw new HttpError(500, "response_schema_mismatch", `${where}: ${extra} is not declared in the response schema`);
+}
+
+/** The first path present in what was sent but dropped by the parse (an undeclared field). */
+function undeclaredPath(sent: unknown, parsed: unknown, at: (string | number)[]): string | undefined {
+  if (Array.isArray(sent)) {
+    if (!Array.isArray(parsed)) return undefined;
+    for (let i = 0; i < sent.length; i++) {
+      const p = undeclaredPath(sent[i], parsed[i], [...at, i]);
+      if (p) return p;
+    }
+    return undefined;
+  }
+  if (sent && typeof sent === "object") {
+    if (!parsed || typeof parsed !== "object") return undefined;
+    for (const [k, v] of Object.entries(sent)) {
+      if (!(k in parsed)) return [...at, k].join(".");
+      const p = undeclaredPath(v, (parsed as Record<string, unknown>)[k], [...at, k]);
+      if (p) return p;
+    }
+  }
+  return undefined;
 }

@@ -1,4 +1,4 @@
-// Image pre-checks from a few frames (PRODUCT.md §6): gain, unused depth, footprint shape and
+// Image pre-checks from a few frames (README "Other commands", `npm run precheck`): gain, unused depth, footprint shape and
 // clip timing. These are hints shown to reviewers next to the clip; they never score anything.
 //
 // All thresholds below are OUR OWN STARTING VALUES, chosen on the project's synthetic clips

@@ -1,4 +1,4 @@
-// The credentialing report (PRODUCT.md sections 3.8 and 6): one sonographer's or a whole
+// The credentialing report (README "Progress and credentialing", "Report"): one sonographer's or a whole
 // program's progress for a date range, as a PDF for the program director to sign and as a
 // CSV for spreadsheets. Pure renderers of Progress values; the route gathers the data.
 // Layout primitives and the shipped font live in ./pdf-pager.

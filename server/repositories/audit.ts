@@ -40,3 +40,12 @@ export async function audit(db: Db | Knex.Transaction, e: AuditEvent): Promise<v
     details: e.details ? JSON.stringify(withoutSessionKeys(e.details)) : null,
   });
 }
+
+/** Appends one event done by `actor` in its program; call it inside the change's transaction. */
+export function auditAs(
+  db: Db | Knex.Transaction,
+  actor: { programId: string; userId: string; ip: string | null },
+  e: Omit<AuditEvent, "programId" | "actorUserId" | "ip">,
+): Promise<void> {
+  return audit(db, { ...e, programId: actor.programId, actorUserId: actor.userId, ip: actor.ip });
+}

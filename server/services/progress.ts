@@ -1,4 +1,4 @@
-// Learner progress (PRODUCT.md sections 3.7 and 6): counts toward each application's
+// Learner progress (README "Progress and credentialing"): counts toward each application's
 // credentialing threshold, the CUSUM learning curve, per-criterion trends, strengths and
 // focus areas, and accuracy against the reviewer and against confirmatory results. One
 // batch of queries serves one sonographer (their Progress screen), the roster and the

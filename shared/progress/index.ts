@@ -1,4 +1,4 @@
-// Learner progress arithmetic (PRODUCT.md section 6), pure and shared by server and screens:
+// Learner progress arithmetic (README "Progress and credentialing"), pure and shared by server and screens:
 // attainment per criterion, rolling means, and accuracy with Wilson intervals.
 import type { Criterion, ScoreValue } from "../rubric/types";
 import type { Accuracy, Rate } from "../schemas/progress";

@@ -1,4 +1,4 @@
-// The default rubric, "General image review" version 1 (PRODUCT.md section 5). Anchor texts
+// The default rubric, "General image review" version 1. Anchor texts
 // are our own wording. The interpretation criterion is recorded as the reviewer's own read
 // of each finding, not as a level here.
 import type { Criterion } from "./types";

@@ -106,7 +106,7 @@ export interface CreditRule {
 export const DEFAULT_CREDIT_RULE: CreditRule = { minQuality: 3 };
 
 /**
- * Credentialing credit (PRODUCT.md section 5 default): quality at or above the minimum, no
+ * Credentialing credit (README "Review rules", derived results; the default): quality at or above the minimum, no
  * critical criterion at a failing level, and no clinically significant disagreement.
  */
 export function creditFor(

@@ -1,4 +1,4 @@
-// Learner progress and credentialing (PRODUCT.md sections 3.7, 3.8 and 6): the shapes the
+// Learner progress and credentialing (README "Progress and credentialing"): the shapes the
 // progress API answers with, shared by the screens, the roster and the credentialing report.
 import { z } from "zod";
 import { isoDateSchema } from "./common";
@@ -182,6 +182,6 @@ export const credentialingReportQuerySchema = z.object({
   to: isoDateSchema.optional(),
 });
 
-/** Shown on every progress screen and printed on every report (PRODUCT.md section 7). */
+/** Shown on every progress screen and printed on every report. */
 export const CREDENTIALING_CAUTION =
   "Soundings supports education and quality review. It does not make diagnoses. Local policy and licensed practice govern clinical decisions and the granting of privileges.";

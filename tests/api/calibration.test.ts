@@ -118,7 +118,7 @@ describe("calibration sets", () => {
     expect(res.status).toBe(200);
     expect(res.body.exam).toEqual({ id: submitted.id, code: submitted.code, application: { code: "aorta", name: "Abdominal aorta" } });
     expect(res.body.rubric.version).toBe(1);
-    // The default rubric (PRODUCT.md section 5) applies all seven criteria to every application.
+    // The default rubric applies all seven criteria to every application.
     expect(res.body.criteria.map((c: { key: string }) => c.key)).toEqual(["transducer", "marker", "depth", "gain", "plane", "labels", "quality"]);
     expect(res.body.criteria.find((c: { key: string }) => c.key === "quality").levels[0]).toMatchObject({ value: "1", anchor: "No recognisable structures." });
     expect(res.body.findings).toEqual([{ key: "aneurysm", label: "Aneurysm (3 cm or more)" }]);

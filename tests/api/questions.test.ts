@@ -1,7 +1,7 @@
 // The reviewer's side of the sonographer's questions: one reviewed exam as its reviewer read
 // it (blinded), who may see it (404 for anyone who did not read it), the list of threads with
 // the ones awaiting an answer, and an answer reaching the sonographer.
-// Expected criterion labels and levels come from PRODUCT.md section 5 (default rubric), the
+// Expected criterion labels and levels come from the default rubric (shared/rubric/default-rubric.ts), the
 // finding labels from the demo catalogue's eFAST findings (shared/catalogue.ts).
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
@@ -91,7 +91,7 @@ describe("GET /api/reviews/exams/:id", () => {
       status: "reviewed",
     });
     expect(res.body.myReview.feedback).toBe(FEEDBACK);
-    // PRODUCT.md section 5: seven criteria in this order; "too deep" is a Depth level, quality 4 is labelled "4".
+    // shared/rubric/default-rubric.ts: seven criteria in this order; "too deep" is a Depth level, quality 4 is labelled "4".
     expect(res.body.myReview.criteria.map((c: { label: string }) => c.label)).toEqual([
       "Transducer and preset",
       "Orientation marker",
@@ -105,7 +105,7 @@ describe("GET /api/reviews/exams/:id", () => {
     expect(res.body.myReview.criteria).toContainEqual({ key: "quality", label: "Overall image quality", value: "4", levelLabel: "4" });
     expect(res.body.myReview.reads[0]).toEqual({ key: "free_fluid_ruq", label: "Free fluid, right upper quadrant", read: "positive" });
     expect(res.body.myReview.reads).toHaveLength(6);
-    // One read settles it; quality 4 ≥ 3 and the marker follows convention (PRODUCT.md section 5 credit rule).
+    // One read settles it; quality 4 ≥ 3 and the marker follows convention (the default credit rule, README "Review rules").
     expect(res.body.final).toEqual({ credit: true, source: "single_read", decidedAt: expect.any(String) });
 
     const json = JSON.stringify(res.body);

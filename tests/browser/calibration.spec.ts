@@ -150,7 +150,7 @@ test("the QA lead sends a calibration set with a reference answer and reads agre
     await firstExam.getByRole("button", { name: `Add reference answer for ${exams[0].code}` }).click();
     const editor = page.getByRole("region", { name: new RegExp(exams[0].code) });
     const groups = editor.getByRole("radiogroup");
-    // Seven criteria of the default rubric (PRODUCT.md section 5) and the aorta's one finding.
+    // Seven criteria of the default rubric and the aorta's one finding.
     await expect(groups).toHaveCount(8);
     const digits = ["1", "1", "2", "2", "1", "1", "4"]; // suitable, follows, fits, balanced, standard, complete, 4
     await groups.first().getByRole("radio").first().focus();

@@ -8,7 +8,7 @@
 // result on an exam's page and finds it in the accuracy against confirmatory results.
 //
 // Expected figures are worked out here from first principles, not read back from the app:
-// - credit: quality at or above the program's minimum (3 by default, PRODUCT.md §5);
+// - credit: quality at or above the program's minimum (3 by default, shared/rubric/default-rubric.ts);
 // - CUSUM limits and steps: Wald's sequential probability ratio test in the form used for
 //   learning curves by Bolsin & Colson (2000), written out below from memory;
 // - Wilson score interval (Wilson 1927), written out below from memory; at n of n the lower

@@ -22,7 +22,7 @@ const LEARNER = { email: "lena.sorvik@cedarhollow.example", name: "Lena Sorvik" 
 const REVIEWER = { email: "reviewer@cedarhollow.example", name: "Imani Castellane" };
 // The demo program's sonographers (seeds/demo.ts): everyone holding the sonographer role.
 const DEMO_SONOGRAPHERS = ["Noa Hartwell", "Tobias Ferrand", "Lena Sorvik", "Amara Dunleavy"];
-// Overall image quality per exam: the default credit rule needs 3 or more (PRODUCT.md §5).
+// Overall image quality per exam: the default credit rule needs 3 or more (shared/rubric/default-rubric.ts).
 const QUALITY = ["4", "2", "5"];
 const COMMENT = (i: number) => `Aorta practice scan ${i + 1}: sweep from the diaphragm to the bifurcation.`;
 

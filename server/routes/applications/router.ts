@@ -1,7 +1,7 @@
 // The program's application catalogue with views and findings.
 import { z } from "zod";
 import { defineRoute, type RouteKit } from "../../http/route";
-import type { RouteContext } from "../../app";
+import type { RouteContext } from "../../http/context";
 import { applicationSchema } from "../../../shared/schemas/applications";
 import { listApplications } from "../../repositories/applications";
 

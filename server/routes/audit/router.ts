@@ -1,7 +1,7 @@
 // Setup → Audit log: the program's events, newest first.
 import { z } from "zod";
 import { defineRoute, type RouteKit } from "../../http/route";
-import type { RouteContext } from "../../app";
+import type { RouteContext } from "../../http/context";
 import { presentAuditEntry } from "../../presenters/audit";
 import { auditEntrySchema, auditQuerySchema } from "../../../shared/schemas/users";
 

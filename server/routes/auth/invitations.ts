@@ -3,7 +3,7 @@
 import { z } from "zod";
 import type { RequestHandler } from "express";
 import { defineRoute, type RouteKit } from "../../http/route";
-import type { RouteContext } from "../../app";
+import type { RouteContext } from "../../http/context";
 import { HttpError, validationError } from "../../http/errors";
 import { acceptInvitationNewSchema, acceptInvitationSchema, invitationPreviewSchema, loginResponseSchema } from "../../../shared/schemas/auth";
 import { verifyPassword, hashPassword } from "../../auth/passwords";

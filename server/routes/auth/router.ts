@@ -1,7 +1,7 @@
 // Sign-in, sign-out, the current user, password reset and change, invitation acceptance.
 import { z } from "zod";
 import { defineRoute, type RouteKit } from "../../http/route";
-import type { RouteContext } from "../../app";
+import type { RouteContext } from "../../http/context";
 import { HttpError } from "../../http/errors";
 import {
   myProgramsSchema,

@@ -4,7 +4,7 @@
 // the reference.
 import type { Knex } from "knex";
 import { defineRoute, type RouteKit } from "../../http/route";
-import type { RouteContext } from "../../app";
+import type { RouteContext } from "../../http/context";
 import { HttpError, notFound } from "../../http/errors";
 import { idParamsSchema } from "../../../shared/schemas/common";
 import { activeRubricFor, getRubric } from "../../repositories/rubrics";

@@ -8,7 +8,7 @@ import multer from "multer";
 import { z } from "zod";
 import type { RequestHandler } from "express";
 import { defineRoute, type RouteKit } from "../../http/route";
-import type { RouteContext } from "../../app";
+import type { RouteContext } from "../../http/context";
 import { HttpError, notFound } from "../../http/errors";
 import { unstorableReason } from "../../http/strings";
 import { sendStored } from "../../http/range";

@@ -2,7 +2,7 @@
 import { z } from "zod";
 import type { Knex } from "knex";
 import { defineRoute, type RouteKit } from "../../http/route";
-import type { RouteContext } from "../../app";
+import type { RouteContext } from "../../http/context";
 import { HttpError } from "../../http/errors";
 import { idParamsSchema } from "../../../shared/schemas/common";
 import { examCreateSchema, examListItemSchema, examListQuerySchema, examSchema, examUpdateSchema, submitExamSchema } from "../../../shared/schemas/exams";

@@ -3,7 +3,7 @@
 import { z } from "zod";
 import type { Knex } from "knex";
 import { defineRoute, type RouteKit } from "../../http/route";
-import type { RouteContext } from "../../app";
+import type { RouteContext } from "../../http/context";
 import { HttpError, notFound } from "../../http/errors";
 import { idParamsSchema } from "../../../shared/schemas/common";
 import { messageInputSchema } from "../../../shared/schemas/reviews";

@@ -1,7 +1,7 @@
 // Liveness with a database round trip: 503 when PostgreSQL does not answer in time.
 import { z } from "zod";
 import { defineRoute, type RouteKit } from "../../http/route";
-import type { RouteContext } from "../../app";
+import type { RouteContext } from "../../http/context";
 
 const healthSchema = z.object({ ok: z.boolean(), db: z.enum(["up", "down"]) });
 

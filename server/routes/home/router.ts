@@ -1,7 +1,7 @@
 // Home: "what needs me now", per role the caller holds. Only real counts: a card appears
 // once the thing it counts exists in the product.
 import { defineRoute, type RouteKit } from "../../http/route";
-import type { RouteContext } from "../../app";
+import type { RouteContext } from "../../http/context";
 import { homeSchema, type Home } from "../../../shared/schemas/home";
 import { claimable } from "../../services/queue";
 import { reviewerReads } from "../../policies/exam";

@@ -2,7 +2,7 @@
 // clinically significant disagreements, feedback snippets, and program settings.
 import { z } from "zod";
 import { defineRoute, type RouteKit } from "../../http/route";
-import type { RouteContext } from "../../app";
+import type { RouteContext } from "../../http/context";
 import { HttpError, notFound } from "../../http/errors";
 import { idParamsSchema } from "../../../shared/schemas/common";
 import {

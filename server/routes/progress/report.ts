@@ -1,8 +1,8 @@
-// GET /api/reports/credentialing (CONTRACT.md): the credentialing report as PDF or CSV, for
+// GET /api/reports/credentialing (README "Progress and credentialing", "Report"): the credentialing report as PDF or CSV, for
 // one sonographer or the whole program, over a date range. A QA lead may export anyone in
 // the program; a sonographer only themself.
 import { defineRoute, type RouteKit } from "../../http/route";
-import type { RouteContext } from "../../app";
+import type { RouteContext } from "../../http/context";
 import { HttpError, forbidden, notFound } from "../../http/errors";
 import { credentialingReportQuerySchema } from "../../../shared/schemas/progress";
 import { computeProgress, programSonographers } from "../../services/progress";

@@ -1,8 +1,8 @@
 // Learner progress, the QA lead's roster, confirmatory results and the credentialing report
-// (PRODUCT.md sections 3.7 and 3.8). A sonographer sees only their own progress; a QA lead
+// (README "Progress and credentialing"). A sonographer sees only their own progress; a QA lead
 // sees every sonographer of the program.
 import { defineRoute, type RouteKit } from "../../http/route";
-import type { RouteContext } from "../../app";
+import type { RouteContext } from "../../http/context";
 import { HttpError, notFound } from "../../http/errors";
 import { idParamsSchema } from "../../../shared/schemas/common";
 import { confirmationsInputSchema, progressQuerySchema, type Confirmation } from "../../../shared/schemas/progress";

@@ -2,7 +2,7 @@
 // (blinded: never the sonographer), and the list of question threads on exams the caller
 // reviewed (a QA lead: every exam of the program). Answers go through POST /exams/:id/messages.
 import { defineRoute, type RouteKit } from "../../http/route";
-import type { RouteContext } from "../../app";
+import type { RouteContext } from "../../http/context";
 import { notFound } from "../../http/errors";
 import { DECIDING_READS, examAccess, reviewerReads } from "../../policies/exam";
 import { idParamsSchema } from "../../../shared/schemas/common";

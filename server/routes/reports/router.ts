@@ -3,7 +3,7 @@
 // turnaround, volume and reviewer workload. Aggregation happens in PostgreSQL.
 import { z } from "zod";
 import { defineRoute, type RouteKit } from "../../http/route";
-import type { RouteContext } from "../../app";
+import type { RouteContext } from "../../http/context";
 import { activeRubricFor, getRubric } from "../../repositories/rubrics";
 import { agreementOf, biasAgainstConsensus, countedRows, pairCounts, readPairs, ratingOf, reviewerPairs, type PairCount } from "../../services/agreement";
 import { cohensKappa, percentAgreement } from "../../../shared/stats/index";

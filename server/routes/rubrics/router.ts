@@ -3,7 +3,7 @@
 // changes a past score.
 import { z } from "zod";
 import { defineRoute, type RouteKit } from "../../http/route";
-import type { RouteContext } from "../../app";
+import type { RouteContext } from "../../http/context";
 import { HttpError, notFound } from "../../http/errors";
 import { idParamsSchema } from "../../../shared/schemas/common";
 import { rubricInputSchema, rubricSchema } from "../../../shared/rubric/types";

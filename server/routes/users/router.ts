@@ -2,7 +2,7 @@
 // caller's program; another program's user answers 404.
 import { z } from "zod";
 import { defineRoute, type RouteKit } from "../../http/route";
-import type { RouteContext } from "../../app";
+import type { RouteContext } from "../../http/context";
 import { HttpError, notFound } from "../../http/errors";
 import { idParamsSchema } from "../../../shared/schemas/common";
 import { invitationSchema, inviteSchema, memberSchema, updateRolesSchema } from "../../../shared/schemas/users";

@@ -1,5 +1,4 @@
-// Navigation by role (PRODUCT.md section 9). Only screens that exist are listed; areas such as
-// Queue and Oversight join here when they are built. Hiding a link is convenience;
+// Navigation by role; only screens that exist are listed. Hiding a link is convenience;
 // the server still decides access.
 import type { Role } from "../../../shared/roles";
 

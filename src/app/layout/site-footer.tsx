@@ -1,4 +1,4 @@
-// The caution every screen carries (PRODUCT.md section 7).
+// The caution every screen carries.
 export function SiteFooter() {
   return (
     <footer className="border-t border-slate-200 px-4 py-4 text-xs leading-relaxed text-slate-600 sm:px-6">

@@ -1,0 +1,39 @@
+// Every API resource folder, registered in one place: app.ts calls registerApiRoutes and
+// knows no route itself. One folder per URL resource, each with its router.ts.
+import type { RouteKit } from "../http/route";
+import type { RouteContext } from "../http/context";
+import { registerHealthRoutes } from "./health/router";
+import { registerAuthRoutes } from "./auth/router";
+import { registerUserRoutes } from "./users/router";
+import { registerApplicationRoutes } from "./applications/router";
+import { registerHomeRoutes } from "./home/router";
+import { registerAuditRoutes } from "./audit/router";
+import { registerExamRoutes } from "./exams/router";
+import { registerClipRoutes } from "./clips/router";
+import { registerQueueRoutes } from "./queue/router";
+import { registerOversightRoutes } from "./oversight/router";
+import { registerRubricRoutes } from "./rubrics/router";
+import { registerFeedbackRoutes } from "./feedback/router";
+import { registerReportRoutes } from "./reports/router";
+import { registerProgressRoutes } from "./progress/router";
+import { registerCalibrationRoutes } from "./calibration/router";
+import { registerQuestionRoutes } from "./questions/router";
+
+export function registerApiRoutes(kit: RouteKit, ctx: RouteContext) {
+  registerHealthRoutes(kit, ctx);
+  registerAuthRoutes(kit, ctx);
+  registerHomeRoutes(kit, ctx);
+  registerApplicationRoutes(kit, ctx);
+  registerUserRoutes(kit, ctx);
+  registerAuditRoutes(kit, ctx);
+  registerExamRoutes(kit, ctx);
+  registerClipRoutes(kit, ctx);
+  registerQueueRoutes(kit, ctx);
+  registerOversightRoutes(kit, ctx);
+  registerRubricRoutes(kit, ctx);
+  registerFeedbackRoutes(kit, ctx);
+  registerReportRoutes(kit, ctx);
+  registerProgressRoutes(kit, ctx);
+  registerCalibrationRoutes(kit, ctx);
+  registerQuestionRoutes(kit, ctx);
+}
