@@ -1,21 +1,14 @@
-// The QA lead's review oversight: adjudication of disagreeing double reads, follow-ups of
-// clinically significant disagreements, feedback snippets, and program settings.
-import { z } from "zod";
+// The QA lead's review oversight: adjudication of disagreeing double reads. (Follow-ups,
+// snippets and settings have their own folders: routes/follow-ups, snippets, settings.)
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
 import { HttpError, notFound } from "../../http/errors";
 import { idParamsSchema } from "../../../shared/schemas/common";
-import {
-  adjudicateSchema,
-  followUpUpdateSchema,
-  programSettingsSchema,
-  programSettingsUpdateSchema,
-  snippetInputSchema,
-} from "../../../shared/schemas/reviews";
+import { adjudicateSchema } from "../../../shared/schemas/reviews";
 import { disagreements } from "../../../shared/rubric/logic";
 import { examContext } from "../../repositories/exams";
 import { getRubric } from "../../repositories/rubrics";
-import { getSettings, updateSettings } from "../../repositories/settings";
+import { getSettings } from "../../repositories/settings";
 import { audit } from "../../repositories/audit";
 import { assertValidReview, settleExam } from "../../services/reviews";
 import { feedbackReady } from "../../services/notify";
@@ -126,160 +119,5 @@ export function registerOversightRoutes(kit: RouteKit, { db, config }: RouteCont
       });
       return { examId: params.id, credit: result.credit, significantDisagreement: result.significant };
     },
-  });
-
-  defineRoute(kit, {
-    method: "get",
-    path: "/follow-ups",
-    summary: "Clinically significant disagreements to follow up (for example a patient callback)",
-    tag: "oversight",
-    access: ["qa_lead"],
-    query: z.object({ status: z.enum(["open", "in_progress", "closed"]).optional() }),
-    responses: { 200: { description: "Follow-ups" } },
-    handler: async ({ user, query }) => {
-      const q = db("follow_ups as f")
-        .join("exams as e", "e.id", "f.exam_id")
-        .join("applications as ap", "ap.id", "e.application_id")
-        .join("users as s", "s.id", "e.sonographer_id")
-        .leftJoin("users as c", "c.id", "f.closed_by")
-        .where("f.program_id", user.programId);
-      if (query.status) q.andWhere("f.status", query.status);
-      const rows = await q
-        .orderBy("f.created_at", "desc")
-        .select("f.*", "e.code", "e.performed_at", "ap.name as application", "s.name as sonographer", "c.name as closed_by_name");
-      return {
-        items: rows.map((r) => ({
-          id: r.id,
-          examId: r.exam_id,
-          examCode: r.code,
-          application: r.application,
-          sonographer: r.sonographer,
-          performedAt: r.performed_at.toISOString(),
-          reason: r.reason,
-          status: r.status,
-          note: r.note,
-          createdAt: r.created_at.toISOString(),
-          closedAt: r.closed_at?.toISOString() ?? null,
-          closedBy: r.closed_by_name ?? null,
-        })),
-      };
-    },
-  });
-
-  defineRoute(kit, {
-    method: "patch",
-    path: "/follow-ups/:id",
-    summary: "Update a follow-up's status and note",
-    tag: "oversight",
-    access: ["qa_lead"],
-    params: idParamsSchema,
-    body: followUpUpdateSchema,
-    responses: { 200: { description: "Updated" } },
-    handler: async ({ req, user, params, body }) =>
-      db.transaction(async (trx) => {
-        const closing = body.status === "closed";
-        const [row] = await trx("follow_ups")
-          .where({ id: params.id, program_id: user.programId })
-          .update({
-            status: body.status,
-            ...(body.note !== undefined ? { note: body.note } : {}),
-            closed_at: closing ? trx.fn.now() : null,
-            closed_by: closing ? user.id : null,
-          })
-          .returning(["id", "status"]);
-        if (!row) throw notFound("Follow-up");
-        await audit(trx, {
-          programId: user.programId,
-          actorUserId: user.id,
-          action: "follow_up.updated",
-          entityType: "follow_up",
-          entityId: row.id,
-          ip: req.ip,
-          details: body,
-        });
-        return row;
-      }),
-  });
-
-  defineRoute(kit, {
-    method: "get",
-    path: "/snippets",
-    summary: "The program's reusable feedback snippets",
-    tag: "oversight",
-    access: ["reviewer", "qa_lead"],
-    responses: { 200: { description: "Snippets" } },
-    handler: async ({ user }) => ({
-      snippets: await db("snippets")
-        .where("program_id", user.programId)
-        .orderBy(["criterion_key", "created_at"])
-        .select("id", "criterion_key as criterionKey", "text"),
-    }),
-  });
-
-  defineRoute(kit, {
-    method: "post",
-    path: "/snippets",
-    summary: "Add a feedback snippet (optionally for one criterion)",
-    tag: "oversight",
-    access: ["qa_lead"],
-    body: snippetInputSchema,
-    responses: { 201: { description: "Added" } },
-    handler: async ({ req, res, user, body }) => {
-      const [row] = await db("snippets")
-        .insert({ program_id: user.programId, criterion_key: body.criterionKey, text: body.text, created_by: user.id })
-        .returning(["id", "criterion_key as criterionKey", "text"]);
-      await audit(db, { programId: user.programId, actorUserId: user.id, action: "snippet.created", entityType: "snippet", entityId: row.id, ip: req.ip });
-      res.status(201).json({ snippet: row });
-    },
-  });
-
-  defineRoute(kit, {
-    method: "delete",
-    path: "/snippets/:id",
-    summary: "Remove a feedback snippet",
-    tag: "oversight",
-    access: ["qa_lead"],
-    params: idParamsSchema,
-    responses: { 204: { description: "Removed" } },
-    handler: async ({ req, user, params }) => {
-      const n = await db("snippets").where({ id: params.id, program_id: user.programId }).delete();
-      if (!n) throw notFound("Snippet");
-      await audit(db, { programId: user.programId, actorUserId: user.id, action: "snippet.deleted", entityType: "snippet", entityId: params.id, ip: req.ip });
-    },
-  });
-
-  defineRoute(kit, {
-    method: "get",
-    path: "/settings",
-    summary: "Program settings (double-read share, blinding, turnaround target, lease, credit rule)",
-    tag: "oversight",
-    access: ["qa_lead", "admin"],
-    responses: { 200: { description: "Settings", schema: z.object({ settings: programSettingsSchema }) } },
-    handler: async ({ user }) => ({ settings: await getSettings(db, user.programId) }),
-  });
-
-  defineRoute(kit, {
-    method: "patch",
-    path: "/settings",
-    summary: "Change program settings",
-    tag: "oversight",
-    access: ["qa_lead", "admin"],
-    body: programSettingsUpdateSchema,
-    responses: { 200: { description: "Settings", schema: z.object({ settings: programSettingsSchema }) } },
-    handler: async ({ req, user, body }) =>
-      db.transaction(async (trx) => {
-        const before = await getSettings(trx, user.programId);
-        const settings = await updateSettings(trx, user.programId, body);
-        await audit(trx, {
-          programId: user.programId,
-          actorUserId: user.id,
-          action: "settings.changed",
-          entityType: "program",
-          entityId: user.programId,
-          ip: req.ip,
-          details: { before, after: settings },
-        });
-        return { settings };
-      }),
   });
 }

@@ -4,6 +4,8 @@ import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/r
 import type { ExamSetting, FindingRead } from "../../../../shared/catalogue";
 import type { Criterion, ScoreValue } from "../../../../shared/rubric/types";
 import type { Role } from "../../../../shared/roles";
+import type { FollowUp, FollowUpStatus, followUpListSchema, followUpUpdatedSchema } from "../../../../shared/schemas/follow-ups";
+import type { z } from "zod";
 import { api } from "../../../lib/api-client";
 
 export interface ReadOfReviewer {
@@ -27,22 +29,7 @@ export interface Adjudication {
   disagreements: string[];
 }
 
-export type FollowUpStatus = "open" | "in_progress" | "closed";
-
-export interface FollowUp {
-  id: string;
-  examId: string;
-  examCode: string;
-  application: string;
-  sonographer: string;
-  performedAt: string;
-  reason: string;
-  status: FollowUpStatus;
-  note: string | null;
-  createdAt: string;
-  closedAt: string | null;
-  closedBy: string | null;
-}
+export type { FollowUp, FollowUpStatus };
 
 export interface ProgramMember {
   id: string;
@@ -66,7 +53,7 @@ export const adjudicationsQuery = queryOptions({
 export const followUpsQuery = (status: FollowUpStatus | "all") =>
   queryOptions({
     queryKey: oversightKeys.followUps(status),
-    queryFn: ({ signal }) => api<{ items: FollowUp[] }>(`/follow-ups${status === "all" ? "" : `?status=${status}`}`, { signal }),
+    queryFn: ({ signal }) => api<z.infer<typeof followUpListSchema>>(`/follow-ups${status === "all" ? "" : `?status=${status}`}`, { signal }),
   });
 
 /** The program's members (same cache entry as Setup → People). */
@@ -119,7 +106,7 @@ export function useReassign() {
 
 export function useUpdateFollowUp() {
   return useOversightMutation(({ id, status, note }: { id: string; status: FollowUpStatus; note?: string }) =>
-    api<{ id: string; status: FollowUpStatus }>(`/follow-ups/${id}`, { method: "PATCH", body: { status, note } }),
+    api<z.infer<typeof followUpUpdatedSchema>>(`/follow-ups/${id}`, { method: "PATCH", body: { status, note } }),
   );
 }
 

@@ -3,22 +3,20 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import type { ProgramSettings } from "../../../../shared/schemas/reviews";
 import type { Rubric } from "../../../../shared/rubric/types";
+import type { SettingsAnswer, Snippet, snippetAnswerSchema, snippetListSchema } from "../../../../shared/schemas/settings";
+import type { z } from "zod";
 import { api } from "../../../lib/api-client";
 
-export interface Snippet {
-  id: string;
-  criterionKey: string | null;
-  text: string;
-}
+export type { Snippet };
 
 export const settingsQuery = queryOptions({
   queryKey: ["settings", "program"],
-  queryFn: ({ signal }) => api<{ settings: ProgramSettings }>("/settings", { signal }).then((r) => r.settings),
+  queryFn: ({ signal }) => api<SettingsAnswer>("/settings", { signal }).then((r) => r.settings),
 });
 
 export const snippetsQuery = queryOptions({
   queryKey: ["snippets", "list"],
-  queryFn: ({ signal }) => api<{ snippets: Snippet[] }>("/snippets", { signal }).then((r) => r.snippets),
+  queryFn: ({ signal }) => api<z.infer<typeof snippetListSchema>>("/snippets", { signal }).then((r) => r.snippets),
 });
 
 /** The criteria of every published rubric, for naming and choosing a snippet's criterion. */
@@ -41,7 +39,7 @@ export function useSettings() {
 export function useUpdateSettings() {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (body: Partial<ProgramSettings>) => api<{ settings: ProgramSettings }>("/settings", { method: "PATCH", body }).then((r) => r.settings),
+    mutationFn: (body: Partial<ProgramSettings>) => api<SettingsAnswer>("/settings", { method: "PATCH", body }).then((r) => r.settings),
     onSuccess: (settings) => queryClient.setQueryData(settingsQuery.queryKey, settings),
     onSettled: () => queryClient.invalidateQueries({ queryKey: ["settings"] }),
   });
@@ -53,7 +51,9 @@ function useSnippetMutation<TVars, TResult>(fn: (vars: TVars) => Promise<TResult
 }
 
 export function useAddSnippet() {
-  return useSnippetMutation((body: { criterionKey: string | null; text: string }) => api<{ snippet: Snippet }>("/snippets", { method: "POST", body }));
+  return useSnippetMutation((body: { criterionKey: string | null; text: string }) =>
+    api<z.infer<typeof snippetAnswerSchema>>("/snippets", { method: "POST", body }),
+  );
 }
 
 export function useDeleteSnippet() {

@@ -1,0 +1,35 @@
+// /follow-ups: clinically significant disagreements the QA lead follows up (for example a
+// patient callback), and moving one on with a note.
+import { z } from "zod";
+import { defineRoute, type RouteKit } from "../../http/route";
+import type { RouteContext } from "../../http/context";
+import { idParamsSchema } from "../../../shared/schemas/common";
+import { followUpUpdateSchema } from "../../../shared/schemas/reviews";
+import { followUpListSchema, followUpStatusSchema, followUpUpdatedSchema } from "../../../shared/schemas/follow-ups";
+import { actorOf } from "../../services/actor";
+import { programFollowUps, updateFollowUp } from "../../services/follow-ups";
+
+export function registerFollowUpRoutes(kit: RouteKit, { db }: RouteContext) {
+  defineRoute(kit, {
+    method: "get",
+    path: "/follow-ups",
+    summary: "Clinically significant disagreements to follow up (for example a patient callback)",
+    tag: "oversight",
+    access: ["qa_lead"],
+    query: z.object({ status: followUpStatusSchema.optional() }),
+    responses: { 200: { description: "Follow-ups", schema: followUpListSchema } },
+    handler: async ({ user, query }) => ({ items: await programFollowUps(db, user.programId, query.status) }),
+  });
+
+  defineRoute(kit, {
+    method: "patch",
+    path: "/follow-ups/:id",
+    summary: "Update a follow-up's status and note",
+    tag: "oversight",
+    access: ["qa_lead"],
+    params: idParamsSchema,
+    body: followUpUpdateSchema,
+    responses: { 200: { description: "Updated", schema: followUpUpdatedSchema } },
+    handler: async ({ req, user, params, body }) => updateFollowUp(db, actorOf(req, user), params.id, body),
+  });
+}
