@@ -26,7 +26,6 @@ const ROUTES_WITH_QUERIES = [
   "server/routes/questions/router.ts",
   "server/routes/queue/router.ts",
   "server/routes/reports/router.ts",
-  "server/routes/rubrics/router.ts",
   "server/routes/users/router.ts",
 ];
 const NO_QUERIES = "a route handler parses, calls a service and presents: put the query in server/repositories/ and the transaction in server/services/";

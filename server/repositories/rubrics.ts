@@ -7,7 +7,7 @@ import { DEFAULT_CRITERIA, DEFAULT_RUBRIC_NAME } from "../../shared/rubric/defau
 
 type Q = Db | Knex.Transaction;
 
-interface RubricRow {
+export interface RubricRow {
   id: string;
   family_id: string;
   version: number;
@@ -126,4 +126,32 @@ export async function insertRubric(
 export async function ensureDefaultRubric(trx: Knex.Transaction, programId: string): Promise<void> {
   if (await trx("rubrics").where("program_id", programId).first("id")) return;
   await insertRubric(trx, { programId, version: 1, name: DEFAULT_RUBRIC_NAME, status: "published", criteria: DEFAULT_CRITERIA });
+}
+
+/** A rubric version's row, locked for the change that follows (inside a transaction). */
+export function lockRubric(trx: Knex.Transaction, programId: string, id: string): Promise<RubricRow | undefined> {
+  return trx("rubrics").where({ id, program_id: programId }).forUpdate().first<RubricRow | undefined>();
+}
+
+/** The highest version number of a rubric family. */
+export async function latestVersionOf(trx: Knex.Transaction, familyId: string): Promise<number> {
+  const [{ max }] = await trx("rubrics").where("family_id", familyId).max<{ max: number }[]>("version as max");
+  return max;
+}
+
+/** Removes a draft version with its criteria (saving a draft writes it again). */
+export async function discardDraft(trx: Knex.Transaction, id: string): Promise<void> {
+  await trx("rubric_criteria").where("rubric_id", id).delete();
+  await trx("rubrics").where({ id, status: "draft" }).delete();
+}
+
+/** Archives one rubric version; its reviews keep pointing at it. */
+export async function archiveRubricVersion(trx: Knex.Transaction, id: string): Promise<void> {
+  await trx("rubrics").where("id", id).update({ status: "archived", archived_at: trx.fn.now() });
+}
+
+/** Publishes a draft, archiving the version of its family published so far. */
+export async function publishRubricVersion(trx: Knex.Transaction, row: Pick<RubricRow, "id" | "family_id">): Promise<void> {
+  await trx("rubrics").where({ family_id: row.family_id, status: "published" }).update({ status: "archived", archived_at: trx.fn.now() });
+  await trx("rubrics").where("id", row.id).update({ status: "published", published_at: trx.fn.now() });
 }

@@ -30,7 +30,6 @@ const PENDING: string[] = [
   "GET /roster",
   "GET /roster/:id/feedback",
   "GET /roster/:id/progress",
-  "GET /rubrics",
   "POST /assignments/:id/reassign",
   "POST /assignments/:id/review",
   "POST /auth/password/forgot",

@@ -3,19 +3,12 @@
 // invalidates the ["rubrics"] prefix.
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import type { Rubric, RubricInput } from "../../../../shared/rubric/types";
+import type { RubricListItem, rubricAnswerSchema, rubricListSchema } from "../../../../shared/schemas/rubrics";
+import type { z } from "zod";
 import { api } from "../../../lib/api-client";
 
-export interface RubricListItem {
-  id: string;
-  familyId: string;
-  version: number;
-  name: string;
-  status: Rubric["status"];
-  createdAt: string;
-  publishedAt: string | null;
-  criteriaCount: number;
-  reviewCount: number;
-}
+export type { RubricListItem };
+type RubricAnswer = z.infer<typeof rubricAnswerSchema>;
 
 export const rubricKeys = {
   all: ["rubrics"] as const,
@@ -25,13 +18,13 @@ export const rubricKeys = {
 
 export const rubricListQuery = queryOptions({
   queryKey: rubricKeys.list(),
-  queryFn: ({ signal }) => api<{ rubrics: RubricListItem[] }>("/rubrics", { signal }).then((r) => r.rubrics),
+  queryFn: ({ signal }) => api<z.infer<typeof rubricListSchema>>("/rubrics", { signal }).then((r) => r.rubrics),
 });
 
 export const rubricQuery = (id: string) =>
   queryOptions({
     queryKey: rubricKeys.detail(id),
-    queryFn: ({ signal }) => api<{ rubric: Rubric }>(`/rubrics/${id}`, { signal }).then((r) => r.rubric),
+    queryFn: ({ signal }) => api<RubricAnswer>(`/rubrics/${id}`, { signal }).then((r) => r.rubric),
   });
 
 export function useRubricList() {
@@ -50,13 +43,13 @@ function useRubricMutation<TVars>(fn: (vars: TVars) => Promise<Rubric>) {
 /** Creates a draft (no id) or saves one: a published rubric comes back as its next version, with a new id. */
 export function useSaveRubric() {
   return useRubricMutation(({ id, body }: { id?: string; body: RubricInput }) =>
-    api<{ rubric: Rubric }>(id ? `/rubrics/${id}` : "/rubrics", { method: id ? "PUT" : "POST", body }).then((r) => r.rubric),
+    api<RubricAnswer>(id ? `/rubrics/${id}` : "/rubrics", { method: id ? "PUT" : "POST", body }).then((r) => r.rubric),
   );
 }
 
 export function useRubricAction() {
   return useRubricMutation(({ id, action }: { id: string; action: "publish" | "archive" }) =>
-    api<{ rubric: Rubric }>(`/rubrics/${id}/${action}`, { method: "POST" }).then((r) => r.rubric),
+    api<RubricAnswer>(`/rubrics/${id}/${action}`, { method: "POST" }).then((r) => r.rubric),
   );
 }
 

@@ -2,7 +2,7 @@
 // belong to. Every change invalidates its own prefix (["settings"], ["snippets"]).
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import type { ProgramSettings } from "../../../../shared/schemas/reviews";
-import type { Rubric } from "../../../../shared/rubric/types";
+import type { rubricAnswerSchema, rubricListSchema } from "../../../../shared/schemas/rubrics";
 import type { SettingsAnswer, Snippet, snippetAnswerSchema, snippetListSchema } from "../../../../shared/schemas/settings";
 import type { z } from "zod";
 import { api } from "../../../lib/api-client";
@@ -23,9 +23,9 @@ export const snippetsQuery = queryOptions({
 export const publishedCriteriaQuery = queryOptions({
   queryKey: ["rubrics", "published-criteria"],
   queryFn: async ({ signal }) => {
-    const { rubrics } = await api<{ rubrics: { id: string; status: string }[] }>("/rubrics", { signal });
+    const { rubrics } = await api<z.infer<typeof rubricListSchema>>("/rubrics", { signal });
     const published = rubrics.filter((r) => r.status === "published");
-    const full = await Promise.all(published.map((r) => api<{ rubric: Rubric }>(`/rubrics/${r.id}`, { signal })));
+    const full = await Promise.all(published.map((r) => api<z.infer<typeof rubricAnswerSchema>>(`/rubrics/${r.id}`, { signal })));
     const seen = new Map<string, string>();
     for (const { rubric } of full) for (const c of rubric.criteria) if (!seen.has(c.key)) seen.set(c.key, c.label);
     return [...seen].map(([key, label]) => ({ key, label }));
