@@ -39,3 +39,14 @@ export async function migrate(db: Db): Promise<string[]> {
   const [, applied] = (await db.migrate.latest()) as [number, string[]];
   return applied;
 }
+
+/** Whether the database answers a round trip within `timeoutMs` (false on an error or no answer). */
+export function pingDatabase(db: Db, timeoutMs = 3000): Promise<boolean> {
+  return Promise.race([
+    db.raw("select 1").then(
+      () => true,
+      () => false,
+    ),
+    new Promise<boolean>((r) => setTimeout(() => r(false), timeoutMs).unref()),
+  ]);
+}

@@ -1,7 +1,6 @@
-// Who may change whom in a program. Route access (roles) is checked by the route table;
-// these are the rules that depend on the target as well.
+// Who may change whom in a program. Route access (roles: admins manage people) is checked by
+// the route table; these are the rules that depend on the target as well.
 import { HttpError } from "../http/errors";
-import type { AuthUser } from "../auth/types";
 import type { Role } from "../../shared/roles";
 
 /** A program must keep at least one active admin, or nobody can manage it any more. */
@@ -12,8 +11,15 @@ export function assertKeepsAnAdmin(otherActiveAdmins: number, targetIsAdmin: boo
 }
 
 /** An admin may not deactivate their own membership (ask another admin). */
-export function assertNotSelf(actor: AuthUser, targetUserId: string, what: string) {
-  if (actor.id === targetUserId) throw new HttpError(409, "self_change", `You cannot ${what} yourself; ask another administrator`);
+export function assertNotSelf(actor: { userId: string }, targetUserId: string, what: string) {
+  if (actor.userId === targetUserId) throw new HttpError(409, "self_change", `You cannot ${what} yourself; ask another administrator`);
+}
+
+/** An active member is not invited again; a deactivated one may be (accepting reactivates them). */
+export function assertNotActiveMember(membership: { deactivated_at: Date | null } | undefined, email: string) {
+  if (membership && membership.deactivated_at === null) {
+    throw new HttpError(409, "already_member", `email: ${email} is already a member of this program`);
+  }
 }
 
 /** True when `after` drops a role that `before` held (sessions must then be renewed). */

@@ -2,18 +2,7 @@
 // together with the signing key is a working token. New rows do not store them; rows
 // written before that have their session entity id and any session keys in details hidden.
 import type { AuditEntry } from "../../shared/schemas/users";
-import { withoutSessionKeys } from "../repositories/audit";
-
-export interface AuditRow {
-  id: string | number;
-  at: Date;
-  actor_name?: string | null;
-  action: string;
-  entity_type: string | null;
-  entity_id: string | null;
-  ip: string | null;
-  details: Record<string, unknown> | null;
-}
+import { withoutSessionKeys, type AuditRow } from "../repositories/audit";
 
 export function presentAuditEntry(r: AuditRow): AuditEntry {
   const isSession = r.entity_type === "session";

@@ -53,6 +53,33 @@ export async function activeAdminCount(db: Q, programId: string, exceptUserId?: 
   return Number(count);
 }
 
+/** Whether this address has a membership in the program, and whether it is deactivated. */
+export function membershipByEmail(db: Q, programId: string, email: string): Promise<{ deactivated_at: Date | null } | undefined> {
+  return db("memberships as m").join("users as u", "u.id", "m.user_id").where({ "u.email": email, "m.program_id": programId }).first("m.deactivated_at");
+}
+
+/** Makes the user a member with these roles; a former membership comes back active with them. */
+export async function joinProgram(db: Q, userId: string, programId: string, roles: Role[]): Promise<void> {
+  await db.raw(
+    `INSERT INTO memberships (user_id, program_id, roles) VALUES (?, ?, ?)
+     ON CONFLICT (user_id, program_id) DO UPDATE SET roles = EXCLUDED.roles, deactivated_at = NULL`,
+    [userId, programId, roles],
+  );
+}
+
+export async function setMemberRoles(db: Q, programId: string, userId: string, roles: Role[]): Promise<void> {
+  await db("memberships").where({ user_id: userId, program_id: programId }).update({ roles });
+}
+
+/** Deactivates the membership as of `at` (a deactivated member keeps their first date). */
+export async function deactivateMember(db: Q, programId: string, userId: string, at: Date): Promise<void> {
+  await db("memberships").where({ user_id: userId, program_id: programId }).update({ deactivated_at: at });
+}
+
+export async function reactivateMember(db: Q, programId: string, userId: string): Promise<void> {
+  await db("memberships").where({ user_id: userId, program_id: programId }).update({ deactivated_at: null });
+}
+
 /** The user's active memberships, oldest first, as session users. */
 export async function activeMemberships(db: Q, userId: string): Promise<SessionUser[]> {
   const rows = await db("memberships as m")

@@ -1,4 +1,4 @@
-// Session rows: create, look up with the member's current roles, revoke.
+// Session rows: create, look up with the member's current roles, end.
 import type { Knex } from "knex";
 import type { Db } from "../db/knex";
 import type { AuthUser } from "../auth/types";
@@ -48,8 +48,13 @@ export async function createSession(
   return row.id as string;
 }
 
-/** Revokes sessions of a user; scope to one program and/or keep one session alive. */
-export async function revokeSessions(
+/** Ends one session (sign-out, a move to another program). */
+export async function endSession(db: Db | Knex.Transaction, sessionId: string, reason: string): Promise<void> {
+  await db("sessions").where("id", sessionId).update({ revoked_at: db.fn.now(), revoked_reason: reason });
+}
+
+/** Ends sessions of a user; scope to one program and/or keep one session alive. */
+export async function endSessions(
   db: Db | Knex.Transaction,
   opts: { userId: string; programId?: string; exceptSessionId?: string; reason: string },
 ): Promise<number> {

@@ -15,3 +15,5 @@ export const applicationSchema = z.object({
   findings: z.array(z.object({ key: z.string(), label: z.string() })),
 });
 export type Application = z.infer<typeof applicationSchema>;
+export const applicationListSchema = z.object({ applications: z.array(applicationSchema) });
+export type ApplicationList = z.infer<typeof applicationListSchema>;

@@ -36,6 +36,11 @@ export const sessionUserSchema = z.object({
 export type SessionUser = z.infer<typeof sessionUserSchema>;
 
 export const loginResponseSchema = z.object({ token: z.string(), user: sessionUserSchema });
+export type LoginResponse = z.infer<typeof loginResponseSchema>;
+
+/** GET /api/auth/me. */
+export const meResponseSchema = z.object({ user: sessionUserSchema });
+export type MeResponse = z.infer<typeof meResponseSchema>;
 
 export const forgotPasswordSchema = z.object({ email: emailSchema });
 
@@ -70,6 +75,7 @@ export const programChoiceSchema = z.object({ programId: z.uuid() });
 export const myProgramsSchema = z.object({
   programs: z.array(z.object({ id: z.uuid(), name: z.string(), roles: z.array(z.enum(ROLES)), current: z.boolean() })),
 });
+export type MyPrograms = z.infer<typeof myProgramsSchema>;
 
 export const invitationPreviewSchema = z.object({
   email: z.string(),
@@ -79,3 +85,4 @@ export const invitationPreviewSchema = z.object({
   /** The name the inviter typed, to prefill the form. */
   name: z.string().nullable(),
 });
+export type InvitationPreview = z.infer<typeof invitationPreviewSchema>;

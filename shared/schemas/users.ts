@@ -26,6 +26,10 @@ export const memberSchema = z.object({
   lastSignInAt: z.string().nullable(),
 });
 export type Member = z.infer<typeof memberSchema>;
+export const memberListSchema = z.object({ members: z.array(memberSchema) });
+export type MemberList = z.infer<typeof memberListSchema>;
+export const memberAnswerSchema = z.object({ member: memberSchema });
+export type MemberAnswer = z.infer<typeof memberAnswerSchema>;
 
 export const invitationSchema = z.object({
   id: z.uuid(),
@@ -38,6 +42,10 @@ export const invitationSchema = z.object({
   revokedAt: z.string().nullable(),
 });
 export type Invitation = z.infer<typeof invitationSchema>;
+export const invitationListSchema = z.object({ invitations: z.array(invitationSchema) });
+export type InvitationList = z.infer<typeof invitationListSchema>;
+export const invitationAnswerSchema = z.object({ invitation: invitationSchema });
+export type InvitationAnswer = z.infer<typeof invitationAnswerSchema>;
 
 export const auditQuerySchema = z.object({
   limit: z.coerce.number().int().min(1).max(200).default(50),
@@ -56,3 +64,6 @@ export const auditEntrySchema = z.object({
   details: z.record(z.string(), z.unknown()).nullable(),
 });
 export type AuditEntry = z.infer<typeof auditEntrySchema>;
+/** One page of the audit log and the count of all entries that match. */
+export const auditPageSchema = z.object({ entries: z.array(auditEntrySchema), total: z.number() });
+export type AuditPage = z.infer<typeof auditPageSchema>;

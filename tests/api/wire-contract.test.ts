@@ -32,7 +32,6 @@ const PENDING: string[] = [
   "GET /roster/:id/progress",
   "POST /assignments/:id/reassign",
   "POST /assignments/:id/review",
-  "POST /auth/password/forgot",
   "POST /calibration-sets",
   "POST /exams/:id/acknowledge",
   "POST /exams/:id/adjudicate",

@@ -1,8 +1,7 @@
 // The program's application catalogue with views and findings.
-import { z } from "zod";
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { applicationSchema } from "../../../shared/schemas/applications";
+import { applicationListSchema } from "../../../shared/schemas/applications";
 import { listApplications } from "../../repositories/applications";
 
 export function registerApplicationRoutes(kit: RouteKit, { db }: RouteContext) {
@@ -12,7 +11,7 @@ export function registerApplicationRoutes(kit: RouteKit, { db }: RouteContext) {
     summary: "The program's application catalogue",
     tag: "applications",
     access: "signed_in",
-    responses: { 200: { description: "Applications", schema: z.object({ applications: z.array(applicationSchema) }) } },
+    responses: { 200: { description: "Applications", schema: applicationListSchema } },
     handler: async ({ user }) => ({ applications: await listApplications(db, user.programId) }),
   });
 }

@@ -1,8 +1,7 @@
-// Sign-in, sign-out, the current user, password reset and change, invitation acceptance.
-import { z } from "zod";
+// Sign-in, sign-out, the current user, password reset and change, moving between programs;
+// invitations from ./invitations.ts, rate limits from ./limits.ts.
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { HttpError } from "../../http/errors";
 import {
   myProgramsSchema,
   programChoiceSchema,
@@ -10,46 +9,23 @@ import {
   forgotPasswordSchema,
   loginResponseSchema,
   loginSchema,
+  meResponseSchema,
   resetPasswordSchema,
-  sessionUserSchema,
 } from "../../../shared/schemas/auth";
-import { verifyPassword, hashPassword, hashCost } from "../../auth/passwords";
 import { clearSessionCookie } from "../../auth/cookies";
-import { hashToken, newEmailToken } from "../../auth/tokens";
-import { activeMemberships } from "../../repositories/members";
-import { revokeSessions } from "../../repositories/sessions";
-import { audit } from "../../repositories/audit";
-import { openSession } from "../../services/sign-in";
-import { passwordResetMail } from "../../mail/templates";
+import { actorOf } from "../../services/actor";
+import { myPrograms, signIn, switchProgram } from "../../services/sign-in";
+import { signOut } from "../../services/sign-out";
+import { changePassword, requestPasswordReset, resetPassword } from "../../services/passwords";
 import { authLimiters } from "./limits";
 import { registerInvitationRoutes } from "./invitations";
-import { queueMail } from "../../mail/outbox";
-
-const RESET_MINUTES = 60;
-const invalidCredentials = () => new HttpError(401, "invalid_credentials", "E-mail or password is incorrect");
+import { forgotAnswerSchema } from "./schema";
 
 export function registerAuthRoutes(kit: RouteKit, ctx: RouteContext) {
   const { db, config, log } = ctx;
   // Sign-in counts failures only; once a limit is reached even a right password waits out
   // the window. See ./limits.ts.
   const limits = authLimiters(config.loginRateLimit);
-
-  async function sendResetLink(email: string) {
-    const user = await db("users").where("email", email).first("id", "email");
-    const memberships = user ? await activeMemberships(db, user.id) : [];
-    if (!user || memberships.length === 0) return;
-    const { token, hash } = newEmailToken();
-    const link = `${config.appUrl}/reset-password?token=${token}`;
-    await db.transaction(async (trx) => {
-      await trx("password_resets").insert({
-        user_id: user.id,
-        token_hash: hash,
-        expires_at: trx.raw(`now() + make_interval(mins => ?)`, [RESET_MINUTES]),
-      });
-      // Delivered by the outbox's sender.
-      await queueMail(trx, passwordResetMail({ to: user.email, link, expiresMinutes: RESET_MINUTES }));
-    });
-  }
 
   defineRoute(kit, {
     method: "post",
@@ -63,29 +39,7 @@ export function registerAuthRoutes(kit: RouteKit, ctx: RouteContext) {
       200: { description: "Signed in; also sets the httpOnly session cookie", schema: loginResponseSchema },
       429: { description: "Too many attempts" },
     },
-    handler: async ({ req, res, body }) => {
-      const user = await db("users").where("email", body.email).first("id", "password_hash");
-      const ok = await verifyPassword(body.password, user?.password_hash, config.bcryptRounds);
-      const memberships = ok && user ? await activeMemberships(db, user.id) : [];
-      const chosen = body.programId ? memberships.find((m) => m.programId === body.programId) : memberships[0];
-      if (!ok || !chosen) {
-        await audit(db, {
-          programId: memberships[0]?.programId ?? null,
-          actorUserId: user?.id ?? null,
-          action: "auth.sign_in_failed",
-          ip: req.ip,
-          details: { email: body.email },
-        });
-        throw invalidCredentials();
-      }
-      // Hashes made at another cost (an older setting, the demo seed) are renewed at the
-      // configured one, so every account costs the same to check as the unknown-address path.
-      if (hashCost(user!.password_hash) !== config.bcryptRounds) {
-        const renewed = await hashPassword(body.password, config.bcryptRounds);
-        await db("users").where({ id: user!.id, password_hash: user!.password_hash }).update({ password_hash: renewed });
-      }
-      return db.transaction((trx) => openSession(trx, config, req, res, chosen, "auth.signed_in"));
-    },
+    handler: ({ req, res, body }) => signIn(db, config, req, res, body),
   });
 
   defineRoute(kit, {
@@ -96,17 +50,7 @@ export function registerAuthRoutes(kit: RouteKit, ctx: RouteContext) {
     access: "signed_in",
     responses: { 204: { description: "Signed out" } },
     handler: async ({ req, res, user }) => {
-      await db.transaction(async (trx) => {
-        await trx("sessions").where("id", user.sessionId).update({ revoked_at: trx.fn.now(), revoked_reason: "logout" });
-        await audit(trx, {
-          programId: user.programId,
-          actorUserId: user.id,
-          action: "auth.signed_out",
-          entityType: "user",
-          entityId: user.id,
-          ip: req.ip,
-        });
-      });
+      await signOut(db, actorOf(req, user), user.sessionId);
       clearSessionCookie(res, config);
     },
   });
@@ -117,7 +61,7 @@ export function registerAuthRoutes(kit: RouteKit, ctx: RouteContext) {
     summary: "The signed-in user",
     tag: "auth",
     access: "signed_in",
-    responses: { 200: { description: "The user", schema: z.object({ user: sessionUserSchema }) } },
+    responses: { 200: { description: "The user", schema: meResponseSchema } },
     handler: ({ user }) => ({
       user: { id: user.id, name: user.name, email: user.email, programId: user.programId, programName: user.programName, roles: user.roles },
     }),
@@ -131,12 +75,15 @@ export function registerAuthRoutes(kit: RouteKit, ctx: RouteContext) {
     access: "public",
     body: forgotPasswordSchema,
     before: limits.forgot,
-    responses: { 202: { description: "If the address belongs to a member, a link is on its way" }, 429: { description: "Too many attempts" } },
+    responses: {
+      202: { description: "If the address belongs to a member, a link is on its way", schema: forgotAnswerSchema },
+      429: { description: "Too many attempts" },
+    },
     handler: ({ res, body }) => {
-      // Answered before any lookup: a real and an unknown address take the same path until
-      // the response is out, so its timing tells nothing. The work goes on in the background.
-      res.status(202).json({ ok: true });
-      void sendResetLink(body.email).catch((err) => log({ msg: "password reset request failed", err }));
+      // Answered before any lookup: the service starts its work once this answer is out.
+      requestPasswordReset(db, config, log, body.email);
+      res.status(202);
+      return { ok: true as const };
     },
   });
 
@@ -150,26 +97,7 @@ export function registerAuthRoutes(kit: RouteKit, ctx: RouteContext) {
     before: limits.byToken,
     responses: { 204: { description: "Password set; every session of the user is signed out" }, 429: { description: "Too many attempts" } },
     handler: async ({ req, body }) => {
-      const tokenHash = hashToken(body.token);
-      const usable = (r: { used_at: Date | null; expires_at: Date } | undefined) => Boolean(r && !r.used_at && r.expires_at > new Date());
-      const invalid = () => new HttpError(400, "invalid_token", "token: this reset link is invalid, used or expired; ask for a new one");
-      // The token first: a bad one costs a lookup, never a hash.
-      if (!usable(await db("password_resets").where("token_hash", tokenHash).first("used_at", "expires_at"))) throw invalid();
-      const passwordHash = await hashPassword(body.password, config.bcryptRounds);
-      await db.transaction(async (trx) => {
-        // Checked again under the row lock: two requests with one link set one password.
-        const reset = await trx("password_resets").where("token_hash", tokenHash).forUpdate().first();
-        if (!usable(reset)) throw invalid();
-        await trx("users").where("id", reset.user_id).update({ password_hash: passwordHash, password_changed_at: trx.fn.now() });
-        // Every outstanding link of this user dies with the one just used.
-        await trx("password_resets").where("user_id", reset.user_id).whereNull("used_at").update({ used_at: trx.fn.now() });
-        await revokeSessions(trx, { userId: reset.user_id, reason: "password_reset" });
-        await trx.raw(
-          `INSERT INTO audit_log (program_id, actor_user_id, action, entity_type, entity_id, ip)
-           SELECT program_id, ?, 'auth.password_reset', 'user', ?, ? FROM memberships WHERE user_id = ?`,
-          [reset.user_id, reset.user_id, req.ip ?? null, reset.user_id],
-        );
-      });
+      await resetPassword(db, config, req.ip ?? null, body);
     },
   });
 
@@ -182,23 +110,7 @@ export function registerAuthRoutes(kit: RouteKit, ctx: RouteContext) {
     body: changePasswordSchema,
     responses: { 204: { description: "Changed" } },
     handler: async ({ req, user, body }) => {
-      const row = await db("users").where("id", user.id).first("password_hash");
-      if (!(await verifyPassword(body.currentPassword, row?.password_hash, config.bcryptRounds))) {
-        throw new HttpError(400, "wrong_password", "currentPassword: the current password is not correct");
-      }
-      const passwordHash = await hashPassword(body.newPassword, config.bcryptRounds);
-      await db.transaction(async (trx) => {
-        await trx("users").where("id", user.id).update({ password_hash: passwordHash, password_changed_at: trx.fn.now() });
-        await revokeSessions(trx, { userId: user.id, exceptSessionId: user.sessionId, reason: "password_changed" });
-        await audit(trx, {
-          programId: user.programId,
-          actorUserId: user.id,
-          action: "auth.password_changed",
-          entityType: "user",
-          entityId: user.id,
-          ip: req.ip,
-        });
-      });
+      await changePassword(db, config, actorOf(req, user), user.sessionId, body);
     },
   });
 
@@ -209,14 +121,7 @@ export function registerAuthRoutes(kit: RouteKit, ctx: RouteContext) {
     tag: "auth",
     access: "signed_in",
     responses: { 200: { description: "Programs", schema: myProgramsSchema } },
-    handler: async ({ user }) => ({
-      programs: (await activeMemberships(db, user.id)).map((m) => ({
-        id: m.programId,
-        name: m.programName,
-        roles: m.roles,
-        current: m.programId === user.programId,
-      })),
-    }),
+    handler: ({ user }) => myPrograms(db, user),
   });
 
   defineRoute(kit, {
@@ -227,14 +132,7 @@ export function registerAuthRoutes(kit: RouteKit, ctx: RouteContext) {
     access: "signed_in",
     body: programChoiceSchema,
     responses: { 200: { description: "Signed in to that program", schema: loginResponseSchema }, 404: { description: "Not a member of that program" } },
-    handler: async ({ req, res, user, body }) => {
-      const target = (await activeMemberships(db, user.id)).find((m) => m.programId === body.programId);
-      if (!target) throw new HttpError(404, "not_found", "programId: you are not an active member of that program");
-      return db.transaction(async (trx) => {
-        await trx("sessions").where("id", user.sessionId).update({ revoked_at: trx.fn.now(), revoked_reason: "switched_program" });
-        return openSession(trx, config, req, res, target, "auth.switched_program");
-      });
-    },
+    handler: ({ req, res, user, body }) => switchProgram(db, config, req, res, user, body.programId),
   });
 
   registerInvitationRoutes(kit, ctx, limits.byToken);
