@@ -15,6 +15,7 @@ import { loadConfig } from "../server/config";
 import { buildApp } from "../server/app";
 import { seedQueueProgram } from "./queue-program";
 import { createLocalStorage } from "../server/storage/local";
+import { processedKey } from "../server/storage/keys";
 
 const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 100);
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 30);
@@ -31,7 +32,7 @@ try {
   const { sonographerToken: sonoToken, reviewerTokens, exams } = seeded;
   // One ready 4 MiB clip on the sonographer's first exam, for the Range requests.
   const clipId = crypto.randomUUID();
-  const videoKey = `programs/${program.id}/clips/${clipId}/v1/video.mp4`;
+  const videoKey = processedKey(program.id, clipId, 1, "video.mp4");
   fs.mkdirSync(path.dirname(path.join(storageDir, videoKey)), { recursive: true });
   fs.writeFileSync(path.join(storageDir, videoKey), crypto.randomBytes(4 << 20));
   await db("clips").insert({

@@ -8,7 +8,8 @@ import fsp from "node:fs/promises";
 import path from "node:path";
 import type { Db } from "../server/db/knex";
 import type { Storage } from "../server/storage/types";
-import type { JobQueue } from "../server/jobs/queue";
+import type { ClipJob, JobQueue } from "../server/jobs/queue";
+import { addClip } from "../server/services/clips";
 import { generateDemoClip, generateDemoStill, type DemoClipOptions, type DemoImageOptions } from "./clips/generate";
 import { mulberry32 } from "../shared/stats/random";
 import type { FindingRead } from "../shared/catalogue";
@@ -88,12 +89,6 @@ async function buildLibrary(dir: string, apps: string[], log: (s: string) => voi
   return files;
 }
 
-const sha256 = async (file: string) =>
-  crypto
-    .createHash("sha256")
-    .update(await fsp.readFile(file))
-    .digest("hex");
-
 /** Seeds the demo exams once (when Cedar Hollow has none); clips are processed by the queue. */
 export async function seedDemoExams(
   deps: { db: Db; storage: Storage; jobs: Pick<JobQueue, "enqueueClip"> },
@@ -124,8 +119,6 @@ export async function seedDemoExams(
   const pick = <T>(xs: T[]) => xs[Math.floor(rand() * xs.length)];
   const count = opts.count ?? 40;
   const jobsToSend: { clipId: string; version: number }[] = [];
-  const digests = new Map<string, string>();
-  for (const [name, file] of library) digests.set(name, await sha256(file));
 
   const submitted: { id: string; setting: string; performedAt: Date; sonographerId: string }[] = [];
   await db.transaction(async (trx) => {
@@ -168,26 +161,19 @@ export async function seedDemoExams(
       const items = LIBRARY[app.code];
       const names = items.map((it) => it.name);
       if (i === count - 1 && draft) names.push("broken");
-      for (const [position, name] of names.entries()) {
-        const clipId = crypto.randomUUID();
+      // Through the same service as an upload; its jobs are sent once everything is committed.
+      const clipDeps = { db: trx, storage, jobs: { enqueueClip: async (j: ClipJob) => void jobsToSend.push(j) }, log: (e: unknown) => log(String(e)) };
+      for (const name of names) {
         const item = items.find((it) => it.name === name);
-        const originalKey = `programs/${program.id}/clips/${clipId}/original`;
-        await storage.put(originalKey, library.get(name)!, item?.mime ?? "video/mp4");
-        await trx("clips").insert({
-          id: clipId,
-          exam_id: exam.id,
-          program_id: program.id,
-          kind: item?.kind ?? "video",
-          view_key: null,
-          original_name: item?.file ?? "scan.mp4",
-          original_key: originalKey,
-          sha256: digests.get(name),
-          size_bytes: (await fsp.stat(library.get(name)!)).size,
-          mime: item?.mime ?? "video/mp4",
-          position,
-          created_at: performedAt,
+        await addClip(clipDeps, null, {
+          exam: { id: exam.id, programId: program.id },
+          path: library.get(name)!,
+          originalName: item?.file ?? "scan.mp4",
+          sizeBytes: (await fsp.stat(library.get(name)!)).size,
+          view: null,
+          media: { kind: item?.kind ?? "video", mime: item?.mime ?? "video/mp4" },
+          createdAt: performedAt,
         });
-        jobsToSend.push({ clipId, version: 1 });
       }
     }
   });

@@ -8,7 +8,8 @@ import fsp from "node:fs/promises";
 import path from "node:path";
 import type { Db } from "../server/db/knex";
 import type { Storage } from "../server/storage/types";
-import type { JobQueue } from "../server/jobs/queue";
+import type { ClipJob, JobQueue } from "../server/jobs/queue";
+import { addClip } from "../server/services/clips";
 import { mulberry32 } from "../shared/stats/random";
 import type { FindingRead } from "../shared/catalogue";
 import type { Scores } from "../shared/rubric/types";
@@ -50,8 +51,7 @@ export async function seedLearningHistory(
   if (!program) return 0;
   const app = await db("applications").where({ program_id: program.id, code: "efast" }).first("id");
   const clipFile = path.join(opts.libraryDir, "efast-ruq.mp4");
-  const clipBytes = await fsp.readFile(clipFile);
-  const sha = crypto.createHash("sha256").update(clipBytes).digest("hex");
+  const clipBytes = (await fsp.stat(clipFile)).size;
   const findingKeys: string[] = await db("application_findings").where("application_id", app.id).orderBy("position").pluck("key");
   const reviewers = await db("memberships as m")
     .join("users as u", "u.id", "m.user_id")
@@ -96,24 +96,20 @@ export async function seedLearningHistory(
           })
           .returning(["id"]);
         await trx("exam_findings").insert(reads.map((r) => ({ exam_id: exam.id, finding_key: r.key, read: r.read })));
-        const clipId = crypto.randomUUID();
-        const originalKey = `programs/${program.id}/clips/${clipId}/original`;
-        await storage.put(originalKey, clipFile, "video/mp4");
-        await trx("clips").insert({
-          id: clipId,
-          exam_id: exam.id,
-          program_id: program.id,
-          kind: "video",
-          view_key: "ruq",
-          original_name: "efast-ruq.mp4",
-          original_key: originalKey,
-          sha256: sha,
-          size_bytes: clipBytes.length,
-          mime: "video/mp4",
-          position: 0,
-          created_at: performedAt,
-        });
-        clipJobs.push({ clipId, version: 1 });
+        // Through the same service as an upload; its jobs are sent once everything is committed.
+        await addClip(
+          { db: trx, storage, jobs: { enqueueClip: async (j: ClipJob) => void clipJobs.push(j) }, log: (e: unknown) => opts.log?.(String(e)) },
+          null,
+          {
+            exam: { id: exam.id, programId: program.id },
+            path: clipFile,
+            originalName: "efast-ruq.mp4",
+            sizeBytes: clipBytes,
+            view: "ruq",
+            media: { kind: "video", mime: "video/mp4" },
+            createdAt: performedAt,
+          },
+        );
 
         await queueSubmittedExam(trx, { id: exam.id, program_id: program.id, setting }, settings.doubleReadShare);
         const slip = learner.slips[0] + (learner.slips[1] - learner.slips[0]) * progress;

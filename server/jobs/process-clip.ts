@@ -13,6 +13,16 @@ import { processStill } from "../media/still";
 import { precheckFile } from "../media/precheck";
 import { MediaError } from "../media/exec";
 import type { RedactionBox } from "../../shared/schemas/exams";
+import { processedKey, type ProcessedName } from "../storage/keys";
+import {
+  findClipForJob,
+  forgetClipOriginal,
+  markClipAwaitingRetry,
+  markClipFailed,
+  markClipProcessing,
+  markClipReady,
+  originalOfSubmittedClip,
+} from "../repositories/clips";
 
 export interface ClipJobContext {
   db: Db;
@@ -27,8 +37,6 @@ export interface Attempt {
   retryLimit: number;
 }
 
-const clipKey = (programId: string, clipId: string, version: number, name: string) => `programs/${programId}/clips/${clipId}/v${version}/${name}`;
-
 /** A message a person can act on; internal details stay in the server log. */
 export function describeFailure(err: unknown): string {
   // Paths of temporary files mean nothing to the reader and reveal the server's layout.
@@ -38,41 +46,29 @@ export function describeFailure(err: unknown): string {
 
 /** Same retention rule as at submission, for clips finished after their exam was sent (imports, the demo). */
 async function dropOriginalIfSubmitted(ctx: ClipJobContext, clipId: string) {
-  const [row] = await ctx
-    .db("clips as c")
-    .join("exams as e", "e.id", "c.exam_id")
-    .where("c.id", clipId)
-    .whereNot("e.status", "draft")
-    .whereNotNull("c.original_key")
-    .select("c.original_key");
-  if (!row) return;
-  await ctx.db("clips").where("id", clipId).update({ original_key: null });
-  await ctx.storage.delete(row.original_key).catch(() => undefined);
+  const original = await originalOfSubmittedClip(ctx.db, clipId);
+  if (!original) return;
+  await forgetClipOriginal(ctx.db, clipId);
+  await ctx.storage.delete(original).catch(() => undefined);
 }
 
 /** Processes one clip at one version. Throws on failure (after recording the last one). */
 export async function processClipJob(ctx: ClipJobContext, job: ClipJob, attempt: Attempt): Promise<"done" | "skipped"> {
-  const clip = await ctx.db("clips").where("id", job.clipId).first();
+  const clip = await findClipForJob(ctx.db, job.clipId);
   if (!clip || clip.process_version !== job.version || clip.processed_version === job.version) return "skipped";
   if (!clip.original_key) {
-    await ctx
-      .db("clips")
-      .where({ id: clip.id, process_version: job.version })
-      .update({ state: "failed", error: "The original upload is no longer kept, so this clip cannot be processed again", updated_at: ctx.db.fn.now() });
+    await markClipFailed(ctx.db, clip.id, job.version, "The original upload is no longer kept, so this clip cannot be processed again");
     return "skipped";
   }
-  await ctx
-    .db("clips")
-    .where({ id: clip.id, process_version: job.version })
-    .update({ state: "processing", attempts: ctx.db.raw("attempts + 1"), updated_at: ctx.db.fn.now() });
+  await markClipProcessing(ctx.db, clip.id, job.version);
 
   const work = await fsp.mkdtemp(path.join(os.tmpdir(), "soundings-clip-"));
   try {
     const input = path.join(work, "original");
     await ctx.storage.download(clip.original_key, input);
     const redactions = (clip.redactions ?? []) as RedactionBox[];
-    const put = async (name: string, file: string, type: string) => {
-      const key = clipKey(clip.program_id, clip.id, job.version, name);
+    const put = async (name: ProcessedName, file: string, type: string) => {
+      const key = processedKey(clip.program_id, clip.id, job.version, name);
       await ctx.storage.put(key, file, type);
       return key;
     };
@@ -109,10 +105,7 @@ export async function processClipJob(ctx: ClipJobContext, job: ClipJob, attempt:
       };
     }
     const previous = [clip.output_key, clip.poster_key, clip.strip_key, clip.thumb_key].filter(Boolean) as string[];
-    const n = await ctx
-      .db("clips")
-      .where({ id: clip.id, process_version: job.version })
-      .update({ ...update, state: "ready", error: null, processed_version: job.version, processed_at: ctx.db.fn.now(), updated_at: ctx.db.fn.now() });
+    const n = await markClipReady(ctx.db, clip.id, job.version, update);
     // Outputs of earlier versions are superseded; a newer version's job cleans up after itself.
     if (n > 0) await Promise.all(previous.filter((k) => !Object.values(update).includes(k)).map((k) => ctx.storage.delete(k).catch(() => undefined)));
     if (n > 0 && ctx.originalRetention === "delete_on_submit") await dropOriginalIfSubmitted(ctx, clip.id);
@@ -121,12 +114,8 @@ export async function processClipJob(ctx: ClipJobContext, job: ClipJob, attempt:
     const last = attempt.retryCount >= attempt.retryLimit;
     // A file that cannot be read is the upload's problem, said on the clip; only other errors need a stack.
     ctx.log?.(err instanceof MediaError ? `clip ${clip.id}: ${err.message}${last ? "" : " (will retry)"}` : err);
-    await ctx
-      .db("clips")
-      .where({ id: clip.id, process_version: job.version })
-      .update(
-        last ? { state: "failed", error: describeFailure(err), updated_at: ctx.db.fn.now() } : { state: "queued", error: null, updated_at: ctx.db.fn.now() },
-      );
+    if (last) await markClipFailed(ctx.db, clip.id, job.version, describeFailure(err));
+    else await markClipAwaitingRetry(ctx.db, clip.id, job.version);
     throw err;
   } finally {
     await fsp.rm(work, { recursive: true, force: true });

@@ -6,6 +6,7 @@ import type { Storage } from "../storage/types";
 import type { Config } from "../config";
 import { CLIP_QUEUE, type ClipJob, type JobQueue } from "./queue";
 import { processClipJob } from "./process-clip";
+import { requeueStuckClips } from "../repositories/clips";
 import { log as defaultLog } from "../log";
 
 export interface MediaWorker {
@@ -15,11 +16,7 @@ export interface MediaWorker {
 
 /** Requeues clips left queued or processing for longer than `stuckAfterSeconds`. */
 export async function sweepStuckClips(db: Db, queue: JobQueue, stuckAfterSeconds: number): Promise<number> {
-  const stuck = await db("clips")
-    .whereIn("state", ["queued", "processing"])
-    .andWhere("updated_at", "<", db.raw(`now() - make_interval(secs => ?)`, [stuckAfterSeconds]))
-    .update({ state: "queued", updated_at: db.fn.now() })
-    .returning(["id", "process_version"]);
+  const stuck = await requeueStuckClips(db, stuckAfterSeconds);
   await Promise.all(stuck.map((c) => queue.enqueueClip({ clipId: c.id, version: c.process_version })));
   return stuck.length;
 }

@@ -85,3 +85,25 @@ export function assertCanEdit<T extends ExamRow>(user: AuthUser, exam: T | undef
   }
   if (exam.status !== "draft") throw new HttpError(409, "exam_not_draft", "This exam has been submitted and can no longer be changed");
 }
+
+/** The exam a clip belongs to (a row of findClipWithExam), as the rules above see it. */
+export const examOfClip = (c: { exam_id: string; exam_program_id: string; sonographer_id: string; exam_status: string }): ExamRow => ({
+  id: c.exam_id,
+  program_id: c.exam_program_id,
+  sonographer_id: c.sonographer_id,
+  status: c.exam_status,
+});
+
+/** Only the owner changes a clip, and only while its exam is a draft (as assertCanEdit). */
+export function assertCanEditClip<T extends { exam_id: string; exam_program_id: string; sonographer_id: string; exam_status: string }>(
+  user: AuthUser,
+  clip: T | undefined,
+): asserts clip is T {
+  if (!clip) throw notFound("Clip");
+  assertCanEdit(user, examOfClip(clip));
+}
+
+/** Whether the reviewer's own read of the exam is in: until it is, they see none of the sonographer's reads. */
+export async function reviewerReadIsIn(db: Knex | Knex.Transaction, reviewerId: string, examId: string): Promise<boolean> {
+  return !!(await db("reviews").where({ exam_id: examId, reviewer_id: reviewerId }).first("id"));
+}

@@ -130,3 +130,15 @@ export function presentExamListItem(r: {
     updatedAt: r.updated_at.toISOString(),
   };
 }
+
+/** An exam as one viewer may see it: the rows, and what the policy decided about naming and file names. */
+export interface ExamView {
+  exam: ExamDetailRow;
+  findings: { finding_key: string; read: FindingRead }[];
+  clips: ClipRow[];
+  identifySonographer: boolean;
+  forOwner: boolean;
+}
+
+export const presentExamView = (v: ExamView): Exam =>
+  presentExam(v.exam, v.findings, v.clips, { identifySonographer: v.identifySonographer, forOwner: v.forOwner });

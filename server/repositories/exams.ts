@@ -7,6 +7,7 @@ import type { examListQuerySchema } from "../../shared/schemas/exams";
 import type { ClipRow, ExamDetailRow } from "../presenters/exam";
 import type { FindingRead } from "../../shared/catalogue";
 import type { ExamRow } from "../policies/exam";
+import { examClipSummaryColumns, listExamClips } from "./clips";
 
 type Q = Db | Knex.Transaction;
 
@@ -22,6 +23,74 @@ export function newExamCode(): string {
 export const findExam = (db: Q, programId: string, id: string) =>
   db("exams").where({ id, program_id: programId }).first<(ExamRow & { application_id: string }) | undefined>();
 
+/** The exam, locked for the rest of the transaction (changes to one exam are serialised). */
+export const lockExam = (trx: Q, programId: string, id: string) => findExam(trx, programId, id).forUpdate();
+
+/** An active application of the program by its code. */
+export const findActiveApplication = (db: Q, programId: string, code: string) =>
+  db("applications").where({ program_id: programId, code, active: true }).first<{ id: string; code: string } | undefined>("id", "code");
+
+/** The finding keys an application asks about. */
+export async function applicationFindingKeys(db: Q, applicationId: string): Promise<string[]> {
+  return (await db("application_findings").where("application_id", applicationId).select("key")).map((r) => r.key);
+}
+
+/** The code of an application, by id. */
+export async function applicationCodeOf(db: Q, applicationId: string): Promise<string> {
+  return (await db("applications").where("id", applicationId).first("code")).code;
+}
+
+export interface NewExamRow {
+  program_id: string;
+  sonographer_id: string;
+  application_id: string;
+  code: string;
+  performed_at: string | Date;
+  setting: string;
+  transducer: string;
+  preset: string;
+  indication: string;
+}
+
+/** Inserts a draft; undefined when its code is already taken in the program. */
+export async function insertExam(trx: Q, row: NewExamRow): Promise<{ id: string } | undefined> {
+  const [inserted] = await trx("exams").insert(row).onConflict(["program_id", "code"]).ignore().returning("id");
+  return inserted;
+}
+
+/** Sets the given columns of an exam and its updated_at. */
+export const updateExamColumns = (trx: Q, id: string, changes: Record<string, unknown>) =>
+  trx("exams")
+    .where("id", id)
+    .update({ updated_at: trx.fn.now(), ...changes });
+
+/** Removes the exam's findings that its application does not ask about. */
+export const dropFindingsOutside = (trx: Q, examId: string, applicationId: string) =>
+  trx("exam_findings")
+    .where("exam_id", examId)
+    .whereNotIn("finding_key", trx("application_findings").where("application_id", applicationId).select("key"))
+    .delete();
+
+/** A draft becomes submitted, attested now. */
+export const markExamSubmitted = (trx: Q, id: string) =>
+  trx("exams").where("id", id).update({ status: "submitted", submitted_at: trx.fn.now(), attested_at: trx.fn.now(), updated_at: trx.fn.now() });
+
+export async function examSetting(trx: Q, id: string): Promise<string> {
+  return (await trx("exams").where("id", id).first("setting")).setting;
+}
+
+/** Deletes an exam (its findings and clips go with it). */
+export const deleteExam = (trx: Q, id: string) => trx("exams").where("id", id).delete();
+
+/**
+ * Marks the exam changed at `at` (default now) for what happens to its clips; updated_at
+ * never moves back (the demo adds clips dated when the scan was performed).
+ */
+export const touchExam = (trx: Q, id: string, at?: Date) =>
+  trx("exams")
+    .where("id", id)
+    .update({ updated_at: at ? trx.raw("GREATEST(updated_at, ?)", [at]) : trx.fn.now() });
+
 export async function examDetail(db: Q, programId: string, id: string) {
   const exam = (await db("exams as e")
     .join("applications as a", "a.id", "e.application_id")
@@ -31,7 +100,7 @@ export async function examDetail(db: Q, programId: string, id: string) {
   if (!exam) return undefined;
   const [findings, clips] = await Promise.all([
     db("exam_findings").where("exam_id", id).orderBy("finding_key") as Promise<{ finding_key: string; read: FindingRead }[]>,
-    db("clips").where("exam_id", id).orderBy(["position", "created_at"]) as Promise<ClipRow[]>,
+    listExamClips(db, id) as Promise<ClipRow[]>,
   ]);
   return { exam, findings, clips };
 }
@@ -68,13 +137,7 @@ export async function listOwnExams(db: Q, programId: string, userId: string, q: 
         "e.updated_at",
         "a.code as app_code",
         "a.name as app_name",
-        db.raw(`(SELECT count(*) FROM clips c WHERE c.exam_id = e.id) AS clip_count`),
-        db.raw(`(SELECT count(*) FROM clips c WHERE c.exam_id = e.id AND c.state = 'ready') AS ready_count`),
-        db.raw(`(SELECT count(*) FROM clips c WHERE c.exam_id = e.id AND c.state = 'failed') AS failed_count`),
-        db.raw(`(SELECT c.id FROM clips c WHERE c.exam_id = e.id AND c.state = 'ready' ORDER BY c.position, c.created_at LIMIT 1) AS poster_clip_id`),
-        db.raw(
-          `(SELECT c.process_version FROM clips c WHERE c.exam_id = e.id AND c.state = 'ready' ORDER BY c.position, c.created_at LIMIT 1) AS poster_version`,
-        ),
+        ...examClipSummaryColumns(db),
       )
       .orderBy([
         { column, order: direction },
@@ -92,13 +155,6 @@ export async function replaceFindings(trx: Knex.Transaction, examId: string, fin
   await trx("exam_findings").where("exam_id", examId).delete();
   if (findings.length) await trx("exam_findings").insert(findings.map((f) => ({ exam_id: examId, finding_key: f.key, read: f.read })));
 }
-
-/** The clip with its exam, scoped to the program. */
-export const findClipWithExam = (db: Q, programId: string, clipId: string) =>
-  db("clips as c")
-    .join("exams as e", "e.id", "c.exam_id")
-    .where({ "c.id": clipId, "c.program_id": programId })
-    .first("c.*", "e.sonographer_id", "e.status as exam_status", "e.program_id as exam_program_id");
 
 /** What the scoring rules need to know about an exam. */
 export async function examContext(db: Q, programId: string, examId: string) {

@@ -121,3 +121,10 @@ export const examListItemSchema = z.object({
   updatedAt: z.string(),
 });
 export type ExamListItem = z.infer<typeof examListItemSchema>;
+
+// Answers of the exam and clip routes.
+export const examResponseSchema = z.object({ exam: examSchema });
+export const examListResponseSchema = z.object({ items: z.array(examListItemSchema), total: z.number() });
+export const clipResponseSchema = z.object({ clip: clipSchema });
+/** An accepted upload: the new clip, queued for processing. */
+export const clipUploadResponseSchema = z.object({ id: z.uuid(), state: z.enum(CLIP_STATES), clip: clipSchema });

@@ -14,7 +14,6 @@ const PENDING: string[] = [
   "GET /calibration-sets",
   "GET /calibration-sets/:id/results",
   "GET /calibration-sets/exams/:id",
-  "GET /clips/:id/media/:variant",
   "GET /exams/:id/confirmations",
   "GET /exams/:id/messages",
   "GET /me/feedback",

@@ -3,7 +3,8 @@
 // around the app; once the server has accepted a file it becomes a clip of the exam query.
 import { useCallback, useSyncExternalStore } from "react";
 import { useQueryClient, type QueryClient } from "@tanstack/react-query";
-import type { Clip } from "../../../../shared/schemas/exams";
+import type { z } from "zod";
+import type { clipUploadResponseSchema } from "../../../../shared/schemas/exams";
 import { isApiError } from "../../../lib/api-client";
 import { uploadFile } from "../../../lib/upload";
 import { examKeys, mergeClip } from "./exams";
@@ -40,7 +41,7 @@ function subscribe(listener: () => void) {
 
 async function run(queryClient: QueryClient, item: UploadItem) {
   try {
-    const answer = await uploadFile<{ id: string; state: string; clip: Clip }>(`/exams/${item.examId}/clips`, item.file, {
+    const answer = await uploadFile<z.infer<typeof clipUploadResponseSchema>>(`/exams/${item.examId}/clips`, item.file, {
       onProgress: (share) => patch(item.key, { progress: share }),
     });
     mergeClip(queryClient, item.examId, answer.clip);

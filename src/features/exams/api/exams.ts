@@ -2,12 +2,18 @@
 // processing), and the changes to them. Every change invalidates the ["exams"] prefix, so
 // the list, the exam and the home counts never disagree for long.
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient, type QueryClient } from "@tanstack/react-query";
-import type { Clip, Exam, ExamListItem, ExamListQuery, RedactionBox } from "../../../../shared/schemas/exams";
-import type { ExamFieldsInput } from "../../../../shared/schemas/exams";
+import type { z } from "zod";
+import type { Clip, Exam, ExamListQuery, RedactionBox } from "../../../../shared/schemas/exams";
+import type { ExamFieldsInput, clipResponseSchema, examListResponseSchema, examResponseSchema } from "../../../../shared/schemas/exams";
 import { api } from "../../../lib/api-client";
 
 /** How often an exam is re-read while a clip waits for the media worker. */
 export const PROCESSING_POLL_MS = 1500;
+
+// The answers, as the server declares them (shared/schemas/exams.ts).
+type ExamListAnswer = z.infer<typeof examListResponseSchema>;
+type ExamAnswer = z.infer<typeof examResponseSchema>;
+type ClipAnswer = z.infer<typeof clipResponseSchema>;
 
 export type ExamListFilters = Pick<ExamListQuery, "status" | "application" | "from" | "to" | "sort" | "limit" | "offset">;
 
@@ -30,7 +36,7 @@ function toSearch(filters: ExamListFilters): string {
 export const examListQuery = (filters: ExamListFilters) =>
   queryOptions({
     queryKey: examKeys.list(filters),
-    queryFn: ({ signal }) => api<{ items: ExamListItem[]; total: number }>(`/exams${toSearch(filters)}`, { signal }),
+    queryFn: ({ signal }) => api<ExamListAnswer>(`/exams${toSearch(filters)}`, { signal }),
     placeholderData: keepPreviousData,
   });
 
@@ -42,7 +48,7 @@ export function isProcessing(exam: Pick<Exam, "clips"> | undefined): boolean {
 export const examQuery = (id: string) =>
   queryOptions({
     queryKey: examKeys.detail(id),
-    queryFn: ({ signal }) => api<{ exam: Exam }>(`/exams/${id}`, { signal }).then((r) => r.exam),
+    queryFn: ({ signal }) => api<ExamAnswer>(`/exams/${id}`, { signal }).then((r) => r.exam),
     // Poll only while the media worker has something of ours; stop once every clip settled.
     refetchInterval: (query) => (isProcessing(query.state.data) ? PROCESSING_POLL_MS : false),
     refetchIntervalInBackground: false,
@@ -80,14 +86,14 @@ const putExam = (qc: QueryClient, exam: Exam) => qc.setQueryData(examKeys.detail
 
 export function useCreateExam() {
   return useExamsMutation(
-    (body: ExamFieldsBody) => api<{ exam: Exam }>("/exams", { method: "POST", body }).then((r) => r.exam),
+    (body: ExamFieldsBody) => api<ExamAnswer>("/exams", { method: "POST", body }).then((r) => r.exam),
     (exam, _vars, qc) => putExam(qc, exam),
   );
 }
 
 export function useUpdateExam() {
   return useExamsMutation(
-    ({ id, body }: { id: string; body: Partial<ExamFieldsBody> }) => api<{ exam: Exam }>(`/exams/${id}`, { method: "PATCH", body }).then((r) => r.exam),
+    ({ id, body }: { id: string; body: Partial<ExamFieldsBody> }) => api<ExamAnswer>(`/exams/${id}`, { method: "PATCH", body }).then((r) => r.exam),
     (exam, _vars, qc) => putExam(qc, exam),
   );
 }
@@ -103,7 +109,7 @@ export function useDeleteExam() {
 
 export function useSubmitExam() {
   return useExamsMutation(
-    (id: string) => api<{ exam: Exam }>(`/exams/${id}/submit`, { method: "POST", body: { attestNoIdentifiers: true } }).then((r) => r.exam),
+    (id: string) => api<ExamAnswer>(`/exams/${id}/submit`, { method: "POST", body: { attestNoIdentifiers: true } }).then((r) => r.exam),
     (exam, _vars, qc) => putExam(qc, exam),
   );
 }
@@ -111,14 +117,14 @@ export function useSubmitExam() {
 export function useUpdateClip(examId: string) {
   return useExamsMutation(
     ({ clipId, body }: { clipId: string; body: { view?: string | null; redactions?: RedactionBox[] } }) =>
-      api<{ clip: Clip }>(`/clips/${clipId}`, { method: "PATCH", body }).then((r) => r.clip),
+      api<ClipAnswer>(`/clips/${clipId}`, { method: "PATCH", body }).then((r) => r.clip),
     (clip, _vars, qc) => mergeClip(qc, examId, clip),
   );
 }
 
 export function useRetryClip(examId: string) {
   return useExamsMutation(
-    (clipId: string) => api<{ clip: Clip }>(`/clips/${clipId}/retry`, { method: "POST" }).then((r) => r.clip),
+    (clipId: string) => api<ClipAnswer>(`/clips/${clipId}/retry`, { method: "POST" }).then((r) => r.clip),
     (clip, _vars, qc) => mergeClip(qc, examId, clip),
   );
 }
