@@ -19,7 +19,7 @@ import { registerFollowUpRoutes } from "./follow-ups/router";
 import { registerFeedbackRoutes } from "./feedback/router";
 import { registerReportRoutes } from "./reports/router";
 import { registerProgressRoutes } from "./progress/router";
-import { registerCalibrationRoutes } from "./calibration/router";
+import { registerCalibrationRoutes } from "./calibration-sets/router";
 import { registerQuestionRoutes } from "./questions/router";
 
 export function registerApiRoutes(kit: RouteKit, ctx: RouteContext) {

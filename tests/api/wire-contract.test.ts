@@ -11,9 +11,6 @@ afterAll(() => kit.close());
 const PENDING: string[] = [
   "GET /adjudications",
   "GET /assignments/:id",
-  "GET /calibration-sets",
-  "GET /calibration-sets/:id/results",
-  "GET /calibration-sets/exams/:id",
   "GET /exams/:id/confirmations",
   "GET /exams/:id/messages",
   "GET /me/feedback",
@@ -31,7 +28,6 @@ const PENDING: string[] = [
   "GET /roster/:id/progress",
   "POST /assignments/:id/reassign",
   "POST /assignments/:id/review",
-  "POST /calibration-sets",
   "POST /exams/:id/acknowledge",
   "POST /exams/:id/adjudicate",
   "POST /exams/:id/messages",

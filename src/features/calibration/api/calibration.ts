@@ -2,84 +2,35 @@
 // exams and reviewers, and a set's results (multi-rater agreement, matches with a reference).
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import type { Role } from "../../../../shared/roles";
-import type { FindingRead } from "../../../../shared/catalogue";
-import type { Criterion, ScoreValue } from "../../../../shared/rubric/types";
+import type { z } from "zod";
+import type {
+  CalibrationCriterion,
+  CalibrationResults,
+  CalibrationSetSummary,
+  MatchCount,
+  NewCalibrationSet,
+  Person,
+  ReferenceAnswer,
+  ReferenceForm,
+  ReferenceRow,
+  ReviewerVsReference,
+  calibrationSetCreatedSchema,
+  calibrationSetListSchema,
+} from "../../../../shared/schemas/calibration";
 import { api, isApiError } from "../../../lib/api-client";
 
-export type Interval = [number, number];
-
-export interface CalibrationSetSummary {
-  id: string;
-  name: string;
-  createdAt: string;
-  /** Exams in the set. */
-  exams: number;
-  /** Calibration reads sent out (exams × reviewers, less a sonographer's own exams). */
-  reads: number;
-  /** Reads submitted so far. */
-  done: number;
-}
-
-export interface Person {
-  id: string;
-  name: string;
-}
-
-export interface CalibrationCriterion {
-  key: string;
-  label: string;
-  /** Exams every reviewer has read for this criterion. */
-  units: number;
-  fleiss: { value: number | null; ci95: Interval | null } | null;
-  alpha: { value: number | null };
-  band: string | null;
-}
-
-export interface MatchCount {
-  compared: number;
-  matched: number;
-  share: number | null;
-}
-
-/** One reviewer against the reference answers: scores (top level) and reads of findings. */
-export interface ReviewerVsReference extends MatchCount {
-  reviewer: Person;
-  reads: MatchCount;
-}
-
-/** One value of a reference answer beside each reviewer's (null while a reviewer has not read the exam). */
-export interface ReferenceRow {
-  kind: "score" | "read";
-  key: string;
-  label: string;
-  reference: { value: ScoreValue; label: string };
-  given: { reviewerId: string; value: ScoreValue | null; label: string | null; matches: boolean | null }[];
-}
-
-export interface CalibrationResults {
-  id: string;
-  name: string;
-  exams: { id: string; code: string; application: { code: string; name: string }; hasReference: boolean }[];
-  reviewers: Person[];
-  criteria: CalibrationCriterion[];
-  vsReference: ReviewerVsReference[];
-  referenceDetail: { examId: string; code: string; rows: ReferenceRow[] }[];
-}
-
-/** What the new-set form needs to take a reference answer for one exam. */
-export interface ReferenceForm {
-  exam: { id: string; code: string; application: { code: string; name: string } };
-  rubric: { id: string; name: string; version: number };
-  /** The rubric's criteria for the exam's application, in display order. */
-  criteria: Criterion[];
-  findings: { key: string; label: string }[];
-}
-
-/** The QA lead's answer for one exam, as sent: either part may be partial. */
-export interface ReferenceAnswer {
-  scores: Record<string, ScoreValue>;
-  reads: { key: string; read: FindingRead }[];
-}
+export type {
+  CalibrationCriterion,
+  CalibrationResults,
+  CalibrationSetSummary,
+  MatchCount,
+  NewCalibrationSet,
+  Person,
+  ReferenceAnswer,
+  ReferenceForm,
+  ReferenceRow,
+  ReviewerVsReference,
+};
 
 /** An exam two reviewers scored differently, from the agreement report: a natural calibration pick. */
 export interface CandidateExam {
@@ -98,13 +49,6 @@ export interface ProgramMember {
   active: boolean;
 }
 
-export interface NewCalibrationSet {
-  name: string;
-  exams: { examId: string; reference?: ReferenceAnswer }[];
-  /** Left out to send the set to every active reviewer. */
-  reviewerIds?: string[];
-}
-
 export const calibrationKeys = {
   all: ["calibration-sets"] as const,
   list: () => ["calibration-sets", "list"] as const,
@@ -114,7 +58,7 @@ export const calibrationKeys = {
 
 export const calibrationSetsQuery = queryOptions({
   queryKey: calibrationKeys.list(),
-  queryFn: ({ signal }) => api<{ items: CalibrationSetSummary[] }>("/calibration-sets", { signal }),
+  queryFn: ({ signal }) => api<z.infer<typeof calibrationSetListSchema>>("/calibration-sets", { signal }),
 });
 
 export const calibrationResultsQuery = (id: string) =>
@@ -157,7 +101,7 @@ export function useCalibrationResults(id: string) {
 export function useCreateCalibrationSet() {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (body: NewCalibrationSet) => api<{ id: string }>("/calibration-sets", { method: "POST", body }),
+    mutationFn: (body: NewCalibrationSet) => api<z.infer<typeof calibrationSetCreatedSchema>>("/calibration-sets", { method: "POST", body }),
     onSettled: () => queryClient.invalidateQueries({ queryKey: calibrationKeys.all }),
   });
 }

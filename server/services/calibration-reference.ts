@@ -2,9 +2,9 @@
 // of the rubric the calibration reads use (for the exam's application) and the application's
 // findings. A reference may be partial (only the given keys are compared), but what it gives
 // must be a valid answer.
-import type { Criterion } from "../../../shared/rubric/types";
-import { scoreIssues, type ScoreIssue } from "../../../shared/rubric/logic";
-import type { ReferenceAnswer } from "./schema";
+import type { Criterion } from "../../shared/rubric/types";
+import { scoreIssues, type ScoreIssue } from "../../shared/rubric/logic";
+import type { ReferenceAnswer } from "../../shared/schemas/calibration";
 
 /** Problems with one exam's reference answer; paths are relative to the answer ("scores.depth", "reads.0.key"). */
 export function referenceIssues(

@@ -2,12 +2,12 @@
 // set's reviewers per criterion (Fleiss' kappa over exams every reviewer read, Krippendorff's
 // alpha over all reads) plus the reads of findings, and each reviewer against the QA lead's
 // reference answers (exact matches, summed and per exam).
-import type { Criterion, ScoreValue } from "../../../shared/rubric/types";
-import type { FindingRead } from "../../../shared/catalogue";
-import { criteriaFor } from "../../../shared/rubric/logic";
-import { agreementBand, fleissKappa, krippendorffAlpha } from "../../../shared/stats/index";
-import { ratingOf } from "../../services/agreement";
-import type { ReferenceAnswer } from "./schema";
+import type { Criterion, ScoreValue } from "../../shared/rubric/types";
+import type { FindingRead } from "../../shared/catalogue";
+import { criteriaFor } from "../../shared/rubric/logic";
+import { agreementBand, fleissKappa, krippendorffAlpha } from "../../shared/stats/index";
+import { ratingOf } from "./agreement";
+import type { ReferenceAnswer } from "../../shared/schemas/calibration";
 
 export interface ItemRow {
   examId: string;
