@@ -1,14 +1,14 @@
 // The signed-in user, read from GET /api/auth/me. Kept in the query cache under one key so
 // the layout, route guards and the sign-in screen agree on who is signed in.
 import { queryOptions } from "@tanstack/react-query";
-import type { SessionUser } from "../../shared/schemas/auth";
+import type { MeResponse, SessionUser } from "../../shared/schemas/auth";
 import { api, isApiError } from "./api-client";
 
 export const sessionKey = ["session"] as const;
 
 async function fetchSession(): Promise<SessionUser | null> {
   try {
-    const { user } = await api<{ user: SessionUser }>("/auth/me", { expectUnauthorized: true });
+    const { user } = await api<MeResponse>("/auth/me", { expectUnauthorized: true });
     return user;
   } catch (error) {
     if (isApiError(error, 401)) return null;

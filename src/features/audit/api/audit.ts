@@ -1,6 +1,6 @@
 // The program's audit log, one page at a time.
 import { keepPreviousData, queryOptions, useQuery } from "@tanstack/react-query";
-import type { AuditEntry } from "../../../../shared/schemas/users";
+import type { AuditPage } from "../../../../shared/schemas/users";
 import { api } from "../../../lib/api-client";
 
 export const AUDIT_PAGE_SIZE = 50;
@@ -8,7 +8,7 @@ export const AUDIT_PAGE_SIZE = 50;
 export const auditQuery = (page: { limit: number; offset: number }) =>
   queryOptions({
     queryKey: ["audit", "list", page],
-    queryFn: ({ signal }) => api<{ entries: AuditEntry[]; total: number }>(`/audit?limit=${page.limit}&offset=${page.offset}`, { signal }),
+    queryFn: ({ signal }) => api<AuditPage>(`/audit?limit=${page.limit}&offset=${page.offset}`, { signal }),
   });
 
 export function useAuditLog(page: { limit: number; offset: number }) {

@@ -1,26 +1,14 @@
 // Calls for signing in, passwords and invitations, with their query and mutation hooks.
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import type { SessionUser } from "../../../../shared/schemas/auth";
-import type { Role } from "../../../../shared/roles";
+import type { InvitationPreview, LoginResponse } from "../../../../shared/schemas/auth";
 import { api } from "../../../lib/api-client";
 import { sessionKey } from "../../../lib/session";
-
-type SignedIn = { token: string; user: SessionUser };
-
-export interface InvitationPreview {
-  email: string;
-  programName: string;
-  roles: Role[];
-  existingUser: boolean;
-  /** The name the inviter typed, if any. */
-  name: string | null;
-}
 
 /** Signs in and stores the user as the session, so guards see it without another request. */
 export function useSignIn() {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (body: { email: string; password: string }) => api<SignedIn>("/auth/login", { method: "POST", body, expectUnauthorized: true }),
+    mutationFn: (body: { email: string; password: string }) => api<LoginResponse>("/auth/login", { method: "POST", body, expectUnauthorized: true }),
     onSuccess: ({ user }) => {
       queryClient.removeQueries();
       queryClient.setQueryData(sessionKey, user);
@@ -62,7 +50,7 @@ export function useAcceptInvitation() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (body: { token: string; name: string; password: string }) =>
-      api<Partial<SignedIn> | undefined>("/auth/invitations/accept", { method: "POST", body, expectUnauthorized: true }),
+      api<LoginResponse>("/auth/invitations/accept", { method: "POST", body, expectUnauthorized: true }),
     onSuccess: (result) => {
       if (result?.user) {
         queryClient.removeQueries();

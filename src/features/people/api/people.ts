@@ -2,17 +2,17 @@
 // invalidates the whole ["users"] prefix: lists are small and must not show stale roles.
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import type { Role } from "../../../../shared/roles";
-import type { Invitation, Member } from "../../../../shared/schemas/users";
+import type { InvitationAnswer, InvitationList, MemberAnswer, MemberList } from "../../../../shared/schemas/users";
 import { api } from "../../../lib/api-client";
 
 export const membersQuery = queryOptions({
   queryKey: ["users", "members"],
-  queryFn: ({ signal }) => api<{ members: Member[] }>("/users", { signal }),
+  queryFn: ({ signal }) => api<MemberList>("/users", { signal }),
 });
 
 export const invitationsQuery = queryOptions({
   queryKey: ["users", "invitations"],
-  queryFn: ({ signal }) => api<{ invitations: Invitation[] }>("/users/invitations", { signal }),
+  queryFn: ({ signal }) => api<InvitationList>("/users/invitations", { signal }),
 });
 
 export function useMembers() {
@@ -32,9 +32,7 @@ function useUsersMutation<TVars, TResult>(fn: (vars: TVars) => Promise<TResult>)
 }
 
 export function useInvite() {
-  return useUsersMutation((body: { email: string; name?: string; roles: Role[] }) =>
-    api<{ invitation: Invitation }>("/users/invitations", { method: "POST", body }),
-  );
+  return useUsersMutation((body: { email: string; name?: string; roles: Role[] }) => api<InvitationAnswer>("/users/invitations", { method: "POST", body }));
 }
 
 export function useRevokeInvitation() {
@@ -42,11 +40,11 @@ export function useRevokeInvitation() {
 }
 
 export function useUpdateRoles() {
-  return useUsersMutation(({ id, roles }: { id: string; roles: Role[] }) => api<{ member: Member }>(`/users/${id}/roles`, { method: "PUT", body: { roles } }));
+  return useUsersMutation(({ id, roles }: { id: string; roles: Role[] }) => api<MemberAnswer>(`/users/${id}/roles`, { method: "PUT", body: { roles } }));
 }
 
 export function useSetActive() {
   return useUsersMutation(({ id, active }: { id: string; active: boolean }) =>
-    api<{ member: Member }>(`/users/${id}/${active ? "reactivate" : "deactivate"}`, { method: "POST" }),
+    api<MemberAnswer>(`/users/${id}/${active ? "reactivate" : "deactivate"}`, { method: "POST" }),
   );
 }
