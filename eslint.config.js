@@ -13,11 +13,8 @@ import globals from "globals";
 const ROUTES_WITH_QUERIES = [
   "server/routes/feedback/router.ts",
   "server/routes/home/router.ts",
-  "server/routes/oversight/router.ts",
   "server/routes/progress/report.ts",
   "server/routes/progress/router.ts",
-  "server/routes/questions/router.ts",
-  "server/routes/queue/router.ts",
   "server/routes/reports/router.ts",
 ];
 const NO_QUERIES = "a route handler parses, calls a service and presents: put the query in server/repositories/ and the transaction in server/services/";

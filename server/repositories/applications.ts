@@ -48,3 +48,27 @@ export async function insertCatalogue(db: Q, programId: string, catalogue: Catal
   await db("application_views").insert(rows((c) => c.views));
   await db("application_findings").insert(rows((c) => c.findings));
 }
+
+/** The views and findings of the exam's application, in their catalogue order. */
+export async function viewsAndFindingsOfExam(db: Q, examId: string) {
+  const [views, findings] = await Promise.all([
+    db("application_views as v")
+      .join("exams as e", "e.application_id", "v.application_id")
+      .where("e.id", examId)
+      .orderBy("v.position")
+      .select<{ key: string; label: string }[]>("v.key", "v.label"),
+    findingsOfApplication(db, examId, "exam"),
+  ]);
+  return { views, findings };
+}
+
+/** The findings of an application (or of an exam's application), in their catalogue order. */
+export function findingsOfApplication(db: Q, id: string, of: "application" | "exam" = "application") {
+  if (of === "application")
+    return db("application_findings").where("application_id", id).orderBy("position").select<{ key: string; label: string }[]>("key", "label");
+  return db("application_findings as f")
+    .join("exams as e", "e.application_id", "f.application_id")
+    .where("e.id", id)
+    .orderBy("f.position")
+    .select<{ key: string; label: string }[]>("f.key", "f.label");
+}

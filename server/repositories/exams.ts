@@ -181,3 +181,38 @@ export async function examContext(db: Q, programId: string, examId: string) {
     sonographerReads: { key: string; read: FindingRead }[];
   };
 }
+
+// The exam's review states, as the review flow moves it (README "Review rules").
+
+/** A submitted exam enters review; `double` records whether it also gets a second read. */
+export async function markExamInReview(trx: Knex.Transaction, examId: string, double: boolean) {
+  await trx("exams").where("id", examId).update({ status: "in_review", double_read: double });
+}
+
+/** The double reads disagreed: the exam waits for adjudication. */
+export async function markExamInAdjudication(trx: Knex.Transaction, examId: string) {
+  await trx("exams").where("id", examId).update({ status: "adjudication", updated_at: trx.fn.now() });
+}
+
+/** The exam's final result is decided. */
+export async function markExamReviewed(trx: Knex.Transaction, examId: string) {
+  await trx("exams").where("id", examId).update({ status: "reviewed", updated_at: trx.fn.now() });
+}
+
+/** An exam of the program with its application's code and name (what a reviewer's page shows of it). */
+export const findExamWithApplication = (db: Q, programId: string, examId: string) =>
+  db("exams as e").join("applications as ap", "ap.id", "e.application_id").where({ "e.id": examId, "e.program_id": programId }).first<
+    | {
+        id: string;
+        program_id: string;
+        sonographer_id: string;
+        code: string;
+        application_id: string;
+        performed_at: Date;
+        setting: string;
+        status: string;
+        app_code: string;
+        app_name: string;
+      }
+    | undefined
+  >("e.id", "e.program_id", "e.sonographer_id", "e.code", "e.application_id", "e.performed_at", "e.setting", "e.status", "ap.code as app_code", "ap.name as app_name");

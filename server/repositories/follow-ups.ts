@@ -62,3 +62,8 @@ export async function setFollowUpStatus(
     .returning(["id", "status"]);
   return row;
 }
+
+/** Opens a follow-up of a clinically significant disagreement found when the exam was settled. */
+export async function openFollowUp(trx: Knex.Transaction, f: { programId: string; examId: string; reviewId: string | null; reason: string }) {
+  await trx("follow_ups").insert({ program_id: f.programId, exam_id: f.examId, review_id: f.reviewId, reason: f.reason });
+}

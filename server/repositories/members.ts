@@ -91,3 +91,13 @@ export async function activeMemberships(db: Q, userId: string): Promise<SessionU
     .select("u.id", "u.name", "u.email", "m.roles", "p.id as program_id", "p.name as program_name");
   return rows.map((r) => ({ id: r.id, name: r.name, email: r.email, programId: r.program_id, programName: r.program_name, roles: r.roles }));
 }
+
+/** Whether the user holds the reviewer role in an active membership of the program. */
+export async function isActiveReviewer(db: Q, programId: string, userId: string): Promise<boolean> {
+  const row = await db("memberships")
+    .where({ user_id: userId, program_id: programId })
+    .whereNull("deactivated_at")
+    .whereRaw(`'reviewer' = ANY(roles)`)
+    .first("user_id");
+  return Boolean(row);
+}

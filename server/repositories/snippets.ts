@@ -25,3 +25,11 @@ export async function insertSnippet(db: Q, s: { programId: string; criterionKey:
 export async function deleteSnippet(db: Q, programId: string, id: string): Promise<boolean> {
   return (await db("snippets").where({ id, program_id: programId }).delete()) > 0;
 }
+
+/** Every snippet of the program in the order they were written (the scoring workspace's list). */
+export function snippetsByAge(db: Q, programId: string): Promise<Snippet[]> {
+  return db("snippets")
+    .where("program_id", programId)
+    .orderBy("created_at")
+    .select(...COLUMNS);
+}

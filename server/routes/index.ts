@@ -11,7 +11,6 @@ import { registerAuditRoutes } from "./audit/router";
 import { registerExamRoutes } from "./exams/router";
 import { registerClipRoutes } from "./clips/router";
 import { registerQueueRoutes } from "./queue/router";
-import { registerOversightRoutes } from "./oversight/router";
 import { registerRubricRoutes } from "./rubrics/router";
 import { registerSettingsRoutes } from "./settings/router";
 import { registerSnippetRoutes } from "./snippets/router";
@@ -20,7 +19,9 @@ import { registerFeedbackRoutes } from "./feedback/router";
 import { registerReportRoutes } from "./reports/router";
 import { registerProgressRoutes } from "./progress/router";
 import { registerCalibrationRoutes } from "./calibration-sets/router";
-import { registerQuestionRoutes } from "./questions/router";
+import { registerAssignmentRoutes } from "./assignments/router";
+import { registerAdjudicationRoutes } from "./adjudications/router";
+import { registerReviewRoutes } from "./reviews/router";
 
 export function registerApiRoutes(kit: RouteKit, ctx: RouteContext) {
   registerHealthRoutes(kit, ctx);
@@ -32,7 +33,8 @@ export function registerApiRoutes(kit: RouteKit, ctx: RouteContext) {
   registerExamRoutes(kit, ctx);
   registerClipRoutes(kit, ctx);
   registerQueueRoutes(kit, ctx);
-  registerOversightRoutes(kit, ctx);
+  registerAssignmentRoutes(kit, ctx);
+  registerAdjudicationRoutes(kit, ctx);
   registerFollowUpRoutes(kit, ctx);
   registerSnippetRoutes(kit, ctx);
   registerSettingsRoutes(kit, ctx);
@@ -41,5 +43,5 @@ export function registerApiRoutes(kit: RouteKit, ctx: RouteContext) {
   registerReportRoutes(kit, ctx);
   registerProgressRoutes(kit, ctx);
   registerCalibrationRoutes(kit, ctx);
-  registerQuestionRoutes(kit, ctx);
+  registerReviewRoutes(kit, ctx);
 }

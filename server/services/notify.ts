@@ -5,6 +5,7 @@ import type { Knex } from "knex";
 import type { Db } from "../db/knex";
 import { queueMail } from "../mail/outbox";
 import { threadReviewers } from "../policies/exam";
+import { overdueReadsByApplication } from "../repositories/assignments";
 import { feedbackReadyMail, overdueDigestMail, replyMail } from "../mail/templates";
 
 /** The sonographer's feedback is final: a notification and an e-mail. */
@@ -56,16 +57,7 @@ export async function sendOverdueDigests(db: Db, appUrl: string): Promise<number
   let sent = 0;
   for (const p of programs) {
     const hours = Number(p.settings?.turnaroundHours ?? 72);
-    const overdue = await db("assignments as a")
-      .join("exams as e", "e.id", "a.exam_id")
-      .join("applications as ap", "ap.id", "e.application_id")
-      .where("a.program_id", p.id)
-      .whereIn("a.kind", ["primary", "second"])
-      .where((q) => q.where("a.state", "open").orWhere((q2) => q2.where("a.state", "claimed").andWhere("a.lease_expires_at", "<=", db.fn.now())))
-      .andWhere("a.due_at", "<", db.raw(`now() - make_interval(hours => ?)`, [hours]))
-      .groupBy("ap.name")
-      .select("ap.name")
-      .count<{ name: string; count: string }[]>("* as count");
+    const overdue = await overdueReadsByApplication(db, p.id, hours);
     if (overdue.length === 0) continue;
     const reviewers = await db("memberships as m")
       .join("users as u", "u.id", "m.user_id")

@@ -1,10 +1,34 @@
-// The review queue's decisions: what a submitted exam needs (a primary read, and for a
-// reproducible share a second independent read), and claiming the next due assignment
-// atomically with row locks (FOR UPDATE SKIP LOCKED), as a lease that expires.
+// The review queue's use cases: what a submitted exam needs (a primary read, and for a
+// reproducible share a second independent read), what waits and what I hold, claiming the
+// next due read atomically as a lease that expires, the scoring workspace, autosave (which
+// extends the lease), giving a read back, and a QA lead handing a read to a chosen reviewer.
 import crypto from "node:crypto";
 import type { Knex } from "knex";
 import type { Db } from "../db/knex";
-import { activeRubricFor } from "../repositories/rubrics";
+import { HttpError, notFound } from "../http/errors";
+import type { Actor } from "./actor";
+import { auditAs } from "../repositories/audit";
+import {
+  claim,
+  extendLease,
+  findAssignment,
+  heldClaims,
+  oldestLiveClaim,
+  openReads,
+  readsExamElsewhere,
+  reassign as reassignRead,
+  releaseAssignment,
+  waitingByApplication,
+} from "../repositories/assignments";
+import { deleteDraft, deleteDraftOfOthers, findDraft, saveDraft as storeDraft } from "../repositories/reviews";
+import { snippetsByAge } from "../repositories/snippets";
+import { examDetail, findExam, markExamInReview } from "../repositories/exams";
+import { viewsAndFindingsOfExam } from "../repositories/applications";
+import { activeRubricFor, getRubric } from "../repositories/rubrics";
+import { getSettings } from "../repositories/settings";
+import { isActiveReviewer } from "../repositories/members";
+import { assertMayOpenWorkspace, assertNotOwnExam, assertOwnClaim, assertReassignable } from "../policies/review";
+import { reviewDraftSchema } from "../../shared/schemas/reviews";
 
 /**
  * Whether an exam gets a second read. Reproducible: the same exam id and share always give
@@ -21,49 +45,22 @@ export const priorityOf = (setting: string) => (setting === "clinical" ? 0 : 1);
 /** Creates the assignments a newly submitted exam needs, and moves it into review. */
 export async function queueSubmittedExam(trx: Knex.Transaction, exam: { id: string; program_id: string; setting: string }, doubleReadShare: number) {
   const double = sampledForSecondRead(exam.id, doubleReadShare);
-  const base = { program_id: exam.program_id, exam_id: exam.id, priority: priorityOf(exam.setting), due_at: trx.fn.now() };
-  await trx("assignments").insert(
-    double
-      ? [
-          { ...base, kind: "primary" },
-          { ...base, kind: "second" },
-        ]
-      : [{ ...base, kind: "primary" }],
-  );
-  await trx("exams").where("id", exam.id).update({ status: "in_review", double_read: double });
+  await openReads(trx, exam, double ? ["primary", "second"] : ["primary"], priorityOf(exam.setting));
+  await markExamInReview(trx, exam.id, double);
   return { double };
 }
 
-/**
- * The reads a reviewer could claim now (assignments `a` joined to exams `e` and applications
- * `ap`): first or second reads that are open or whose claim ran out, not handed to someone
- * else, not of the reviewer's own exams, and not of an exam the reviewer already reads.
- */
-export function claimable(db: Knex | Knex.Transaction, programId: string, reviewerId: string) {
-  return (
-    db("assignments as a")
-      .join("exams as e", "e.id", "a.exam_id")
-      .join("applications as ap", "ap.id", "e.application_id")
-      .where("a.program_id", programId)
-      .whereIn("a.kind", ["primary", "second", "calibration"])
-      .where((q) => q.where("a.state", "open").orWhere((q2) => q2.where("a.state", "claimed").andWhere("a.lease_expires_at", "<=", db.fn.now())))
-      .where((q) => q.whereNull("a.assigned_to").orWhere("a.assigned_to", reviewerId))
-      .whereNot("e.sonographer_id", reviewerId)
-      // A calibration read is always handed to one reviewer and may repeat an exam they read.
-      .where((q) =>
-        q.where("a.kind", "calibration").orWhereNotExists(function () {
-          this.from("assignments as b")
-            .whereRaw("b.exam_id = a.exam_id")
-            .andWhere("b.reviewer_id", reviewerId)
-            .whereNot("b.state", "cancelled")
-            .whereNot("b.kind", "calibration")
-            .whereRaw("b.id <> a.id");
-        }),
-      )
-  );
+/** What waits in the queue for the actor (by application and setting) and the claims they hold. */
+export async function queueOverview(db: Db, actor: Actor) {
+  const [waiting, held, settings] = await Promise.all([
+    waitingByApplication(db, actor.programId, actor.userId),
+    heldClaims(db, actor.programId, actor.userId),
+    getSettings(db, actor.programId),
+  ]);
+  return { waiting, held, turnaroundHours: settings.turnaroundHours };
 }
 
-export interface ClaimOptions {
+interface ClaimOptions {
   programId: string;
   reviewerId: string;
   leaseMinutes: number;
@@ -74,35 +71,94 @@ export interface ClaimOptions {
  * Claims the next due assignment for a reviewer, or returns the one they already hold.
  * Never their own exam, never a second read of an exam they already read.
  */
-export async function claimNext(db: Db, o: ClaimOptions): Promise<{ id: string; exam_id: string } | undefined> {
-  return db.transaction(async (trx) => {
-    const held = await trx("assignments")
-      .where({ program_id: o.programId, reviewer_id: o.reviewerId, state: "claimed" })
-      .whereIn("kind", ["primary", "second", "calibration"])
-      .andWhere("lease_expires_at", ">", trx.fn.now())
-      .orderBy("claimed_at")
-      .first("id", "exam_id");
-    if (held) return held;
-    const rubric = await activeRubricFor(trx, o.programId);
-    const candidate = claimable(trx, o.programId, o.reviewerId)
-      .orderBy([{ column: "a.priority" }, { column: "a.due_at" }, { column: "a.created_at" }, { column: "a.id" }])
-      .limit(1)
-      .forUpdate("a")
-      .skipLocked()
-      .select("a.id");
-    if (o.application) candidate.andWhere("ap.code", o.application);
-    const [row] = await trx("assignments")
-      .whereIn("id", candidate)
-      .update({
-        state: "claimed",
-        reviewer_id: o.reviewerId,
-        claimed_at: trx.fn.now(),
-        lease_expires_at: trx.raw(`now() + make_interval(mins => ?)`, [o.leaseMinutes]),
-        rubric_id: rubric?.id ?? null,
-      })
-      .returning(["id", "exam_id"]);
-    // A draft left by a previous holder of an expired claim is theirs, not the new reviewer's.
-    if (row) await trx("review_drafts").where("assignment_id", row.id).whereRaw(`data->>'reviewerId' IS DISTINCT FROM ?`, [o.reviewerId]).delete();
+async function claimIn(trx: Knex.Transaction, o: ClaimOptions) {
+  const held = await oldestLiveClaim(trx, o.programId, o.reviewerId);
+  if (held) return held;
+  const rubric = await activeRubricFor(trx, o.programId);
+  const row = await claim(trx, { ...o, rubricId: rubric?.id ?? null });
+  // A draft left by a previous holder of an expired claim is theirs, not the new reviewer's.
+  if (row) await deleteDraftOfOthers(trx, row.id, o.reviewerId);
+  return row;
+}
+
+/** "Start next": claims (audited) the next due read, or the one held already, and opens its workspace; undefined when nothing waits. */
+export async function startNext(db: Db, actor: Actor, application?: string) {
+  const claimed = await db.transaction(async (trx) => {
+    const { leaseMinutes } = await getSettings(trx, actor.programId);
+    const row = await claimIn(trx, { programId: actor.programId, reviewerId: actor.userId, leaseMinutes, application });
+    if (row) await auditAs(trx, actor, { action: "assignment.claimed", entityType: "assignment", entityId: row.id });
     return row;
+  });
+  return claimed ? openWorkspace(db, actor, claimed.id) : undefined;
+}
+
+/** Everything the scoring workspace needs for one assignment the actor holds. */
+export async function openWorkspace(db: Db, actor: Actor, assignmentId: string) {
+  const a = await findAssignment(db, actor.programId, assignmentId);
+  assertMayOpenWorkspace(a, actor.userId);
+  const d = await examDetail(db, actor.programId, a.exam_id);
+  const [settings, rubric, { views, findings }, draft, snippets] = await Promise.all([
+    getSettings(db, actor.programId),
+    a.rubric_id ? getRubric(db, actor.programId, a.rubric_id) : undefined,
+    viewsAndFindingsOfExam(db, a.exam_id),
+    findDraft(db, a.id),
+    snippetsByAge(db, actor.programId),
+  ]);
+  if (!rubric) throw new HttpError(409, "no_rubric", "The program has no published rubric; ask your QA lead to publish one");
+  return {
+    assignment: a,
+    detail: d!,
+    views,
+    findings,
+    blindSonographer: settings.blindSonographer,
+    rubric,
+    draft: draft ? { ...reviewDraftSchema.parse(draft.data), savedAt: draft.updated_at } : null,
+    snippets,
+  };
+}
+export type Workspace = Awaited<ReturnType<typeof openWorkspace>>;
+
+/** Autosave: stores the actor's draft on a claim they hold and extends the lease. */
+export async function autosaveDraft(db: Db, actor: Actor, assignmentId: string, draft: Record<string, unknown>) {
+  return db.transaction(async (trx) => {
+    assertOwnClaim(await findAssignment(trx, actor.programId, assignmentId, { lock: true }), actor.userId);
+    const settings = await getSettings(trx, actor.programId);
+    await storeDraft(trx, assignmentId, { ...draft, reviewerId: actor.userId });
+    const leaseExpiresAt = await extendLease(trx, assignmentId, settings.leaseMinutes);
+    return { savedAt: new Date(), leaseExpiresAt };
+  });
+}
+
+/** Gives the actor's claim back to the queue (its draft goes). */
+export async function release(db: Db, actor: Actor, assignmentId: string) {
+  await db.transaction(async (trx) => {
+    assertOwnClaim(await findAssignment(trx, actor.programId, assignmentId, { lock: true }), actor.userId);
+    await releaseAssignment(trx, assignmentId);
+    await deleteDraft(trx, assignmentId);
+    await auditAs(trx, actor, { action: "assignment.released", entityType: "assignment", entityId: assignmentId });
+  });
+}
+
+/** A QA lead hands an unsubmitted read to a chosen reviewer: never the exam's sonographer, never a second read by the same reviewer. */
+export async function handRead(db: Db, actor: Actor, assignmentId: string, reviewerId: string) {
+  return db.transaction(async (trx) => {
+    const a = await findAssignment(trx, actor.programId, assignmentId, { lock: true });
+    if (!a) throw notFound("Assignment");
+    assertReassignable(a);
+    if (!(await isActiveReviewer(trx, actor.programId, reviewerId)))
+      throw new HttpError(400, "validation_failed", "reviewerId: not an active reviewer of this program");
+    const exam = await findExam(trx, actor.programId, a.exam_id);
+    assertNotOwnExam(exam!, reviewerId, "assign");
+    if (await readsExamElsewhere(trx, a.exam_id, a.id, reviewerId))
+      throw new HttpError(409, "already_reading", "reviewerId: this reviewer already reads this exam; reads must be independent");
+    await reassignRead(trx, a.id, reviewerId);
+    await deleteDraft(trx, a.id);
+    await auditAs(trx, actor, {
+      action: "assignment.reassigned",
+      entityType: "assignment",
+      entityId: a.id,
+      details: { from: a.reviewer_id ?? a.assigned_to, to: reviewerId },
+    });
+    return { id: a.id, assignedTo: reviewerId };
   });
 }

@@ -2,12 +2,25 @@
 // per-finding outcomes, comparing double reads against tolerances, and settling each exam's
 // final result (single read, agreed double read, or adjudication) — explicitly and audited.
 import type { Knex } from "knex";
-import { HttpError } from "../http/errors";
+import type { z } from "zod";
+import type { Db } from "../db/knex";
+import { HttpError, notFound } from "../http/errors";
+import type { Role } from "../../shared/roles";
+import type { Actor } from "./actor";
+import { feedbackReady } from "./notify";
+import { assertMayAdjudicate, assertNotOwnExam, assertOwnClaim, type ReadAct } from "../policies/review";
+import { examContext } from "../repositories/exams";
+import { getRubric } from "../repositories/rubrics";
+import { getSettings } from "../repositories/settings";
 import type { Rubric, Scores } from "../../shared/rubric/types";
 import { creditFor, disagreements, outcome, scoreIssues, significantDisagreement } from "../../shared/rubric/logic";
 import type { FindingRead } from "../../shared/catalogue";
-import { audit } from "../repositories/audit";
-import type { ProgramSettings } from "../../shared/schemas/reviews";
+import { audit, auditAs } from "../repositories/audit";
+import { findAssignment, markSubmitted, openAdjudication, undecidedAdjudication } from "../repositories/assignments";
+import { deleteDraft, doubleReadsOf, insertReview, replaceFindingOutcomes, writeFinalResult } from "../repositories/reviews";
+import { openFollowUp } from "../repositories/follow-ups";
+import { markExamInAdjudication, markExamReviewed } from "../repositories/exams";
+import type { adjudicateSchema, ProgramSettings, submitReviewSchema } from "../../shared/schemas/reviews";
 
 type Read = { key: string; read: FindingRead };
 
@@ -61,42 +74,35 @@ export async function settleExam(
   settings: ProgramSettings,
 ) {
   const { credit, significant } = assessRead(rubric, exam, final.scores, final.reads, settings);
-  await trx("exam_results")
-    .insert({
-      exam_id: exam.id,
-      program_id: exam.program_id,
-      rubric_id: rubric.id,
-      scores: JSON.stringify(final.scores),
-      reads: JSON.stringify(final.reads),
-      source: final.source,
-      decided_by: final.decidedBy,
-      credit,
-      note: final.note ?? "",
-      decided_at: final.at ?? trx.fn.now(),
-    })
-    .onConflict("exam_id")
-    .merge();
+  await writeFinalResult(trx, {
+    examId: exam.id,
+    programId: exam.program_id,
+    rubricId: rubric.id,
+    scores: final.scores,
+    reads: final.reads,
+    source: final.source,
+    decidedBy: final.decidedBy,
+    credit,
+    note: final.note ?? "",
+    at: final.at,
+  });
   const ref = new Map(final.reads.map((r) => [r.key, r.read]));
-  await trx("finding_outcomes").where("exam_id", exam.id).delete();
-  const rows = exam.sonographerReads
-    .filter((r) => ref.has(r.key))
-    .map((r) => ({
-      exam_id: exam.id,
-      finding_key: r.key,
-      sonographer_read: r.read,
-      reference_read: ref.get(r.key)!,
-      outcome: outcome(r.read, ref.get(r.key)!),
-    }));
-  if (rows.length) await trx("finding_outcomes").insert(rows);
+  await replaceFindingOutcomes(
+    trx,
+    exam.id,
+    exam.sonographerReads
+      .filter((r) => ref.has(r.key))
+      .map((r) => ({ finding_key: r.key, sonographer_read: r.read, reference_read: ref.get(r.key)!, outcome: outcome(r.read, ref.get(r.key)!) })),
+  );
   if (significant.length) {
-    await trx("follow_ups").insert({
-      program_id: exam.program_id,
-      exam_id: exam.id,
-      review_id: final.reviewId ?? null,
+    await openFollowUp(trx, {
+      programId: exam.program_id,
+      examId: exam.id,
+      reviewId: final.reviewId ?? null,
       reason: `Clinically significant disagreement on a clinical exam: ${significant.join(", ")} (the sonographer's read differs from the ${final.source === "adjudicated" ? "adjudicated" : "reviewer's"} read). Consider whether the patient needs a callback.`,
     });
   }
-  await trx("exams").where("id", exam.id).update({ status: "reviewed", updated_at: trx.fn.now() });
+  await markExamReviewed(trx, exam.id);
   await audit(trx, {
     programId: exam.program_id,
     actorUserId: final.decidedBy,
@@ -119,11 +125,7 @@ export async function resolveAfterRead(
   exam: ExamContext,
   settings: ProgramSettings,
 ): Promise<"final" | "waiting" | "adjudication"> {
-  const reads = await trx("reviews as r")
-    .join("assignments as a", "a.id", "r.assignment_id")
-    .where("r.exam_id", exam.id)
-    .whereIn("a.kind", ["primary", "second"])
-    .select("r.*", "a.kind");
+  const reads = await doubleReadsOf(trx, exam.id);
   if (!exam.double_read) {
     const r = reads[0];
     await settleExam(
@@ -157,15 +159,8 @@ export async function resolveAfterRead(
     );
     return "final";
   }
-  await trx("assignments").insert({
-    program_id: exam.program_id,
-    exam_id: exam.id,
-    kind: "adjudication",
-    priority: 0,
-    due_at: trx.fn.now(),
-    rubric_id: rubric.id,
-  });
-  await trx("exams").where("id", exam.id).update({ status: "adjudication", updated_at: trx.fn.now() });
+  await openAdjudication(trx, exam, rubric.id);
+  await markExamInAdjudication(trx, exam.id);
   await audit(trx, {
     programId: exam.program_id,
     actorUserId: null,
@@ -187,31 +182,27 @@ export async function recordReview(
     rubric: Rubric;
     body: { scores: Scores; reads: Read[]; feedback: string; timeSpentSeconds: number };
     settings: ProgramSettings;
-    ip?: string;
+    ip?: string | null;
     at?: Date;
   },
 ) {
   const { credit, significant } = assessRead(r.rubric, r.exam, r.body.scores, r.body.reads, r.settings);
-  const [review] = await trx("reviews")
-    .insert({
-      program_id: r.exam.program_id,
-      assignment_id: r.assignment.id,
-      exam_id: r.exam.id,
-      reviewer_id: r.reviewerId,
-      rubric_id: r.rubric.id,
-      scores: JSON.stringify(r.body.scores),
-      reads: JSON.stringify(r.body.reads),
-      feedback: r.body.feedback,
-      time_spent_seconds: r.body.timeSpentSeconds,
-      credit,
-      significant_disagreement: significant.length > 0,
-      ...(r.at ? { submitted_at: r.at } : {}),
-    })
-    .returning(["id", "submitted_at", "credit"]);
-  await trx("assignments")
-    .where("id", r.assignment.id)
-    .update({ state: "submitted", reviewer_id: r.reviewerId, submitted_at: r.at ?? trx.fn.now(), lease_expires_at: null });
-  await trx("review_drafts").where("assignment_id", r.assignment.id).delete();
+  const review = await insertReview(trx, {
+    programId: r.exam.program_id,
+    assignmentId: r.assignment.id,
+    examId: r.exam.id,
+    reviewerId: r.reviewerId,
+    rubricId: r.rubric.id,
+    scores: r.body.scores,
+    reads: r.body.reads,
+    feedback: r.body.feedback,
+    timeSpentSeconds: r.body.timeSpentSeconds,
+    credit,
+    significantDisagreement: significant.length > 0,
+    at: r.at,
+  });
+  await markSubmitted(trx, r.assignment.id, r.reviewerId, r.at);
+  await deleteDraft(trx, r.assignment.id);
   await audit(trx, {
     programId: r.exam.program_id,
     actorUserId: r.reviewerId,
@@ -223,5 +214,100 @@ export async function recordReview(
   });
   // A calibration read measures the reviewer; it never decides the exam.
   const examState = r.assignment.kind === "calibration" ? ("calibration" as const) : await resolveAfterRead(trx, r.rubric, r.exam, r.settings);
-  return { review: review as { id: string; submitted_at: Date; credit: boolean }, examState };
+  return { review, examState };
+}
+
+/** What a decision is made on: the exam, the rubric version of its read, the program's settings. */
+interface Decision {
+  exam: ExamContext & { code: string };
+  rubric: Rubric;
+  settings: ProgramSettings;
+}
+
+/**
+ * The one sequence by which a read decides something (a submitted read, an adjudication):
+ * load the exam (404), let `gate` check the read still waits for this caller (it names the
+ * rubric version), refuse the caller's own exam, load the rubric (409), check the scores were
+ * made under that version, validate scores and reads against it (400), load the settings,
+ * `write` the decision, and tell the sonographer when the result became final.
+ */
+async function decide<T>(
+  trx: Knex.Transaction,
+  appUrl: string,
+  actor: Actor,
+  s: {
+    examId: string;
+    act: ReadAct;
+    gate: (exam: ExamContext) => { rubricId: string | null; rubricMissing: string };
+    body: { rubricId?: string; scores: Scores; reads: Read[] };
+    write: (d: Decision) => Promise<{ final: boolean; result: T }>;
+  },
+): Promise<T> {
+  const exam = await examContext(trx, actor.programId, s.examId);
+  if (!exam) throw notFound("Exam");
+  const { rubricId, rubricMissing } = s.gate(exam);
+  assertNotOwnExam(exam, actor.userId, s.act);
+  const rubric = rubricId ? await getRubric(trx, actor.programId, rubricId) : undefined;
+  if (!rubric) throw new HttpError(409, "no_rubric", rubricMissing);
+  if (s.body.rubricId && s.body.rubricId !== rubric.id) {
+    throw new HttpError(
+      400,
+      "validation_failed",
+      `rubricId: these scores were made under another rubric version; this exam is scored under version ${rubric.version}`,
+      [{ path: "rubricId", message: "Another rubric version" }],
+    );
+  }
+  assertValidReview(rubric, exam, s.body.scores, s.body.reads);
+  const settings = await getSettings(trx, actor.programId);
+  const { final, result } = await s.write({ exam, rubric, settings });
+  if (final) await feedbackReady(trx, appUrl, exam);
+  return result;
+}
+
+/** A reviewer submits the read they hold: scores, their own read of each finding and feedback. */
+export async function submitRead(db: Db, appUrl: string, actor: Actor, assignmentId: string, body: z.output<typeof submitReviewSchema>) {
+  return db.transaction(async (trx) => {
+    const a = await findAssignment(trx, actor.programId, assignmentId, { lock: true });
+    assertOwnClaim(a, actor.userId);
+    if (a.kind === "adjudication") throw new HttpError(409, "use_adjudication", "Set the final scores of an adjudication from the adjudication screen");
+    return decide(trx, appUrl, actor, {
+      examId: a.exam_id,
+      act: "review",
+      gate: () => ({ rubricId: a.rubric_id, rubricMissing: "The rubric of this assignment is missing" }),
+      body,
+      write: async ({ exam, rubric, settings }) => {
+        const { review, examState } = await recordReview(trx, { reviewerId: actor.userId, assignment: a, exam, rubric, body, settings, ip: actor.ip });
+        return { final: examState === "final", result: { review, examState } };
+      },
+    });
+  });
+}
+
+/** A QA lead (or the reviewer the adjudication was handed to) sets the final scores of an exam in adjudication. */
+export async function adjudicate(db: Db, appUrl: string, actor: Actor & { roles: readonly Role[] }, examId: string, body: z.output<typeof adjudicateSchema>) {
+  return db.transaction(async (trx) => {
+    const a = await undecidedAdjudication(trx, actor.programId, examId);
+    return decide(trx, appUrl, actor, {
+      examId,
+      act: "adjudicate",
+      gate: () => {
+        if (!a) throw new HttpError(409, "not_in_adjudication", "This exam is not waiting for adjudication");
+        assertMayAdjudicate({ id: actor.userId, roles: actor.roles }, a);
+        return { rubricId: a.rubric_id, rubricMissing: "The rubric of this exam is missing" };
+      },
+      body,
+      write: async ({ exam, rubric, settings }) => {
+        await markSubmitted(trx, a!.id, actor.userId);
+        const settled = await settleExam(
+          trx,
+          rubric,
+          exam,
+          { scores: body.scores, reads: body.reads, source: "adjudicated", decidedBy: actor.userId, note: body.note },
+          settings,
+        );
+        await auditAs(trx, actor, { action: "exam.adjudicated", entityType: "exam", entityId: exam.id, details: { scores: body.scores, note: body.note } });
+        return { final: true, result: { examId, credit: settled.credit, significantDisagreement: settled.significant } };
+      },
+    });
+  });
 }

@@ -9,29 +9,20 @@ afterAll(() => kit.close());
 
 /** Routes still answering without a declared schema. It only shrinks: empty when issue 11 is done. */
 const PENDING: string[] = [
-  "GET /adjudications",
-  "GET /assignments/:id",
   "GET /exams/:id/confirmations",
   "GET /exams/:id/messages",
   "GET /me/feedback",
   "GET /me/feedback/:id",
   "GET /me/progress",
   "GET /notifications",
-  "GET /queue",
   "GET /reports/agreement",
   "GET /reports/credentialing",
   "GET /reports/program",
-  "GET /reviews/exams/:id",
-  "GET /reviews/questions",
   "GET /roster",
   "GET /roster/:id/feedback",
   "GET /roster/:id/progress",
-  "POST /assignments/:id/reassign",
-  "POST /assignments/:id/review",
   "POST /exams/:id/acknowledge",
-  "POST /exams/:id/adjudicate",
   "POST /exams/:id/messages",
-  "PUT /assignments/:id/draft",
   "PUT /exams/:id/confirmations",
 ];
 

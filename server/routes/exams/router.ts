@@ -15,6 +15,7 @@ import { presentExamListItem, presentExamView } from "../../presenters/exam";
 import { actorOf } from "../../services/actor";
 import { createExam, discardExam, examForViewer, listMyExams, submitExam, updateExam } from "../../services/exams";
 import { registerExamClipRoutes } from "./clips";
+import { registerAdjudicateRoute } from "./adjudicate";
 
 export function registerExamRoutes(kit: RouteKit, ctx: RouteContext) {
   const { db } = ctx;
@@ -98,4 +99,5 @@ export function registerExamRoutes(kit: RouteKit, ctx: RouteContext) {
 
   // Sub-resources of /exams/:id, one file each.
   registerExamClipRoutes(kit, ctx);
+  registerAdjudicateRoute(kit, ctx);
 }

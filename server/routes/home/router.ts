@@ -3,7 +3,7 @@
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
 import { homeSchema, type Home } from "../../../shared/schemas/home";
-import { claimable } from "../../services/queue";
+import { claimable } from "../../repositories/assignments";
 import { reviewerReads } from "../../policies/exam";
 
 export function registerHomeRoutes(kit: RouteKit, { db }: RouteContext) {
