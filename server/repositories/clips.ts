@@ -11,7 +11,15 @@ import type { RedactionBox } from "../../shared/schemas/exams";
 type Q = Db | Knex.Transaction;
 
 /** A clip row with what its storage keys and reprocessing need beyond what is presented. */
-export type StoredClipRow = ClipRow & { program_id: string; exam_id: string; original_key: string | null; processed_version: number | null };
+export type StoredClipRow = ClipRow & {
+  program_id: string;
+  exam_id: string;
+  original_key: string | null;
+  processed_version: number | null;
+  sha256: string;
+  mime: string;
+  position: number;
+};
 
 /** Every stored object a clip row names (original and current outputs). */
 export const clipStorageKeys = (c: {
