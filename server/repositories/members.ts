@@ -1,17 +1,14 @@
 // Members of a program: the user row joined to its membership in that program.
 import type { Knex } from "knex";
 import type { Db } from "../db/knex";
-import type { Member } from "../../shared/schemas/users";
 import type { SessionUser } from "../../shared/schemas/auth";
 import type { Role } from "../../shared/roles";
 
 type Q = Db | Knex.Transaction;
 
-const iso = (d: Date | null) => (d ? d.toISOString() : null);
-
 const memberColumns = ["u.id", "u.name", "u.email", "m.roles", "m.deactivated_at", "m.created_at", "u.last_sign_in_at"];
 
-interface MemberRow {
+export interface MemberRow {
   id: string;
   name: string;
   email: string;
@@ -21,21 +18,10 @@ interface MemberRow {
   last_sign_in_at: Date | null;
 }
 
-export const presentMember = (r: MemberRow): Member => ({
-  id: r.id,
-  name: r.name,
-  email: r.email,
-  roles: r.roles,
-  active: r.deactivated_at === null,
-  joinedAt: r.created_at.toISOString(),
-  lastSignInAt: iso(r.last_sign_in_at),
-});
-
 const members = (db: Q, programId: string) => db("memberships as m").join("users as u", "u.id", "m.user_id").where("m.program_id", programId);
 
-export async function listMembers(db: Q, programId: string): Promise<Member[]> {
-  const rows = await members(db, programId).select(memberColumns).orderBy("u.name");
-  return rows.map(presentMember);
+export function listMembers(db: Q, programId: string): Promise<MemberRow[]> {
+  return members(db, programId).select(memberColumns).orderBy("u.name");
 }
 
 /** One member of the program, or undefined (another program's user is simply not found). */

@@ -3,8 +3,7 @@
 import type { Db } from "../db/knex";
 import { notFound } from "../http/errors";
 import type { Role } from "../../shared/roles";
-import type { Member } from "../../shared/schemas/users";
-import { activeAdminCount, deactivateMember, findMember, listMembers, presentMember, reactivateMember, setMemberRoles } from "../repositories/members";
+import { activeAdminCount, deactivateMember, findMember, listMembers, reactivateMember, setMemberRoles, type MemberRow } from "../repositories/members";
 import { endSessions } from "../repositories/sessions";
 import { auditAs } from "../repositories/audit";
 import { assertKeepsAnAdmin, assertNotSelf, losesARole } from "../policies/membership";
@@ -12,7 +11,7 @@ import type { Actor } from "./actor";
 
 export const programMembers = (db: Db, programId: string) => listMembers(db, programId);
 
-export function changeRoles(db: Db, actor: Actor, userId: string, roles: Role[]): Promise<Member> {
+export function changeRoles(db: Db, actor: Actor, userId: string, roles: Role[]): Promise<MemberRow> {
   return db.transaction(async (trx) => {
     const target = await findMember(trx, actor.programId, userId, true);
     if (!target) throw notFound("Member");
@@ -23,12 +22,12 @@ export function changeRoles(db: Db, actor: Actor, userId: string, roles: Role[])
       await endSessions(trx, { userId, programId: actor.programId, reason: "roles_changed" });
     }
     await auditAs(trx, actor, { action: "member.roles_changed", entityType: "user", entityId: userId, details: { from: target.roles, to: roles } });
-    return presentMember({ ...target, roles });
+    return { ...target, roles };
   });
 }
 
 /** Deactivates (never oneself, never the last active admin) or reactivates a member. */
-export function setMemberActive(db: Db, actor: Actor, userId: string, active: boolean): Promise<Member> {
+export function setMemberActive(db: Db, actor: Actor, userId: string, active: boolean): Promise<MemberRow> {
   return db.transaction(async (trx) => {
     const target = await findMember(trx, actor.programId, userId, true);
     if (!target) throw notFound("Member");
@@ -43,6 +42,6 @@ export function setMemberActive(db: Db, actor: Actor, userId: string, active: bo
       await reactivateMember(trx, actor.programId, userId);
     }
     await auditAs(trx, actor, { action: active ? "member.reactivated" : "member.deactivated", entityType: "user", entityId: userId });
-    return presentMember({ ...target, deactivated_at: deactivatedAt });
+    return { ...target, deactivated_at: deactivatedAt };
   });
 }

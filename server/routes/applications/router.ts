@@ -2,7 +2,7 @@
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
 import { applicationListSchema } from "../../../shared/schemas/applications";
-import { listApplications } from "../../repositories/applications";
+import { programApplications } from "../../services/applications";
 
 export function registerApplicationRoutes(kit: RouteKit, { db }: RouteContext) {
   defineRoute(kit, {
@@ -12,6 +12,6 @@ export function registerApplicationRoutes(kit: RouteKit, { db }: RouteContext) {
     tag: "applications",
     access: "signed_in",
     responses: { 200: { description: "Applications", schema: applicationListSchema } },
-    handler: async ({ user }) => ({ applications: await listApplications(db, user.programId) }),
+    handler: async ({ user }) => ({ applications: await programApplications(db, user.programId) }),
   });
 }

@@ -15,6 +15,7 @@ import { actorOf } from "../../services/actor";
 import { invite, programInvitations, withdrawInvitation } from "../../services/invitations";
 import { changeRoles, programMembers, setMemberActive } from "../../services/members";
 import { presentInvitation } from "../../presenters/invitation";
+import { presentMember } from "../../presenters/member";
 
 export function registerUserRoutes(kit: RouteKit, { db, config }: RouteContext) {
   defineRoute(kit, {
@@ -24,7 +25,7 @@ export function registerUserRoutes(kit: RouteKit, { db, config }: RouteContext) 
     tag: "people",
     access: ["admin", "qa_lead"],
     responses: { 200: { description: "Members", schema: memberListSchema } },
-    handler: async ({ user }) => ({ members: await programMembers(db, user.programId) }),
+    handler: async ({ user }) => ({ members: (await programMembers(db, user.programId)).map(presentMember) }),
   });
 
   defineRoute(kit, {
@@ -78,7 +79,7 @@ export function registerUserRoutes(kit: RouteKit, { db, config }: RouteContext) 
       404: { description: "Not a member" },
       409: { description: "Would leave no admin" },
     },
-    handler: async ({ req, user, params, body }) => ({ member: await changeRoles(db, actorOf(req, user), params.id, body.roles) }),
+    handler: async ({ req, user, params, body }) => ({ member: presentMember(await changeRoles(db, actorOf(req, user), params.id, body.roles)) }),
   });
 
   for (const action of ["deactivate", "reactivate"] as const) {
@@ -94,7 +95,9 @@ export function registerUserRoutes(kit: RouteKit, { db, config }: RouteContext) 
         404: { description: "Not a member" },
         409: { description: "Not allowed for this member" },
       },
-      handler: async ({ req, user, params }) => ({ member: await setMemberActive(db, actorOf(req, user), params.id, action === "reactivate") }),
+      handler: async ({ req, user, params }) => ({
+        member: presentMember(await setMemberActive(db, actorOf(req, user), params.id, action === "reactivate")),
+      }),
     });
   }
 }
