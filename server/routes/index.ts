@@ -15,9 +15,10 @@ import { registerRubricRoutes } from "./rubrics/router";
 import { registerSettingsRoutes } from "./settings/router";
 import { registerSnippetRoutes } from "./snippets/router";
 import { registerFollowUpRoutes } from "./follow-ups/router";
-import { registerFeedbackRoutes } from "./feedback/router";
+import { registerMeRoutes } from "./me/router";
+import { registerRosterRoutes } from "./roster/router";
+import { registerNotificationRoutes } from "./notifications/router";
 import { registerReportRoutes } from "./reports/router";
-import { registerProgressRoutes } from "./progress/router";
 import { registerCalibrationRoutes } from "./calibration-sets/router";
 import { registerAssignmentRoutes } from "./assignments/router";
 import { registerAdjudicationRoutes } from "./adjudications/router";
@@ -39,9 +40,10 @@ export function registerApiRoutes(kit: RouteKit, ctx: RouteContext) {
   registerSnippetRoutes(kit, ctx);
   registerSettingsRoutes(kit, ctx);
   registerRubricRoutes(kit, ctx);
-  registerFeedbackRoutes(kit, ctx);
+  registerMeRoutes(kit, ctx);
+  registerRosterRoutes(kit, ctx);
+  registerNotificationRoutes(kit, ctx);
   registerReportRoutes(kit, ctx);
-  registerProgressRoutes(kit, ctx);
   registerCalibrationRoutes(kit, ctx);
   registerReviewRoutes(kit, ctx);
 }

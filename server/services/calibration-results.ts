@@ -6,7 +6,7 @@ import type { Criterion, ScoreValue } from "../../shared/rubric/types";
 import type { FindingRead } from "../../shared/catalogue";
 import { criteriaFor } from "../../shared/rubric/logic";
 import { agreementBand, fleissKappa, krippendorffAlpha } from "../../shared/stats/index";
-import { ratingOf } from "./agreement";
+import { ratingOf } from "../reports/agreement";
 import type { ReferenceAnswer } from "../../shared/schemas/calibration";
 
 export interface ItemRow {

@@ -6,6 +6,7 @@ import type { Db } from "../db/knex";
 import { queueMail } from "../mail/outbox";
 import { threadReviewers } from "../policies/exam";
 import { overdueReadsByApplication } from "../repositories/assignments";
+import { insertNotifications } from "../repositories/notifications";
 import { feedbackReadyMail, overdueDigestMail, replyMail } from "../mail/templates";
 
 /** The sonographer's feedback is final: a notification and an e-mail. */
@@ -16,13 +17,15 @@ export async function feedbackReady(
 ): Promise<void> {
   const app = await trx("exams as e").join("applications as a", "a.id", "e.application_id").where("e.id", exam.id).first("a.name");
   const user = await trx("users").where("id", exam.sonographer_id).first("email", "name");
-  await trx("notifications").insert({
-    program_id: exam.program_id,
-    user_id: exam.sonographer_id,
-    kind: "feedback_ready",
-    exam_id: exam.id,
-    body: `Feedback on your ${app.name} exam ${exam.code} is ready.`,
-  });
+  await insertNotifications(trx, [
+    {
+      programId: exam.program_id,
+      userId: exam.sonographer_id,
+      kind: "feedback_ready",
+      examId: exam.id,
+      body: `Feedback on your ${app.name} exam ${exam.code} is ready.`,
+    },
+  ]);
   await queueMail(
     trx,
     feedbackReadyMail({ to: user.email, name: user.name, application: app.name, code: exam.code, link: `${appUrl}/feedback/${exam.id}` }),
@@ -33,17 +36,16 @@ export async function feedbackReady(
 /** A sonographer's question reaches every reviewer who read the exam. */
 export async function replyPosted(trx: Knex.Transaction, appUrl: string, exam: { id: string; program_id: string; code: string }, body: string): Promise<void> {
   const reviewers = await threadReviewers(trx, exam.id).distinct("u.id", "u.email", "u.name");
-  if (reviewers.length) {
-    await trx("notifications").insert(
-      reviewers.map((r) => ({
-        program_id: exam.program_id,
-        user_id: r.id,
-        kind: "feedback_reply",
-        exam_id: exam.id,
-        body: `A question about exam ${exam.code}.`,
-      })),
-    );
-  }
+  await insertNotifications(
+    trx,
+    reviewers.map((r) => ({
+      programId: exam.program_id,
+      userId: r.id,
+      kind: "feedback_reply" as const,
+      examId: exam.id,
+      body: `A question about exam ${exam.code}.`,
+    })),
+  );
   await queueMail(
     trx,
     reviewers.map((r) => replyMail({ to: r.email, name: r.name, code: exam.code, body, link: `${appUrl}/reviews/exams/${exam.id}` })),

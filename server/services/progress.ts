@@ -7,8 +7,22 @@ import type { Knex } from "knex";
 import type { Db } from "../db/knex";
 import { getSettings } from "../repositories/settings";
 import { getRubric } from "../repositories/rubrics";
+import {
+  peopleByIds,
+  programApplications,
+  programSonographers,
+  progressExams,
+  readOutcomesOf,
+  sonographersWithOpenFollowUps,
+  type ProgressExamRow,
+} from "../repositories/progress";
+import { assertProgramSonographer } from "../policies/progress";
+import type { AuthUser } from "../auth/types";
+import { confirmedReadsOf } from "../repositories/confirmations";
+import { unreadFeedbackOf } from "../repositories/notifications";
+import { criterionSnippets } from "../repositories/feedback";
 import { criteriaFor } from "../../shared/rubric/logic";
-import type { Criterion, Rubric, Scores } from "../../shared/rubric/types";
+import type { Criterion, Rubric } from "../../shared/rubric/types";
 import { accuracyFrom, countOutcomes, criterionAttainment, rate, rollingMean, type OutcomeCounts } from "../../shared/progress";
 import { cusum } from "../../shared/stats/cusum";
 import type {
@@ -43,83 +57,22 @@ export const STALLED_DAYS = 30;
 export const FALLING_WINDOW = 5;
 export const FALLING_DROP = 0.1;
 
-interface ExamRowLite {
-  id: string;
-  sonographer_id: string;
-  application_id: string;
-  status: string;
-  performed_at: Date;
-  submitted_at: Date;
-  credit: boolean | null;
-  scores: Scores | null;
-  rubric_id: string | null;
-  acknowledged: boolean;
-}
-
-/** Range on the day the exam was performed; `to` includes its whole day (UTC). */
-function inRange<T extends Knex.QueryBuilder>(q: T, { from, to }: ProgressQuery): T {
-  if (from) q.where("e.performed_at", ">=", `${from}T00:00:00Z`);
-  if (to) q.whereRaw(`e.performed_at < (?::date + 1)`, [to]);
-  return q;
-}
-
-/** The active sonographers of the program (the learners progress is kept for). */
-export async function programSonographers(db: Q, programId: string): Promise<{ id: string; name: string; email: string; created_at: Date }[]> {
-  return db("memberships as m")
-    .join("users as u", "u.id", "m.user_id")
-    .where("m.program_id", programId)
-    .whereNull("m.deactivated_at")
-    .whereRaw(`'sonographer' = ANY(m.roles)`)
-    .orderBy("u.name")
-    .select("u.id", "u.name", "u.email", "m.created_at");
-}
-
 /** Progress of each of the given sonographers (who must belong to the program), in the order given. */
 export async function computeProgress(db: Q, programId: string, userIds: string[], query: ProgressQuery): Promise<Progress[]> {
   if (userIds.length === 0) return [];
   const settings = await getSettings(db, programId);
-  const people = await db("users").whereIn("id", userIds).select("id", "name", "email");
-  const apps = await db("applications")
-    .where("program_id", programId)
-    .orderBy([{ column: "position" }, { column: "name" }])
-    .select("id", "code", "name", "active");
+  const people = await peopleByIds(db, userIds);
+  const apps = await programApplications(db, programId);
 
-  const exams: ExamRowLite[] = await inRange(
-    db("exams as e")
-      .leftJoin("exam_results as r", "r.exam_id", "e.id")
-      .where("e.program_id", programId)
-      .whereIn("e.sonographer_id", userIds)
-      .whereNot("e.status", "draft")
-      .orderBy([{ column: "e.performed_at" }, { column: "e.submitted_at" }, { column: "e.id" }])
-      .select(
-        "e.id",
-        "e.sonographer_id",
-        "e.application_id",
-        "e.status",
-        "e.performed_at",
-        "e.submitted_at",
-        "r.credit",
-        "r.scores",
-        "r.rubric_id",
-        db.raw("e.feedback_acknowledged_at IS NOT NULL as acknowledged"),
-      ),
-    query,
-  );
+  const exams = await progressExams(db, programId, userIds, query);
   const examIds = exams.map((e) => e.id);
   const reviewedIds = exams.filter((e) => e.status === "reviewed" && e.credit !== null).map((e) => e.id);
 
   const [outcomeRows, confirmationRows, snippets, unreadRows, rubrics] = await Promise.all([
-    reviewedIds.length ? db("finding_outcomes").whereIn("exam_id", reviewedIds).select("exam_id", "sonographer_read", "reference_read") : [],
-    examIds.length
-      ? db("confirmations as c")
-          .join("exam_findings as f", function () {
-            this.on("f.exam_id", "=", "c.exam_id").andOn("f.finding_key", "=", "c.finding_key");
-          })
-          .whereIn("c.exam_id", examIds)
-          .select("c.exam_id", "c.method", "c.result", "f.read")
-      : [],
-    db("snippets").where("program_id", programId).whereNotNull("criterion_key").orderBy("created_at").select("criterion_key", "text"),
-    db("notifications").where({ program_id: programId, kind: "feedback_ready" }).whereIn("user_id", userIds).whereNull("read_at").select("user_id", "exam_id"),
+    reviewedIds.length ? readOutcomesOf(db, reviewedIds) : [],
+    examIds.length ? confirmedReadsOf(db, examIds) : [],
+    criterionSnippets(db, programId),
+    unreadFeedbackOf(db, programId, userIds),
     loadRubrics(db, programId, exams),
   ]);
 
@@ -266,13 +219,13 @@ export async function computeProgress(db: Q, programId: string, userIds: string[
   });
 }
 
-function latest(exams: ExamRowLite[]): string | null {
+function latest(exams: ProgressExamRow[]): string | null {
   let best: Date | null = null;
   for (const e of exams) if (!best || e.submitted_at > best) best = e.submitted_at;
   return best ? best.toISOString() : null;
 }
 
-async function loadRubrics(db: Q, programId: string, exams: ExamRowLite[]): Promise<Map<string, Rubric>> {
+async function loadRubrics(db: Q, programId: string, exams: ProgressExamRow[]): Promise<Map<string, Rubric>> {
   const ids = [...new Set(exams.map((e) => e.rubric_id).filter((x): x is string => !!x))];
   const out = new Map<string, Rubric>();
   for (const id of ids) {
@@ -305,14 +258,7 @@ export async function roster(db: Q, programId: string, now = new Date()): Promis
     people.map((p) => p.id),
     { window: 10 },
   );
-  const openFollowUps = new Set(
-    await db("follow_ups as f")
-      .join("exams as e", "e.id", "f.exam_id")
-      .where("f.program_id", programId)
-      .whereNot("f.status", "closed")
-      .distinct()
-      .pluck("e.sonographer_id"),
-  );
+  const openFollowUps = await sonographersWithOpenFollowUps(db, programId);
   const stalledBefore = now.getTime() - STALLED_DAYS * 86_400_000;
   return people.map((person, i) => {
     const p = progress[i];
@@ -350,3 +296,14 @@ export async function roster(db: Q, programId: string, now = new Date()): Promis
 }
 
 export type { OutcomeCounts };
+
+/** The caller's own progress. */
+export async function myProgress(db: Q, user: AuthUser, query: ProgressQuery): Promise<Progress> {
+  return (await computeProgress(db, user.programId, [user.id], query))[0];
+}
+
+/** One sonographer's progress, for a QA lead of the program. */
+export async function sonographerProgress(db: Q, programId: string, sonographerId: string, query: ProgressQuery): Promise<Progress> {
+  await assertProgramSonographer(db, programId, sonographerId);
+  return (await computeProgress(db, programId, [sonographerId], query))[0];
+}

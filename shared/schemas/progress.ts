@@ -2,6 +2,7 @@
 // progress API answers with, shared by the screens, the roster and the credentialing report.
 import { z } from "zod";
 import { isoDateSchema } from "./common";
+import { FINDING_READS } from "../catalogue";
 
 /** How a finding was later confirmed (or that no confirmatory test was done). */
 export const CONFIRMATION_METHODS = ["ct", "formal_echo", "surgery", "follow_up", "none"] as const;
@@ -40,105 +41,115 @@ export const confirmationsInputSchema = z.object({
 });
 export type ConfirmationsInput = z.input<typeof confirmationsInputSchema>;
 
-export interface Confirmation {
-  findingKey: string;
-  label: string;
+export const confirmationSchema = z.object({
+  findingKey: z.string(),
+  label: z.string(),
   /** The sonographer's own read of the finding. */
-  sonographerRead: "positive" | "negative" | "indeterminate";
-  method: ConfirmationMethod | null;
-  result: "positive" | "negative" | null;
-  note: string;
-  enteredBy: string | null;
-  enteredAt: string | null;
-}
+  sonographerRead: z.enum(FINDING_READS),
+  method: z.enum(CONFIRMATION_METHODS).nullable(),
+  result: z.enum(CONFIRMED_RESULTS).nullable(),
+  note: z.string(),
+  enteredBy: z.string().nullable(),
+  enteredAt: z.string().nullable(),
+});
+export type Confirmation = z.infer<typeof confirmationSchema>;
+/** GET and PUT /api/exams/:id/confirmations. */
+export const confirmationsSchema = z.object({ items: z.array(confirmationSchema) });
+export type Confirmations = z.infer<typeof confirmationsSchema>;
 
 /** A proportion with its Wilson 95% interval; value null when n = 0. */
-export interface Rate {
-  successes: number;
-  n: number;
-  value: number | null;
-  ci95: [number, number];
-}
+export const rateSchema = z.object({
+  successes: z.number(),
+  n: z.number(),
+  value: z.number().nullable(),
+  ci95: z.tuple([z.number(), z.number()]),
+});
+export type Rate = z.infer<typeof rateSchema>;
 
-export interface Accuracy {
-  tp: number;
-  fp: number;
-  tn: number;
-  fn: number;
+export const accuracySchema = z.object({
+  tp: z.number(),
+  fp: z.number(),
+  tn: z.number(),
+  fn: z.number(),
   /** Reads left out: indeterminate on either side. */
-  indeterminate: number;
-  sensitivity: Rate;
-  specificity: Rate;
-  ppv: Rate;
-  npv: Rate;
-}
+  indeterminate: z.number(),
+  sensitivity: rateSchema,
+  specificity: rateSchema,
+  ppv: rateSchema,
+  npv: rateSchema,
+});
+export type Accuracy = z.infer<typeof accuracySchema>;
 
-export interface CusumView {
-  p0: number;
-  p1: number;
-  alpha: number;
-  beta: number;
-  s: number;
-  h0: number;
-  h1: number;
+const cusumOptionsSchema = z.object({ p0: z.number(), p1: z.number(), alpha: z.number(), beta: z.number() });
+
+export const cusumViewSchema = cusumOptionsSchema.extend({
+  s: z.number(),
+  h0: z.number(),
+  h1: z.number(),
   /** One point per reviewed exam in the order performed; failure = no credentialing credit. */
-  points: { n: number; examId: string; performedAt: string; failed: boolean; value: number }[];
-  signal: "competent" | "unacceptable" | "none";
+  points: z.array(z.object({ n: z.number(), examId: z.string(), performedAt: z.string(), failed: z.boolean(), value: z.number() })),
+  signal: z.enum(["competent", "unacceptable", "none"]),
   /** 1-based attempt number at which the first signal came, null while none. */
-  signalAtAttempt: number | null;
-  signalAtDate: string | null;
-}
+  signalAtAttempt: z.number().nullable(),
+  signalAtDate: z.string().nullable(),
+});
+export type CusumView = z.infer<typeof cusumViewSchema>;
 
-export interface TrendSeries {
-  criterionKey: string;
-  label: string;
+export const trendSeriesSchema = z.object({
+  criterionKey: z.string(),
+  label: z.string(),
   /** Per reviewed exam, oldest first: attainment 0–1 (1 = the level the program aims for) and the rolling mean. */
-  points: { examId: string; performedAt: string; value: number; rolling: number }[];
-}
+  points: z.array(z.object({ examId: z.string(), performedAt: z.string(), value: z.number(), rolling: z.number() })),
+});
+export type TrendSeries = z.infer<typeof trendSeriesSchema>;
 
-export interface ApplicationProgress {
-  application: { code: string; name: string };
-  submitted: number;
-  reviewed: number;
-  credited: number;
-  threshold: number;
+export const applicationProgressSchema = z.object({
+  application: z.object({ code: z.string(), name: z.string() }),
+  submitted: z.number(),
+  reviewed: z.number(),
+  credited: z.number(),
+  threshold: z.number(),
   /** Credited exams still needed (0 once met). */
-  remaining: number;
-  met: boolean;
+  remaining: z.number(),
+  met: z.boolean(),
   /** Share of reviewed exams credited. */
-  creditRate: Rate;
+  creditRate: rateSchema,
   /** Counts of final overall image quality levels (value → exams). */
-  qualityDistribution: Record<string, number>;
-  cusum: CusumView;
-  accuracyVsReviewer: Accuracy;
-  accuracyVsConfirmatory: Accuracy & { byMethod: Partial<Record<ConfirmationMethod, number>> };
-  trends: TrendSeries[];
-  lastActivityAt: string | null;
-}
+  qualityDistribution: z.record(z.string(), z.number()),
+  cusum: cusumViewSchema,
+  accuracyVsReviewer: accuracySchema,
+  accuracyVsConfirmatory: accuracySchema.extend({ byMethod: z.partialRecord(z.enum(CONFIRMATION_METHODS), z.number()) }),
+  trends: z.array(trendSeriesSchema),
+  lastActivityAt: z.string().nullable(),
+});
+export type ApplicationProgress = z.infer<typeof applicationProgressSchema>;
 
-export interface CriterionStanding {
-  criterionKey: string;
-  label: string;
+export const criterionStandingSchema = z.object({
+  criterionKey: z.string(),
+  label: z.string(),
   /** Mean attainment over the window (0–1). */
-  mean: number;
-  exams: number;
+  mean: z.number(),
+  exams: z.number(),
   /** The criterion's help text and the program's advice snippets for it. */
-  advice: string[];
-}
+  advice: z.array(z.string()),
+});
+export type CriterionStanding = z.infer<typeof criterionStandingSchema>;
 
-export interface Progress {
-  sonographer: { id: string; name: string; email: string };
-  window: number;
-  settings: { threshold: number; minQualityForCredit: number; cusum: { p0: number; p1: number; alpha: number; beta: number } };
-  range: { from: string | null; to: string | null };
-  total: { submitted: number; reviewed: number; credited: number; applicationsMet: number; applications: number };
-  applications: ApplicationProgress[];
-  strengths: CriterionStanding[];
-  focusAreas: CriterionStanding[];
-  unreadFeedback: number;
-  unacknowledgedFeedback: number;
-  lastActivityAt: string | null;
-}
+/** GET /api/me/progress and GET /api/roster/:id/progress. */
+export const progressSchema = z.object({
+  sonographer: z.object({ id: z.string(), name: z.string(), email: z.string() }),
+  window: z.number(),
+  settings: z.object({ threshold: z.number(), minQualityForCredit: z.number(), cusum: cusumOptionsSchema }),
+  range: z.object({ from: z.string().nullable(), to: z.string().nullable() }),
+  total: z.object({ submitted: z.number(), reviewed: z.number(), credited: z.number(), applicationsMet: z.number(), applications: z.number() }),
+  applications: z.array(applicationProgressSchema),
+  strengths: z.array(criterionStandingSchema),
+  focusAreas: z.array(criterionStandingSchema),
+  unreadFeedback: z.number(),
+  unacknowledgedFeedback: z.number(),
+  lastActivityAt: z.string().nullable(),
+});
+export type Progress = z.infer<typeof progressSchema>;
 
 export const ROSTER_FLAGS = ["stalled", "falling_quality", "follow_up_open", "cusum_unacceptable"] as const;
 export type RosterFlag = (typeof ROSTER_FLAGS)[number];
@@ -149,24 +160,30 @@ export const ROSTER_FLAG_LABELS: Record<RosterFlag, string> = {
   cusum_unacceptable: "Learning curve signals unacceptable",
 };
 
-export interface RosterRow {
-  id: string;
-  name: string;
-  email: string;
-  lastActivityAt: string | null;
-  total: { submitted: number; reviewed: number; credited: number };
-  applications: {
-    code: string;
-    name: string;
-    submitted: number;
-    credited: number;
-    reviewed: number;
-    threshold: number;
-    met: boolean;
-    signal: CusumView["signal"];
-  }[];
-  flags: RosterFlag[];
-}
+export const rosterRowSchema = z.object({
+  id: z.string(),
+  name: z.string(),
+  email: z.string(),
+  lastActivityAt: z.string().nullable(),
+  total: z.object({ submitted: z.number(), reviewed: z.number(), credited: z.number() }),
+  applications: z.array(
+    z.object({
+      code: z.string(),
+      name: z.string(),
+      submitted: z.number(),
+      credited: z.number(),
+      reviewed: z.number(),
+      threshold: z.number(),
+      met: z.boolean(),
+      signal: cusumViewSchema.shape.signal,
+    }),
+  ),
+  flags: z.array(z.enum(ROSTER_FLAGS)),
+});
+export type RosterRow = z.infer<typeof rosterRowSchema>;
+/** GET /api/roster. */
+export const rosterSchema = z.object({ items: z.array(rosterRowSchema) });
+export type Roster = z.infer<typeof rosterSchema>;
 
 export const progressQuerySchema = z.object({
   from: isoDateSchema.optional(),

@@ -16,6 +16,8 @@ import { actorOf } from "../../services/actor";
 import { createExam, discardExam, examForViewer, listMyExams, submitExam, updateExam } from "../../services/exams";
 import { registerExamClipRoutes } from "./clips";
 import { registerAdjudicateRoute } from "./adjudicate";
+import { registerExamFeedbackRoutes } from "./feedback";
+import { registerConfirmationRoutes } from "./confirmations";
 
 export function registerExamRoutes(kit: RouteKit, ctx: RouteContext) {
   const { db } = ctx;
@@ -100,4 +102,6 @@ export function registerExamRoutes(kit: RouteKit, ctx: RouteContext) {
   // Sub-resources of /exams/:id, one file each.
   registerExamClipRoutes(kit, ctx);
   registerAdjudicateRoute(kit, ctx);
+  registerExamFeedbackRoutes(kit, ctx);
+  registerConfirmationRoutes(kit, ctx);
 }

@@ -3,90 +3,11 @@
 // finding read) and per pair of reviewers (GROUP BY), so only small contingency tables
 // reach Node. The shared statistics module takes those counts as rows with
 // multiplicities, which gives exactly the figures of the same module on the raw rows.
-import type { Knex } from "knex";
-import type { Db } from "../db/knex";
-import { cohensKappa, gwetAC1, krippendorffAlpha, percentAgreement, agreementBand, type Interval, type Rating } from "../../shared/stats/index";
+import { cohensKappa, gwetAC1, krippendorffAlpha, percentAgreement, agreementBand, type Rating } from "../../shared/stats/index";
 import type { Criterion } from "../../shared/rubric/types";
 import { FINDING_READS } from "../../shared/catalogue";
-
-export interface AgreementFilters {
-  programId: string;
-  from?: string;
-  to?: string;
-  application?: string;
-}
-
-/**
- * The pairs of reads (first, second) of double-read exams in range, as a subquery. The
- * exam and its application are joined when a filter needs them or `exam` is not false
- * (both are NOT NULL foreign keys, so leaving them out changes no count).
- */
-export function readPairs(db: Db | Knex.Transaction, f: AgreementFilters, opts: { exam?: boolean } = {}) {
-  const withExam = opts.exam !== false;
-  const q = db("reviews as p")
-    .join("assignments as pa", function () {
-      this.on("pa.id", "=", "p.assignment_id").andOnVal("pa.kind", "=", "primary");
-    })
-    .join("reviews as s", "s.exam_id", "p.exam_id")
-    .join("assignments as sa", function () {
-      this.on("sa.id", "=", "s.assignment_id").andOnVal("sa.kind", "=", "second");
-    });
-  const exam = withExam || f.from || f.to || f.application;
-  if (exam) q.join("exams as e", "e.id", "p.exam_id");
-  if (withExam || f.application) q.join("applications as ap", "ap.id", "e.application_id");
-  q.where("p.program_id", f.programId);
-  // Same program as the review, said again for the exam so that PostgreSQL can walk the
-  // exams' (program_id, performed_at) index for date ranges and newest-first lists.
-  if (exam) q.andWhere("e.program_id", f.programId);
-  if (f.from) q.andWhere("e.performed_at", ">=", f.from);
-  if (f.to) q.andWhere("e.performed_at", "<", db.raw(`?::date + 1`, [f.to]));
-  if (f.application) q.andWhere("ap.code", f.application);
-  return q;
-}
-
-/** How many read pairs had first value `a` and second value `b` for criterion `key`, read first by `ra` and second by `rb`. */
-export interface PairCount {
-  key: string;
-  a: string | null;
-  b: string | null;
-  ra: string;
-  rb: string;
-  n: number;
-}
-
-/**
- * Counts of (first value, second value) per criterion key, and per finding under the key
- * `read`, split by (first reviewer, second reviewer) — one query, one pass over the pairs.
- */
-export async function pairCounts(db: Db, f: AgreementFilters): Promise<PairCount[]> {
-  return db.transaction(async (trx) => {
-    // Settings for this one aggregate (measured on the bench program, 2 cores): its cost
-    // estimate makes PostgreSQL compile it with JIT, which took longer (~0.5 s) than running
-    // it; parallel workers spent more CPU in all and answered later whenever other work ran
-    // (median 600 against 450 ms); and the pairing's hash tables spill to disk at the
-    // default work_mem.
-    await trx.raw("SET LOCAL jit = off");
-    await trx.raw("SET LOCAL max_parallel_workers_per_gather = 0");
-    await trx.raw("SET LOCAL work_mem = '32MB'");
-    // Pairs first grouped by their whole score and read documents (reviews of one rubric
-    // repeat a few patterns), then each pattern's values taken apart once and counted.
-    const patterns = readPairs(trx, f, { exam: false })
-      .groupBy("p.scores", "s.scores", "p.reads", "s.reads", "p.reviewer_id", "s.reviewer_id")
-      .select("p.scores as ps", "s.scores as ss", "p.reads as pr", "s.reads as sr", "p.reviewer_id as ra", "s.reviewer_id as rb", trx.raw("count(*) as n"));
-    return trx
-      .from(patterns.as("g"))
-      .joinRaw(
-        `CROSS JOIN LATERAL (
-           SELECT k.key, k.value, g.ss->>k.key FROM jsonb_each_text(g.ps) AS k(key, value)
-           UNION ALL
-           SELECT 'read', r.item->>'read', sr.read FROM jsonb_array_elements(g.pr) AS r(item)
-             LEFT JOIN LATERAL (SELECT x->>'read' AS read FROM jsonb_array_elements(g.sr) x WHERE x->>'key' = r.item->>'key') sr ON true
-         ) AS v(key, a, b)`,
-      )
-      .groupBy("v.key", "v.a", "v.b", "g.ra", "g.rb")
-      .select("v.key", "v.a", "v.b", "g.ra", "g.rb", trx.raw("sum(g.n)::int as n")) as Promise<PairCount[]>;
-  });
-}
+import type { PairCount } from "../repositories/agreement";
+import type { AgreementReport, CriterionAgreement, ReviewerBias } from "../../shared/schemas/reports";
 
 /** Counted pairs as a two-column ratings matrix with one row per distinct pair and its count as multiplicity. */
 export function countedRows(
@@ -110,24 +31,6 @@ export function countedRows(
 
 /** Alpha's percentile bootstrap in the report: resamples and seed, fixed so a report is reproducible. */
 export const ALPHA_BOOTSTRAP = { samples: 1000, seed: 20261201 } as const;
-
-export interface CriterionAgreement {
-  key: string;
-  label: string;
-  kind: string;
-  units: number;
-  percentAgreement: number | null;
-  kappa: { value: number | null; ci95: [number, number] | null; weights: "quadratic" | "unweighted" };
-  alpha: {
-    value: number | null;
-    level: "ordinal" | "nominal" | "interval";
-    /** Percentile bootstrap over exams (ALPHA_BOOTSTRAP); null when alpha or the interval is not computable. */
-    ci95: Interval | null;
-    bootstrap: { samples: number; seed: number; used: number } | null;
-  };
-  ac1: { value: number | null; ci95: [number, number] | null };
-  band: string | null;
-}
 
 /** Ordinal levels become their rank so weighted kappa and ordinal alpha see the order. */
 export function ratingOf(c: Criterion | undefined) {
@@ -201,13 +104,6 @@ export function reviewerPairs(counts: readonly PairCount[], names: ReadonlyMap<s
   return [...pairs.values()];
 }
 
-export interface ReviewerBias {
-  reviewer: { id: string; name: string };
-  n: number;
-  meanDifference: number | null;
-  ci95: [number, number] | null;
-}
-
 /**
  * Each reviewer's bias against consensus on a numeric or ordinal criterion: own value
  * (rank) minus the mean of the exam's two reads, i.e. ±(a − b)/2, averaged over the
@@ -246,4 +142,83 @@ export function biasAgainstConsensus(
     });
   }
   return bias.sort((x, y) => x.reviewer.name.localeCompare(y.reviewer.name));
+}
+
+export const READ_CRITERION = { key: "read" as const, label: "Interpretation (reads of findings)", kind: "choice" as const };
+
+export interface AgreementReportInput {
+  query: { from?: string; to?: string; application?: string; reviewerA?: string; reviewerB?: string };
+  /** The criterion the pair matrix, confusion matrix, bias and disagreements are about ("read" = the reads of findings). */
+  chosenKey: string;
+  /** The active rubric's criteria, then any older ones that still have counts. */
+  criteria: Criterion[];
+  counts: PairCount[];
+  names: ReadonlyMap<string, string>;
+  disagreements: AgreementReport["disagreements"];
+}
+
+/** The agreement report (GET /api/reports/agreement) from the counted read pairs. */
+export function agreementReport({ query, chosenKey, criteria, counts, names, disagreements }: AgreementReportInput): AgreementReport {
+  const byKey = countsByKey(counts);
+  const rows = [...criteria.map((c) => agreementOf(c, byKey.get(c.key) ?? [])), agreementOf(READ_CRITERION, byKey.get("read") ?? [])];
+  const chosen = criteria.find((c) => c.key === chosenKey);
+  const toRating = ratingOf(chosen);
+  const weights = chosen && (chosen.kind === "ordinal" || chosen.kind === "number") ? "quadratic" : "unweighted";
+  const categoryValues = chosen ? chosen.levels.map((l) => ({ value: l.value, label: l.label })) : FINDING_READS.map((r) => ({ value: r, label: r }));
+  const cats = chosen?.kind === "ordinal" ? chosen.levels.map((_, i) => i) : categoryValues.map((c) => c.value);
+
+  // The chosen criterion per reviewer pair (none for the reads of findings).
+  const chosenCounts = chosenKey === "read" ? [] : (byKey.get(chosenKey) ?? []);
+  const pairList = reviewerPairs(chosenCounts, names);
+  const pairs = pairList.map((p) => {
+    const m = countedRows(p.counts, toRating, { complete: true });
+    return {
+      a: p.a,
+      b: p.b,
+      units: m.units,
+      percentAgreement: m.units ? percentAgreement(m.rows, { multiplicity: m.multiplicity }).value : null,
+      kappa: m.units >= 2 ? cohensKappa(m.rows, { weights, categories: cats, multiplicity: m.multiplicity }).value : null,
+    };
+  });
+
+  // Confusion matrix: two chosen reviewers, or first read against second read.
+  const byReviewers = chosenKey !== "read" && query.reviewerA && query.reviewerB;
+  const chosenPair = byReviewers ? pairList.find((p) => [p.a.id, p.b.id].sort().join() === [query.reviewerA, query.reviewerB].sort().join()) : undefined;
+  const confusionCounts = byReviewers
+    ? (chosenPair?.counts.map((c) => (chosenPair.a.id === query.reviewerA ? c : { a: c.b, b: c.a, n: c.n })) ?? [])
+    : (byKey.get(chosenKey) ?? []);
+  const index = new Map(categoryValues.map((c, i) => [c.value, i]));
+  const grid = categoryValues.map(() => categoryValues.map(() => 0));
+  for (const c of confusionCounts) {
+    const i = index.get(c.a ?? "");
+    const j = index.get(c.b ?? "");
+    if (i !== undefined && j !== undefined) grid[i][j] += c.n;
+  }
+
+  // Bias against consensus: own rank minus the mean of the exam's two reads, per reviewer.
+  const bias = chosen && (chosen.kind === "ordinal" || chosen.kind === "number") ? biasAgainstConsensus(chosenCounts, toRating, names) : [];
+
+  return {
+    from: query.from ?? null,
+    to: query.to ?? null,
+    application: query.application ?? null,
+    criterion: chosenKey,
+    criteria: rows,
+    pairs,
+    confusion: {
+      rowLabel: byReviewers ? (names.get(query.reviewerA!) ?? "Reviewer A") : "First read",
+      colLabel: byReviewers ? (names.get(query.reviewerB!) ?? "Reviewer B") : "Second read",
+      categories: categoryValues,
+      counts: grid,
+    },
+    bias,
+    disagreements,
+  };
+}
+
+/** The counts grouped by criterion key. */
+export function countsByKey(counts: readonly PairCount[]): Map<string, PairCount[]> {
+  const byKey = new Map<string, PairCount[]>();
+  for (const c of counts) byKey.set(c.key, [...(byKey.get(c.key) ?? []), c]);
+  return byKey;
 }

@@ -1,0 +1,44 @@
+// The QA lead's roster (README "Progress and credentialing"): every sonographer of the
+// program with progress and flags, and one sonographer's progress and feedback.
+import { defineRoute, type RouteKit } from "../../http/route";
+import type { RouteContext } from "../../http/context";
+import { idParamsSchema } from "../../../shared/schemas/common";
+import { progressQuerySchema, progressSchema, rosterSchema } from "../../../shared/schemas/progress";
+import { feedbackListSchema } from "../../../shared/schemas/feedback";
+import { roster, sonographerProgress } from "../../services/progress";
+import { sonographerFeedback } from "../../services/feedback";
+
+export function registerRosterRoutes(kit: RouteKit, { db }: RouteContext) {
+  defineRoute(kit, {
+    method: "get",
+    path: "/roster",
+    summary: "Every sonographer of the program with progress per application, last activity and flags",
+    tag: "progress",
+    access: ["qa_lead"],
+    responses: { 200: { description: "Roster", schema: rosterSchema } },
+    handler: async ({ user }) => ({ items: await roster(db, user.programId) }),
+  });
+
+  defineRoute(kit, {
+    method: "get",
+    path: "/roster/:id/progress",
+    summary: "One sonographer's progress (QA lead)",
+    tag: "progress",
+    access: ["qa_lead"],
+    params: idParamsSchema,
+    query: progressQuerySchema,
+    responses: { 200: { description: "Progress", schema: progressSchema }, 404: { description: "Not a sonographer of this program" } },
+    handler: ({ user, params, query }) => sonographerProgress(db, user.programId, params.id, query),
+  });
+
+  defineRoute(kit, {
+    method: "get",
+    path: "/roster/:id/feedback",
+    summary: "A sonographer's reviewed exams with their feedback and the reviewers' names (QA lead)",
+    tag: "progress",
+    access: ["qa_lead"],
+    params: idParamsSchema,
+    responses: { 200: { description: "Feedback", schema: feedbackListSchema }, 404: { description: "Not a sonographer of this program" } },
+    handler: ({ user, params }) => sonographerFeedback(db, user, params.id),
+  });
+}
