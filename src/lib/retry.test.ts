@@ -1,7 +1,7 @@
 // The client's retry rules (RFC 9110 §15.6.4: 503 means a temporary overload or maintenance,
 // "likely be alleviated after some delay"; §15.5: 4xx means the client's request is at fault).
 import { describe, expect, it } from "vitest";
-import { ApiError } from "./api-client";
+import { ApiError } from "./api-errors";
 import { isTransientError, retryDelayMs, retryQuery, retryTransient } from "./retry";
 
 const err = (status: number, code = `http_${status}`) => new ApiError(status, code, "x");

@@ -1,7 +1,7 @@
 // When the client tries a failed request again. A network failure or a 502/503/504 (the
 // server said "not now": the database is restarting, a proxy lost the app) is passing, so
 // it is retried with a doubling delay; a 4xx is an answer and never retried.
-import { isApiError } from "./api-client";
+import { isApiError } from "./api-errors";
 
 /** True for failures that say "try again later" rather than "this request is wrong". */
 export function isTransientError(error: unknown): boolean {

@@ -2,7 +2,8 @@
 // the layout, route guards and the sign-in screen agree on who is signed in.
 import { queryOptions } from "@tanstack/react-query";
 import type { MeResponse, SessionUser } from "../../shared/schemas/auth";
-import { api, isApiError } from "./api-client";
+import { api } from "./api-client";
+import { isApiError } from "./api-errors";
 
 export const sessionKey = ["session"] as const;
 

@@ -1,7 +1,6 @@
 // File uploads with progress. fetch() reports no upload progress, so this one call uses
 // XMLHttpRequest, sending the session cookie and turning failures into ApiError like api().
-import type { ApiError as ApiErrorBody } from "../../shared/schemas/common";
-import { ApiError } from "./api-client";
+import { apiErrorFrom, networkError } from "./api-errors";
 
 export interface UploadOptions {
   /** Extra multipart fields sent before the file. */
@@ -34,10 +33,9 @@ export function uploadFile<T>(path: string, file: File, options: UploadOptions =
         resolve(data as T);
         return;
       }
-      const err = (data as Partial<ApiErrorBody> | undefined)?.error;
-      reject(new ApiError(xhr.status, err?.code ?? `http_${xhr.status}`, err?.message ?? `The upload was refused (HTTP ${xhr.status}).`, err?.details));
+      reject(apiErrorFrom(xhr.status, data, `The upload was refused (HTTP ${xhr.status}).`));
     };
-    xhr.onerror = () => reject(new ApiError(0, "network_error", "The upload was interrupted. Check the connection and try again."));
+    xhr.onerror = () => reject(networkError("The upload was interrupted. Check the connection and try again."));
     xhr.onabort = () => reject(new DOMException("The upload was cancelled.", "AbortError"));
     signal?.addEventListener("abort", () => xhr.abort(), { once: true });
 

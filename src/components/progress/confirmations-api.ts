@@ -4,6 +4,7 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import type { Confirmation, ConfirmationsInput } from "../../../shared/schemas/progress";
 import { api } from "../../lib/api-client";
+import { queryKeys } from "../../lib/query-keys";
 
 export const confirmationKeys = {
   all: ["confirmations"] as const,
@@ -32,8 +33,8 @@ export function useSaveConfirmations(examId: string) {
     onSettled: () =>
       Promise.all([
         queryClient.invalidateQueries({ queryKey: confirmationKeys.exam(examId) }),
-        queryClient.invalidateQueries({ queryKey: ["progress"] }),
-        queryClient.invalidateQueries({ queryKey: ["roster"] }),
+        queryClient.invalidateQueries({ queryKey: queryKeys.progress }),
+        queryClient.invalidateQueries({ queryKey: queryKeys.roster }),
       ]),
   });
 }

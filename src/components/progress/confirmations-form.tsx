@@ -6,7 +6,7 @@
 import { useId, useState, type ReactNode } from "react";
 import type { Confirmation, ConfirmationMethod } from "../../../shared/schemas/progress";
 import { CONFIRMATION_METHOD_LABELS, CONFIRMATION_METHODS, confirmationInputSchema } from "../../../shared/schemas/progress";
-import { fieldErrors, isApiError } from "../../lib/api-client";
+import { fieldErrors, isApiError } from "../../lib/api-errors";
 import { formatDateTime } from "../../lib/format";
 import { Button } from "../ui/button";
 import { FormMessage } from "../ui/form-message";

@@ -3,7 +3,7 @@
 import type { ReactNode } from "react";
 import { Link } from "react-router-dom";
 import { CircleAlert, LoaderCircle } from "lucide-react";
-import { isApiError } from "../../lib/api-client";
+import { errorMessage, isApiError } from "../../lib/api-errors";
 import { Button } from "./button";
 
 export function LoadingState({ label = "Loading…" }: { label?: string }) {
@@ -36,7 +36,7 @@ export function ErrorState({
   onRetry?: () => void;
   retrying?: boolean;
 }) {
-  const message = error instanceof Error ? error.message : "Something went wrong.";
+  const message = errorMessage(error, "Something went wrong.");
   return (
     <div role="alert" className="rounded-lg border border-coral-300 bg-coral-50 px-5 py-4">
       <p className="flex items-center gap-2 font-semibold text-coral-800">

@@ -3,6 +3,7 @@
 // disagreement, for a date range and optionally one application.
 import { keepPreviousData, queryOptions } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client";
+import { queryString } from "../../../lib/query-string";
 
 export type Interval = [number, number];
 
@@ -83,17 +84,11 @@ export interface AgreementFilters {
   reviewerB?: string;
 }
 
-function search(filters: AgreementFilters): string {
-  const p = new URLSearchParams();
-  for (const [k, v] of Object.entries(filters)) if (v) p.set(k, v);
-  return p.toString();
-}
-
 /** The report for these filters; the previous report stays on screen while the next loads. */
 export function agreementQuery(filters: AgreementFilters) {
   return queryOptions({
     queryKey: ["reports", "agreement", filters],
-    queryFn: ({ signal }) => api<AgreementReport>(`/reports/agreement?${search(filters)}`, { signal }),
+    queryFn: ({ signal }) => api<AgreementReport>(`/reports/agreement${queryString({ ...filters })}`, { signal }),
     placeholderData: keepPreviousData,
   });
 }

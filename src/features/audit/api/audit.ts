@@ -2,13 +2,14 @@
 import { keepPreviousData, queryOptions, useQuery } from "@tanstack/react-query";
 import type { AuditPage } from "../../../../shared/schemas/users";
 import { api } from "../../../lib/api-client";
+import { queryString } from "../../../lib/query-string";
 
 export const AUDIT_PAGE_SIZE = 50;
 
 export const auditQuery = (page: { limit: number; offset: number }) =>
   queryOptions({
     queryKey: ["audit", "list", page],
-    queryFn: ({ signal }) => api<AuditPage>(`/audit?limit=${page.limit}&offset=${page.offset}`, { signal }),
+    queryFn: ({ signal }) => api<AuditPage>(`/audit${queryString({ limit: page.limit, offset: page.offset })}`, { signal }),
   });
 
 export function useAuditLog(page: { limit: number; offset: number }) {

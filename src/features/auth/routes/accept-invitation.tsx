@@ -6,8 +6,7 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import { useNavigate, useSearchParams } from "react-router-dom";
 import { ROLE_LABELS } from "../../../../shared/roles";
 import { PASSWORD_MIN, type InvitationPreview } from "../../../../shared/schemas/auth";
-import { isApiError } from "../../../lib/api-client";
-import { applyServerFieldErrors } from "../../../lib/form-errors";
+import { applyServerFieldErrors, errorMessage, isApiError } from "../../../lib/api-errors";
 import { Button } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { ErrorState, LoadingState } from "../../../components/ui/states";
@@ -76,7 +75,7 @@ function AcceptForm({ token, invitation }: { token: string; invitation: Invitati
         return;
       }
       if (applyServerFieldErrors(error, setError, ["name", "password"])) return;
-      setFormError(error instanceof Error ? error.message : "The invitation could not be accepted.");
+      setFormError(errorMessage(error, "The invitation could not be accepted."));
     }
   });
 

@@ -5,8 +5,7 @@ import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useNavigate, useSearchParams } from "react-router-dom";
 import { PASSWORD_MIN } from "../../../../shared/schemas/auth";
-import { isApiError } from "../../../lib/api-client";
-import { applyServerFieldErrors } from "../../../lib/form-errors";
+import { applyServerFieldErrors, errorMessage, isApiError } from "../../../lib/api-errors";
 import { Button } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { TextField } from "../../../components/ui/text-field";
@@ -55,7 +54,7 @@ export default function ResetPasswordPage() {
         return;
       }
       if (applyServerFieldErrors(error, setError, ["password"])) return;
-      setFormError(error instanceof Error ? error.message : "The password could not be set.");
+      setFormError(errorMessage(error, "The password could not be set."));
     }
   });
 

@@ -5,8 +5,7 @@ import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useLocation, useNavigate, useSearchParams } from "react-router-dom";
 import { loginSchema } from "../../../../shared/schemas/auth";
-import { isApiError } from "../../../lib/api-client";
-import { applyServerFieldErrors } from "../../../lib/form-errors";
+import { applyServerFieldErrors, errorMessage, isApiError } from "../../../lib/api-errors";
 import { safeNext } from "../../../lib/safe-next";
 import { Button } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
@@ -18,7 +17,7 @@ import { TextLink } from "../components/text-link";
 function messageFor(error: unknown): string {
   if (isApiError(error, 401)) return "E-mail or password is incorrect.";
   if (isApiError(error, 429)) return "Too many sign-in attempts. Please wait a few minutes, then try again.";
-  return error instanceof Error ? error.message : "Signing in did not work. Please try again.";
+  return errorMessage(error, "Signing in did not work. Please try again.");
 }
 
 export default function SignInPage() {

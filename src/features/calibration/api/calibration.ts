@@ -17,7 +17,10 @@ import type {
   calibrationSetCreatedSchema,
   calibrationSetListSchema,
 } from "../../../../shared/schemas/calibration";
-import { api, isApiError } from "../../../lib/api-client";
+import { api } from "../../../lib/api-client";
+import { queryString } from "../../../lib/query-string";
+import { isApiError } from "../../../lib/api-errors";
+import { queryKeys } from "../../../lib/query-keys";
 
 export type {
   CalibrationCriterion,
@@ -80,12 +83,13 @@ export const referenceFormQuery = (examId: string) =>
 /** Exams where two reviewers disagreed on overall image quality over the report's default range. */
 export const candidateExamsQuery = queryOptions({
   queryKey: ["reports", "agreement", { criterion: "quality" }, "disagreements"],
-  queryFn: ({ signal }) => api<{ disagreements: CandidateExam[] }>("/reports/agreement?criterion=quality", { signal }).then((r) => r.disagreements),
+  queryFn: ({ signal }) =>
+    api<{ disagreements: CandidateExam[] }>(`/reports/agreement${queryString({ criterion: "quality" })}`, { signal }).then((r) => r.disagreements),
 });
 
 /** The program's members (same cache entry as Setup → People). */
 export const membersQuery = queryOptions({
-  queryKey: ["users", "members"],
+  queryKey: queryKeys.members,
   queryFn: ({ signal }) => api<{ members: ProgramMember[] }>("/users", { signal }),
 });
 

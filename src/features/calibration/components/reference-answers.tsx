@@ -7,7 +7,7 @@ import { CircleAlert } from "lucide-react";
 import { Button } from "../../../components/ui/button";
 import { ErrorState } from "../../../components/ui/states";
 import { StatusTag } from "../../../components/ui/status-tag";
-import { isApiError } from "../../../lib/api-client";
+import { isApiError } from "../../../lib/api-errors";
 import { referenceFormQuery, type ReferenceForm } from "../api/calibration";
 import { draftHasValues, EMPTY_DRAFT, ReferenceEditor, type ExamErrors, type ReferenceDraft } from "./reference-editor";
 

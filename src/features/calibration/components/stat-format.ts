@@ -24,10 +24,3 @@ export function bandWords(band: string | null): string {
   if (!band) return "—";
   return `${band[0].toUpperCase()}${band.slice(1)} agreement`;
 }
-
-/** Splits a server message such as "exams: Pick at least two exams" into its field and text. */
-export function splitFieldMessage(message: string): { field: string | null; text: string } {
-  const m = /^([A-Za-z][\w.]*): (.+)$/.exec(message);
-  if (!m) return { field: null, text: message };
-  return { field: m[1].split(".")[0], text: m[2] };
-}

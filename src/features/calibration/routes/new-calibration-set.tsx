@@ -8,13 +8,12 @@ import { Button, buttonClasses } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { PageHeader } from "../../../components/ui/page-header";
 import { TextField } from "../../../components/ui/text-field";
-import { fieldErrors } from "../../../lib/api-client";
+import { errorMessage, fieldErrors, splitFieldMessage } from "../../../lib/api-errors";
 import { useCreateCalibrationSet, type NewCalibrationSet } from "../api/calibration";
 import { ExamPicker } from "../components/exam-picker";
 import { ReferenceAnswers } from "../components/reference-answers";
 import { draftHasValues, type ExamErrors, type ReferenceDraft } from "../components/reference-editor";
 import { ReviewerPicker } from "../components/reviewer-picker";
-import { splitFieldMessage } from "../components/stat-format";
 
 type Field = "name" | "exams" | "reviewerIds";
 type Errors = Partial<Record<Field | "form", string>> & { byExam?: Record<string, ExamErrors> };
@@ -67,7 +66,7 @@ function serverErrors(error: unknown, sent: NewCalibrationSet): Errors {
     out.form = CHECK_EXAMS;
   }
   if (Object.keys(out).length > 0) return out;
-  const message = error instanceof Error ? error.message : "The set could not be created.";
+  const message = errorMessage(error, "The set could not be created.");
   const { field, text } = splitFieldMessage(message);
   if (field && isField(field)) return { [field]: text };
   return { form: message };

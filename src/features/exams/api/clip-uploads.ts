@@ -5,9 +5,10 @@ import { useCallback, useSyncExternalStore } from "react";
 import { useQueryClient, type QueryClient } from "@tanstack/react-query";
 import type { z } from "zod";
 import type { clipUploadResponseSchema } from "../../../../shared/schemas/exams";
-import { isApiError } from "../../../lib/api-client";
+import { errorMessage, isApiError } from "../../../lib/api-errors";
 import { uploadFile } from "../../../lib/upload";
 import { examKeys, mergeClip } from "./exams";
+import { queryKeys } from "../../../lib/query-keys";
 
 export interface UploadItem {
   key: string;
@@ -46,12 +47,12 @@ async function run(queryClient: QueryClient, item: UploadItem) {
     });
     mergeClip(queryClient, item.examId, answer.clip);
     emit(items.filter((i) => i.key !== item.key));
-    await Promise.all([queryClient.invalidateQueries({ queryKey: examKeys.all }), queryClient.invalidateQueries({ queryKey: ["home"] })]);
+    await Promise.all([queryClient.invalidateQueries({ queryKey: examKeys.all }), queryClient.invalidateQueries({ queryKey: queryKeys.home })]);
   } catch (error) {
     const status = isApiError(error) ? error.status : 0;
     patch(item.key, {
       status: "refused",
-      error: error instanceof Error ? error.message : "The upload did not work.",
+      error: errorMessage(error, "The upload did not work."),
       retryable: status === 0 || status >= 500 || status === 429,
     });
   }

@@ -6,6 +6,8 @@ import type { z } from "zod";
 import type { Clip, Exam, ExamListQuery, RedactionBox } from "../../../../shared/schemas/exams";
 import type { ExamFieldsInput, clipResponseSchema, examListResponseSchema, examResponseSchema } from "../../../../shared/schemas/exams";
 import { api } from "../../../lib/api-client";
+import { queryString } from "../../../lib/query-string";
+import { queryKeys } from "../../../lib/query-keys";
 
 /** How often an exam is re-read while a clip waits for the media worker. */
 export const PROCESSING_POLL_MS = 1500;
@@ -15,28 +17,20 @@ type ExamListAnswer = z.infer<typeof examListResponseSchema>;
 type ExamAnswer = z.infer<typeof examResponseSchema>;
 type ClipAnswer = z.infer<typeof clipResponseSchema>;
 
-export type ExamListFilters = Pick<ExamListQuery, "status" | "application" | "from" | "to" | "sort" | "limit" | "offset">;
+/** The list's filters as the address carries them (the query schema coerces limit and offset from text). */
+export type ExamListFilters = Pick<ExamListQuery, "status" | "application" | "from" | "to" | "sort"> & { limit?: number; offset?: number };
 
 export const examKeys = {
-  all: ["exams"] as const,
+  all: queryKeys.exams,
   lists: () => ["exams", "list"] as const,
   list: (filters: ExamListFilters) => ["exams", "list", filters] as const,
-  detail: (id: string) => ["exams", "detail", id] as const,
+  detail: queryKeys.examDetail,
 };
-
-function toSearch(filters: ExamListFilters): string {
-  const params = new URLSearchParams();
-  for (const [key, value] of Object.entries(filters)) {
-    if (value !== undefined && value !== null && value !== "") params.set(key, String(value));
-  }
-  const s = params.toString();
-  return s ? `?${s}` : "";
-}
 
 export const examListQuery = (filters: ExamListFilters) =>
   queryOptions({
     queryKey: examKeys.list(filters),
-    queryFn: ({ signal }) => api<ExamListAnswer>(`/exams${toSearch(filters)}`, { signal }),
+    queryFn: ({ signal }) => api<ExamListAnswer>(`/exams${queryString({ ...filters })}`, { signal }),
     placeholderData: keepPreviousData,
   });
 
@@ -76,7 +70,7 @@ function useExamsMutation<TVars, TResult>(fn: (vars: TVars) => Promise<TResult>,
   return useMutation({
     mutationFn: fn,
     onSuccess: (result, vars) => onSuccess?.(result, vars, queryClient),
-    onSettled: () => Promise.all([queryClient.invalidateQueries({ queryKey: examKeys.all }), queryClient.invalidateQueries({ queryKey: ["home"] })]),
+    onSettled: () => Promise.all([queryClient.invalidateQueries({ queryKey: examKeys.all }), queryClient.invalidateQueries({ queryKey: queryKeys.home })]),
   });
 }
 
@@ -103,7 +97,7 @@ export function useDeleteExam() {
   return useMutation({
     mutationFn: (id: string) => api<void>(`/exams/${id}`, { method: "DELETE" }),
     onSuccess: (_r, id) => queryClient.removeQueries({ queryKey: examKeys.detail(id) }),
-    onSettled: () => Promise.all([queryClient.invalidateQueries({ queryKey: examKeys.lists() }), queryClient.invalidateQueries({ queryKey: ["home"] })]),
+    onSettled: () => Promise.all([queryClient.invalidateQueries({ queryKey: examKeys.lists() }), queryClient.invalidateQueries({ queryKey: queryKeys.home })]),
   });
 }
 

@@ -10,9 +10,8 @@ import type { Application } from "../../../../shared/schemas/applications";
 import { examCreateSchema, type Exam, type ExamFieldsInput } from "../../../../shared/schemas/exams";
 import { Button } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
-import { isApiError } from "../../../lib/api-client";
+import { applyServerFieldErrors, errorMessage, isApiError } from "../../../lib/api-errors";
 import { nowToTheMinute } from "../../../lib/datetime-local";
-import { applyServerFieldErrors } from "../../../lib/form-errors";
 import { useCreateExam, useSubmitExam, useUpdateExam, type ExamFieldsBody } from "../api/exams";
 import { useClipUploads } from "../api/clip-uploads";
 import { ClipDropzone } from "./clip-dropzone";
@@ -40,7 +39,7 @@ function valuesOf(exam: Exam | undefined): Partial<ExamFieldsInput> {
 
 function messageOf(error: unknown): string {
   if (isApiError(error, 409) && error.code === "exam_not_draft") return "This exam was already submitted and can no longer be changed.";
-  return error instanceof Error ? error.message : "Saving did not work. Please try again.";
+  return errorMessage(error, "Saving did not work. Please try again.");
 }
 
 export function ExamEditor({ exam, applications }: { exam?: Exam; applications: Application[] }) {

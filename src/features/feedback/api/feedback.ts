@@ -5,10 +5,11 @@ import { useEffect } from "react";
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client";
 import type { Feedback, FeedbackListItem, Outcome } from "../../../../shared/schemas/feedback";
+import { queryKeys } from "../../../lib/query-keys";
 export type { Feedback, FeedbackCriterion, FeedbackListItem, Outcome } from "../../../../shared/schemas/feedback";
 
 export const feedbackKeys = {
-  all: ["feedback"] as const,
+  all: queryKeys.feedback,
   list: () => ["feedback", "list"] as const,
   detail: (examId: string) => ["feedback", "detail", examId] as const,
 };
@@ -34,7 +35,7 @@ export function useFeedback(examId: string) {
   const query = useQuery(feedbackQuery(examId));
   const loadedAt = query.dataUpdatedAt;
   useEffect(() => {
-    if (loadedAt) void queryClient.invalidateQueries({ queryKey: ["notifications"] });
+    if (loadedAt) void queryClient.invalidateQueries({ queryKey: queryKeys.notifications });
   }, [loadedAt, queryClient]);
   return query;
 }
@@ -46,8 +47,8 @@ function useFeedbackMutation<TVars, TResult>(fn: (vars: TVars) => Promise<TResul
     onSettled: () =>
       Promise.all([
         queryClient.invalidateQueries({ queryKey: feedbackKeys.all }),
-        queryClient.invalidateQueries({ queryKey: ["notifications"] }),
-        queryClient.invalidateQueries({ queryKey: ["home"] }),
+        queryClient.invalidateQueries({ queryKey: queryKeys.notifications }),
+        queryClient.invalidateQueries({ queryKey: queryKeys.home }),
       ]),
   });
 }

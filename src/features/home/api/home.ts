@@ -2,9 +2,10 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import type { Home } from "../../../../shared/schemas/home";
 import { api } from "../../../lib/api-client";
+import { queryKeys } from "../../../lib/query-keys";
 
 export const homeQuery = queryOptions({
-  queryKey: ["home"],
+  queryKey: queryKeys.home,
   queryFn: ({ signal }) => api<Home>("/home", { signal }),
 });
 

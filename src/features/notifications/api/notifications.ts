@@ -1,6 +1,7 @@
 // In-app notifications of the signed-in user, polled every minute for the header bell.
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client";
+import { queryKeys } from "../../../lib/query-keys";
 
 export interface AppNotification {
   id: string;
@@ -15,7 +16,7 @@ export interface AppNotification {
 export const NOTIFICATIONS_POLL_MS = 60_000;
 
 export const notificationKeys = {
-  all: ["notifications"] as const,
+  all: queryKeys.notifications,
   list: () => ["notifications", "list"] as const,
 };
 
@@ -36,7 +37,7 @@ export function useMarkRead() {
   return useMutation({
     mutationFn: (ids?: string[]) => api<void>("/notifications/read", { method: "POST", body: ids ? { ids } : {} }),
     onSettled: () =>
-      Promise.all([queryClient.invalidateQueries({ queryKey: notificationKeys.all }), queryClient.invalidateQueries({ queryKey: ["feedback"] })]),
+      Promise.all([queryClient.invalidateQueries({ queryKey: notificationKeys.all }), queryClient.invalidateQueries({ queryKey: queryKeys.feedback })]),
   });
 }
 

@@ -7,6 +7,8 @@ import type { Role } from "../../../../shared/roles";
 import type { FollowUp, FollowUpStatus, followUpListSchema, followUpUpdatedSchema } from "../../../../shared/schemas/follow-ups";
 import type { z } from "zod";
 import { api } from "../../../lib/api-client";
+import { queryString } from "../../../lib/query-string";
+import { queryKeys } from "../../../lib/query-keys";
 
 export interface ReadOfReviewer {
   kind: "primary" | "second";
@@ -53,19 +55,20 @@ export const adjudicationsQuery = queryOptions({
 export const followUpsQuery = (status: FollowUpStatus | "all") =>
   queryOptions({
     queryKey: oversightKeys.followUps(status),
-    queryFn: ({ signal }) => api<z.infer<typeof followUpListSchema>>(`/follow-ups${status === "all" ? "" : `?status=${status}`}`, { signal }),
+    queryFn: ({ signal }) =>
+      api<z.infer<typeof followUpListSchema>>(`/follow-ups${queryString({ status: status === "all" ? undefined : status })}`, { signal }),
   });
 
 /** The program's members (same cache entry as Setup → People). */
 export const membersQuery = queryOptions({
-  queryKey: ["users", "members"],
+  queryKey: queryKeys.members,
   queryFn: ({ signal }) => api<{ members: ProgramMember[] }>("/users", { signal }),
 });
 
 /** The sonographer's own reads of an exam (a QA lead may open any exam of the program). */
 export const examReadsQuery = (examId: string) =>
   queryOptions({
-    queryKey: ["exams", "detail", examId],
+    queryKey: queryKeys.examDetail(examId),
     queryFn: ({ signal }) => api<{ exam: { id: string; findings: { key: string; read: FindingRead }[] } }>(`/exams/${examId}`, { signal }).then((r) => r.exam),
   });
 
@@ -80,8 +83,8 @@ function useOversightMutation<TVars, TResult>(fn: (vars: TVars) => Promise<TResu
     onSettled: () =>
       Promise.all([
         queryClient.invalidateQueries({ queryKey: oversightKeys.all }),
-        queryClient.invalidateQueries({ queryKey: ["exams"] }),
-        queryClient.invalidateQueries({ queryKey: ["home"] }),
+        queryClient.invalidateQueries({ queryKey: queryKeys.exams }),
+        queryClient.invalidateQueries({ queryKey: queryKeys.home }),
       ]),
   });
 }

@@ -11,7 +11,7 @@ import type { Criterion, ScoreValue } from "../../../../shared/rubric/types";
 import { Button } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { FieldError } from "../../../components/ui/text-field";
-import { fieldErrors } from "../../../lib/api-client";
+import { fieldErrors } from "../../../lib/api-errors";
 import { READ_LABELS } from "../../../lib/catalogue";
 import type { AdjudicateBody, Adjudication } from "../api/oversight";
 

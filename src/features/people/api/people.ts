@@ -4,9 +4,10 @@ import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/r
 import type { Role } from "../../../../shared/roles";
 import type { InvitationAnswer, InvitationList, MemberAnswer, MemberList } from "../../../../shared/schemas/users";
 import { api } from "../../../lib/api-client";
+import { queryKeys } from "../../../lib/query-keys";
 
 export const membersQuery = queryOptions({
-  queryKey: ["users", "members"],
+  queryKey: queryKeys.members,
   queryFn: ({ signal }) => api<MemberList>("/users", { signal }),
 });
 
@@ -27,7 +28,7 @@ function useUsersMutation<TVars, TResult>(fn: (vars: TVars) => Promise<TResult>)
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: fn,
-    onSettled: () => queryClient.invalidateQueries({ queryKey: ["users"] }),
+    onSettled: () => queryClient.invalidateQueries({ queryKey: queryKeys.users }),
   });
 }
 

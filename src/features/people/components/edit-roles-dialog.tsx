@@ -4,7 +4,7 @@ import { useState } from "react";
 import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { updateRolesSchema, type Member } from "../../../../shared/schemas/users";
-import { isApiError } from "../../../lib/api-client";
+import { errorMessage, isApiError } from "../../../lib/api-errors";
 import { Button } from "../../../components/ui/button";
 import { Dialog } from "../../../components/ui/dialog";
 import { FormMessage } from "../../../components/ui/form-message";
@@ -38,7 +38,7 @@ function EditRolesForm({ member, onDone }: { member: Member; onDone: () => void 
         setFormError("The program must keep at least one active administrator. Make someone else an administrator first.");
         return;
       }
-      setFormError(error instanceof Error ? error.message : "The roles could not be changed.");
+      setFormError(errorMessage(error, "The roles could not be changed."));
     }
   });
 

@@ -8,6 +8,7 @@ import { ConfirmDialog } from "../../../components/ui/dialog";
 import { StatusTag } from "../../../components/ui/status-tag";
 import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
 import { useInvitations, useRevokeInvitation } from "../api/people";
+import { errorMessage } from "../../../lib/api-errors";
 
 export function InvitationsList() {
   const query = useInvitations(true);
@@ -30,7 +31,7 @@ export function InvitationsList() {
       await revoke.mutateAsync(target.id);
       close();
     } catch (e) {
-      setError(e instanceof Error ? e.message : "The invitation could not be revoked.");
+      setError(errorMessage(e, "The invitation could not be revoked."));
     }
   }
 

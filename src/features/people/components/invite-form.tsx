@@ -4,8 +4,7 @@ import { useState } from "react";
 import { useForm } from "react-hook-form";
 import { zodResolver } from "@hookform/resolvers/zod";
 import { inviteSchema } from "../../../../shared/schemas/users";
-import { isApiError } from "../../../lib/api-client";
-import { applyServerFieldErrors } from "../../../lib/form-errors";
+import { applyServerFieldErrors, errorMessage, isApiError } from "../../../lib/api-errors";
 import { Button } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { TextField } from "../../../components/ui/text-field";
@@ -40,7 +39,7 @@ export function InviteForm() {
         return;
       }
       if (applyServerFieldErrors(error, setError, ["email", "name", "roles"])) return;
-      setFormError(error instanceof Error ? error.message : "The invitation could not be sent.");
+      setFormError(errorMessage(error, "The invitation could not be sent."));
     }
   });
 

@@ -2,7 +2,7 @@
 // person out and stops their access; their exams and reviews stay.
 import { useState } from "react";
 import type { Member } from "../../../../shared/schemas/users";
-import { isApiError } from "../../../lib/api-client";
+import { errorMessage, isApiError } from "../../../lib/api-errors";
 import { ConfirmDialog } from "../../../components/ui/dialog";
 import { useSetActive } from "../api/people";
 
@@ -25,7 +25,7 @@ export function MemberActiveDialog({ member, onClose }: { member: Member | null;
       close();
     } catch (e) {
       if (isApiError(e) && e.code === "last_admin") setError("The program must keep at least one active administrator.");
-      else setError(e instanceof Error ? e.message : "The change did not go through.");
+      else setError(errorMessage(e, "The change did not go through."));
     }
   }
 

@@ -2,6 +2,7 @@
 // turnaround, volume per application per week, and reviewer workload.
 import { keepPreviousData, queryOptions } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client";
+import { queryString } from "../../../lib/query-string";
 
 export type BacklogBucket = "under 1 day" | "1–3 days" | "3–7 days" | "over 7 days";
 
@@ -24,7 +25,7 @@ export interface ReviewerWorkload {
 export function programQuery(range: { from: string; to: string }) {
   return queryOptions({
     queryKey: ["reports", "program", range],
-    queryFn: ({ signal }) => api<ProgramReport>(`/reports/program?${new URLSearchParams(range).toString()}`, { signal }),
+    queryFn: ({ signal }) => api<ProgramReport>(`/reports/program${queryString(range)}`, { signal }),
     placeholderData: keepPreviousData,
   });
 }

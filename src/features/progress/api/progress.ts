@@ -2,7 +2,10 @@
 // (GET /api/reports/credentialing, own figures only), for the Progress screen.
 import { keepPreviousData, queryOptions } from "@tanstack/react-query";
 import type { Progress } from "../../../../shared/schemas/progress";
-import { ApiError, api } from "../../../lib/api-client";
+import { api } from "../../../lib/api-client";
+import { queryString } from "../../../lib/query-string";
+import { apiErrorFrom, networkError } from "../../../lib/api-errors";
+import { queryKeys } from "../../../lib/query-keys";
 
 export interface ProgressFilters {
   from?: string;
@@ -10,14 +13,8 @@ export interface ProgressFilters {
   window: number;
 }
 
-function search(params: Record<string, string | number | undefined>): string {
-  const s = new URLSearchParams();
-  for (const [k, v] of Object.entries(params)) if (v !== undefined && v !== "") s.set(k, String(v));
-  return s.toString();
-}
-
 export const progressKeys = {
-  all: ["progress"] as const,
+  all: queryKeys.progress,
   mine: (filters: ProgressFilters) => ["progress", "me", filters] as const,
 };
 
@@ -25,14 +22,14 @@ export const progressKeys = {
 export function myProgressQuery(filters: ProgressFilters) {
   return queryOptions({
     queryKey: progressKeys.mine(filters),
-    queryFn: ({ signal }) => api<Progress>(`/me/progress?${search({ ...filters })}`, { signal }),
+    queryFn: ({ signal }) => api<Progress>(`/me/progress${queryString({ ...filters })}`, { signal }),
     placeholderData: keepPreviousData,
   });
 }
 
 /** The report's address (same origin, so the session cookie goes with it). */
 export function credentialingReportUrl(format: "pdf" | "csv", range: { userId?: string; from?: string; to?: string }): string {
-  return `/api/reports/credentialing?${search({ format, ...range })}`;
+  return `/api/reports/credentialing${queryString({ format, ...range })}`;
 }
 
 /**
@@ -44,12 +41,9 @@ export async function downloadCredentialingReport(format: "pdf" | "csv", range: 
   try {
     res = await fetch(credentialingReportUrl(format, range), { credentials: "include" });
   } catch {
-    throw new ApiError(0, "network_error", "The server could not be reached. Check the connection and try again.");
+    throw networkError();
   }
-  if (!res.ok) {
-    const body = (await res.json().catch(() => null)) as { error?: { code?: string; message?: string } } | null;
-    throw new ApiError(res.status, body?.error?.code ?? `http_${res.status}`, body?.error?.message ?? "The report could not be made. Please try again.");
-  }
+  if (!res.ok) throw apiErrorFrom(res.status, await res.json().catch(() => null), "The report could not be made. Please try again.");
   const blob = await res.blob();
   const name = /filename="?([^";]+)"?/.exec(res.headers.get("Content-Disposition") ?? "")?.[1] ?? `credentialing-report.${format}`;
   const url = URL.createObjectURL(blob);

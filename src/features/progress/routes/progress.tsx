@@ -24,6 +24,7 @@ import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/sta
 import { TextField } from "../../../components/ui/text-field";
 import { isIsoDay } from "../../../lib/date-range";
 import { downloadCredentialingReport, myProgressQuery } from "../api/progress";
+import { errorMessage } from "../../../lib/api-errors";
 
 const WINDOWS = [5, 10, 20] as const;
 
@@ -41,7 +42,7 @@ function ReportDownload({ progress, from, to }: { progress: Progress; from?: str
     setBusy(format);
     setError(null);
     downloadCredentialingReport(format, { userId: progress.sonographer.id, from, to })
-      .catch((e: unknown) => setError(e instanceof Error ? e.message : "The report could not be downloaded."))
+      .catch((e: unknown) => setError(errorMessage(e, "The report could not be downloaded.")))
       .finally(() => setBusy(null));
   };
   return (

@@ -6,6 +6,7 @@ import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/r
 import { z } from "zod";
 import { api } from "../../../lib/api-client";
 import type { ExamSetting, FindingRead } from "../../../../shared/catalogue";
+import { queryKeys } from "../../../lib/query-keys";
 
 /** One thread in GET /api/reviews/questions. */
 export interface QuestionThreadItem {
@@ -80,7 +81,7 @@ export function useReviewedExam(examId: string) {
   const query = useQuery(reviewedExamQuery(examId));
   const loadedAt = query.dataUpdatedAt;
   useEffect(() => {
-    if (loadedAt) void queryClient.invalidateQueries({ queryKey: ["notifications"] });
+    if (loadedAt) void queryClient.invalidateQueries({ queryKey: queryKeys.notifications });
   }, [loadedAt, queryClient]);
   return query;
 }
@@ -99,7 +100,7 @@ export function usePostAnswer() {
   return useMutation({
     mutationFn: ({ examId, body }: { examId: string; body: string }) => api<{ id: string }>(`/exams/${examId}/messages`, { method: "POST", body: { body } }),
     onSettled: () =>
-      Promise.all([queryClient.invalidateQueries({ queryKey: questionKeys.all }), queryClient.invalidateQueries({ queryKey: ["notifications"] })]),
+      Promise.all([queryClient.invalidateQueries({ queryKey: questionKeys.all }), queryClient.invalidateQueries({ queryKey: queryKeys.notifications })]),
   });
 }
 

@@ -7,7 +7,7 @@ import { Button } from "../../../components/ui/button";
 import { Kbd } from "../../../components/ui/kbd";
 import { FieldError } from "../../../components/ui/text-field";
 import { FormMessage } from "../../../components/ui/form-message";
-import { isApiError } from "../../../lib/api-client";
+import { isApiError } from "../../../lib/api-errors";
 import { answerSchema, usePostAnswer } from "../api/questions";
 
 export function AnswerBox({ examId }: { examId: string }) {

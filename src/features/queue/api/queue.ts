@@ -2,6 +2,7 @@
 // claims an exam and hands its workspace to the cache so the scoring screen opens at once.
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { claimNext, queueKeys, queueOverviewQuery } from "../../../lib/review-workspace";
+import { queryKeys } from "../../../lib/query-keys";
 
 export function useQueueOverview() {
   return useQuery(queueOverviewQuery);
@@ -15,6 +16,7 @@ export function useStartNext() {
     onSuccess: (workspace) => {
       if (workspace) queryClient.setQueryData(queueKeys.workspace(workspace.assignment.id), workspace);
     },
-    onSettled: () => Promise.all([queryClient.invalidateQueries({ queryKey: queueKeys.overview() }), queryClient.invalidateQueries({ queryKey: ["home"] })]),
+    onSettled: () =>
+      Promise.all([queryClient.invalidateQueries({ queryKey: queueKeys.overview() }), queryClient.invalidateQueries({ queryKey: queryKeys.home })]),
   });
 }

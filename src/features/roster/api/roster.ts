@@ -3,8 +3,11 @@
 // (GET /api/reports/credentialing), which answers with a file rather than JSON.
 import { keepPreviousData, queryOptions } from "@tanstack/react-query";
 import type { Progress, RosterRow } from "../../../../shared/schemas/progress";
-import { api, ApiError } from "../../../lib/api-client";
+import { api } from "../../../lib/api-client";
+import { queryString } from "../../../lib/query-string";
+import { apiErrorFrom, networkError } from "../../../lib/api-errors";
 import type { FeedbackListItem } from "../../../../shared/schemas/feedback";
+import { queryKeys } from "../../../lib/query-keys";
 
 /** One reviewed exam as the QA lead sees it: the learner's feedback with reviewer names. */
 /** A reviewed exam on the QA lead's page of a sonographer: the learner's feedback with reviewers named. */
@@ -17,15 +20,8 @@ export interface ProgressRange {
   window?: string;
 }
 
-const query = (params: Record<string, string | undefined>) => {
-  const q = new URLSearchParams();
-  for (const [k, v] of Object.entries(params)) if (v) q.set(k, v);
-  const s = q.toString();
-  return s ? `?${s}` : "";
-};
-
 export const rosterKeys = {
-  all: ["roster"] as const,
+  all: queryKeys.roster,
   list: () => ["roster", "list"] as const,
   progress: (userId: string, range: ProgressRange) => ["roster", "progress", userId, range] as const,
   feedback: (userId: string) => ["roster", "feedback", userId] as const,
@@ -40,7 +36,7 @@ export const rosterQuery = queryOptions({
 export const sonographerProgressQuery = (userId: string, range: ProgressRange) =>
   queryOptions({
     queryKey: rosterKeys.progress(userId, range),
-    queryFn: ({ signal }) => api<Progress>(`/roster/${encodeURIComponent(userId)}/progress${query({ ...range })}`, { signal }),
+    queryFn: ({ signal }) => api<Progress>(`/roster/${encodeURIComponent(userId)}/progress${queryString({ ...range })}`, { signal }),
     placeholderData: keepPreviousData,
   });
 
@@ -82,26 +78,20 @@ export function fileNameFrom(disposition: string | null, fallback: string): stri
  * become ApiErrors with the server's message (the error body is JSON even for a file route).
  */
 export async function downloadCredentialingReport(req: ReportRequest, signal?: AbortSignal): Promise<string> {
-  const path = `/api/reports/credentialing${query({ format: req.format, userId: req.userId, from: req.from, to: req.to })}`;
+  const path = `/api/reports/credentialing${queryString({ format: req.format, userId: req.userId, from: req.from, to: req.to })}`;
   let response: Response;
   try {
     response = await fetch(path, { credentials: "include", signal, headers: { Accept: req.format === "pdf" ? "application/pdf" : "text/csv" } });
   } catch (error) {
     if (error instanceof DOMException && error.name === "AbortError") throw error;
-    throw new ApiError(0, "network_error", "The server could not be reached. Check the connection and try again.");
+    throw networkError();
   }
   if (!response.ok) {
-    let body: { error?: { code?: string; message?: string; details?: unknown } } | undefined;
-    try {
-      body = (await response.json()) as typeof body;
-    } catch {
-      body = undefined;
-    }
-    throw new ApiError(
+    const body: unknown = await response.json().catch(() => undefined);
+    throw apiErrorFrom(
       response.status,
-      body?.error?.code ?? `http_${response.status}`,
-      body?.error?.message ?? (response.status === 403 ? "You do not have access to this report." : "The report could not be prepared. Please try again."),
-      body?.error?.details,
+      body,
+      response.status === 403 ? "You do not have access to this report." : "The report could not be prepared. Please try again.",
     );
   }
   const blob = await response.blob();

@@ -6,6 +6,7 @@ import { FileSpreadsheet, FileText } from "lucide-react";
 import { Button } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { downloadCredentialingReport, type ReportFormat, type ReportRequest } from "../api/roster";
+import { errorMessage } from "../../../lib/api-errors";
 
 type State = { kind: "idle" } | { kind: "preparing"; format: ReportFormat } | { kind: "saved"; name: string } | { kind: "failed"; message: string };
 
@@ -25,7 +26,7 @@ export function useReportDownload() {
       if (!c.signal.aborted) setState({ kind: "saved", name });
     } catch (error) {
       if (c.signal.aborted) return;
-      setState({ kind: "failed", message: error instanceof Error ? error.message : "The report could not be prepared." });
+      setState({ kind: "failed", message: errorMessage(error, "The report could not be prepared.") });
     }
   };
   return { state, run, busy: state.kind === "preparing" };

@@ -17,7 +17,7 @@ import { ReportSection } from "../../../components/ui/report-section";
 import { SelectField } from "../../../components/ui/select-field";
 import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
 import { TextField } from "../../../components/ui/text-field";
-import { isApiError } from "../../../lib/api-client";
+import { isApiError } from "../../../lib/api-errors";
 import { isIsoDay } from "../../../lib/date-range";
 import { formatDate } from "../../../lib/format";
 import { sonographerFeedbackQuery, sonographerProgressQuery } from "../api/roster";

@@ -6,12 +6,13 @@ import type { Rubric, RubricInput } from "../../../../shared/rubric/types";
 import type { RubricListItem, rubricAnswerSchema, rubricListSchema } from "../../../../shared/schemas/rubrics";
 import type { z } from "zod";
 import { api } from "../../../lib/api-client";
+import { queryKeys } from "../../../lib/query-keys";
 
 export type { RubricListItem };
 type RubricAnswer = z.infer<typeof rubricAnswerSchema>;
 
 export const rubricKeys = {
-  all: ["rubrics"] as const,
+  all: queryKeys.rubrics,
   list: () => ["rubrics", "list"] as const,
   detail: (id: string) => ["rubrics", "detail", id] as const,
 };

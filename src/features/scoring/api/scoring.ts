@@ -8,6 +8,7 @@ import { api } from "../../../lib/api-client";
 import { retryDelayMs, retryTransient } from "../../../lib/retry";
 import { claimNext, queueKeys, workspaceQuery, type Workspace } from "../../../lib/review-workspace";
 import { prefetchWorkspaceMedia } from "./prefetch-media";
+import { queryKeys } from "../../../lib/query-keys";
 
 export interface DraftBody {
   scores: Scores;
@@ -26,7 +27,7 @@ export interface SubmitResult {
 }
 
 const invalidateQueue = (qc: QueryClient) =>
-  Promise.all([qc.invalidateQueries({ queryKey: queueKeys.overview() }), qc.invalidateQueries({ queryKey: ["home"] })]);
+  Promise.all([qc.invalidateQueries({ queryKey: queueKeys.overview() }), qc.invalidateQueries({ queryKey: queryKeys.home })]);
 
 export function useWorkspace(assignmentId: string) {
   return useQuery(workspaceQuery(assignmentId));

@@ -12,7 +12,7 @@ import { Button } from "../../../components/ui/button";
 import { ConfirmDialog } from "../../../components/ui/dialog";
 import { FormMessage } from "../../../components/ui/form-message";
 import { Kbd } from "../../../components/ui/kbd";
-import { isApiError } from "../../../lib/api-client";
+import { isApiError } from "../../../lib/api-errors";
 import type { Workspace } from "../../../lib/review-workspace";
 import { forgetWorkspace, useReleaseAssignment, useSubmitAndNext, type DraftBody } from "../api/scoring";
 import { useDraftAutosave } from "../hooks/use-draft-autosave";

@@ -4,7 +4,7 @@
 // While the server is unreachable or answers 503 the draft stays on screen and is sent
 // again with a doubling delay ("waiting"), until it is saved.
 import { useCallback, useEffect, useRef, useState } from "react";
-import { isApiError } from "../../../lib/api-client";
+import { isApiError } from "../../../lib/api-errors";
 import { isTransientError, retryDelayMs } from "../../../lib/retry";
 import { saveDraft, saveDraftOnExit, type DraftBody } from "../api/scoring";
 

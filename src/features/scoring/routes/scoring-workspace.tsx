@@ -6,7 +6,7 @@ import { Link, useLocation, useParams, useSearchParams } from "react-router-dom"
 import { buttonClasses } from "../../../components/ui/button";
 import { PageHeader } from "../../../components/ui/page-header";
 import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
-import { isApiError } from "../../../lib/api-client";
+import { isApiError } from "../../../lib/api-errors";
 import { useWorkspace } from "../api/scoring";
 import { WorkspaceView } from "../components/workspace-view";
 

@@ -6,6 +6,7 @@ import type { rubricAnswerSchema, rubricListSchema } from "../../../../shared/sc
 import type { SettingsAnswer, Snippet, snippetAnswerSchema, snippetListSchema } from "../../../../shared/schemas/settings";
 import type { z } from "zod";
 import { api } from "../../../lib/api-client";
+import { queryKeys } from "../../../lib/query-keys";
 
 export type { Snippet };
 
@@ -21,7 +22,7 @@ export const snippetsQuery = queryOptions({
 
 /** The criteria of every published rubric, for naming and choosing a snippet's criterion. */
 export const publishedCriteriaQuery = queryOptions({
-  queryKey: ["rubrics", "published-criteria"],
+  queryKey: [...queryKeys.rubrics, "published-criteria"],
   queryFn: async ({ signal }) => {
     const { rubrics } = await api<z.infer<typeof rubricListSchema>>("/rubrics", { signal });
     const published = rubrics.filter((r) => r.status === "published");

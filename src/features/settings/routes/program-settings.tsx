@@ -10,7 +10,7 @@ import { Button } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { PageHeader } from "../../../components/ui/page-header";
 import { ErrorState, LoadingState } from "../../../components/ui/states";
-import { fieldErrors, isApiError } from "../../../lib/api-client";
+import { fieldErrors, isApiError } from "../../../lib/api-errors";
 import { TextField } from "../../../components/ui/text-field";
 import { useSettings, useUpdateSettings } from "../api/settings";
 
