@@ -1,11 +1,13 @@
 // Lint rules: TypeScript's recommended set, React hooks on the client, no import cycles, and
 // the boundaries of the layout (shared/ imports nothing from src/ or server/; the client
-// never imports server code; features do not import each other).
+// never imports server code; features do not import each other except through a public index.ts).
 import js from "@eslint/js";
 import tseslint from "typescript-eslint";
 import importX from "eslint-plugin-import-x";
 import reactHooks from "eslint-plugin-react-hooks";
 import globals from "globals";
+import { readdirSync } from "node:fs";
+import { join } from "node:path";
 
 // Route handlers parse, call one service and present: queries live in server/repositories/
 // and transactions in server/services/. Files still holding queries are listed here until
@@ -14,6 +16,27 @@ const ROUTES_WITH_QUERIES = [
   "server/routes/home/router.ts",
 ];
 const NO_QUERIES = "a route handler parses, calls a service and presents: put the query in server/repositories/ and the transaction in server/services/";
+
+// Features under src/features/ do not import each other, except another feature's public
+// entry (src/features/<f>/index.ts). One zone per folder found there, so a new or renamed
+// feature is covered without editing a list; src/app/ may import any feature.
+const FEATURE_BOUNDARY =
+  "features do not import each other: import another feature only through its public src/features/<feature>/index.ts, or move what both need to src/lib/ or src/components/";
+
+/** The no-restricted-paths zones that keep each of these features to itself and the others' index.ts. */
+export function featureZones(features) {
+  return features.map((feature) => ({
+    target: `./src/features/${feature}`,
+    from: "./src/features",
+    except: [`./${feature}`, ...features.filter((other) => other !== feature).map((other) => `./${other}/index.ts`)],
+    message: FEATURE_BOUNDARY,
+  }));
+}
+
+const FEATURES = readdirSync(join(import.meta.dirname, "src/features"), { withFileTypes: true })
+  .filter((d) => d.isDirectory())
+  .map((d) => d.name)
+  .sort();
 
 export default tseslint.config(
   { ignores: ["dist/**", "dist-*/**", "node_modules/**", "storage/**", "test-results/**", ".data/**", "playwright-report/**"] },
@@ -33,6 +56,7 @@ export default tseslint.config(
             { target: "./shared", from: "./server", message: "shared/ is used by both sides and imports nothing from server/" },
             { target: "./src", from: "./server", message: "the client never imports server code" },
             { target: "./server", from: "./src", message: "the server never imports client code" },
+            ...featureZones(FEATURES),
           ],
         },
       ],
