@@ -21,7 +21,6 @@ export const loginSchema = z.object({
   password: z.string().min(1, "Enter your password").max(200),
   programId: z.uuid().optional(),
 });
-export type LoginInput = z.input<typeof loginSchema>;
 
 export const roleSchema = z.enum(ROLES);
 

@@ -1,4 +1,4 @@
-// Shapes every route shares: the error body, ids, pagination.
+// Shapes every route shares: the error body, ids, dates.
 import { z } from "zod";
 
 export const errorSchema = z.object({
@@ -12,11 +12,6 @@ export type ApiError = z.infer<typeof errorSchema>;
 
 export const uuidSchema = z.uuid();
 export const idParamsSchema = z.object({ id: uuidSchema });
-
-export const pageQuerySchema = z.object({
-  limit: z.coerce.number().int().min(1).max(200).default(50),
-  offset: z.coerce.number().int().min(0).default(0),
-});
 
 /** The years a date the API takes may fall in; PostgreSQL refuses year 0 and the client shows four digits. */
 export const MIN_YEAR = 1900;

@@ -19,7 +19,6 @@ export const submitReviewSchema = z.object({
     .max(24 * 3600)
     .default(0),
 });
-export type SubmitReviewInput = z.input<typeof submitReviewSchema>;
 
 export const reviewDraftSchema = z.object({
   scores: z.record(z.string().max(40), scoreValueSchema).default({}),

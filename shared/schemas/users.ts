@@ -12,7 +12,6 @@ export const inviteSchema = z.object({
   name: z.string().trim().max(120).optional(),
   roles: rolesSchema,
 });
-export type InviteInput = z.input<typeof inviteSchema>;
 
 export const updateRolesSchema = z.object({ roles: rolesSchema });
 
