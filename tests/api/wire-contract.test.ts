@@ -8,8 +8,7 @@ const kit = makeKit();
 afterAll(() => kit.close());
 
 /** Routes still answering without a declared schema. It only shrinks: empty when issue 11 is done. */
-const PENDING: string[] = [
-];
+const PENDING: string[] = [];
 
 describe("declared responses", () => {
   const undeclared = kit.routes
