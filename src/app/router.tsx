@@ -93,12 +93,12 @@ export const router = createBrowserRouter([
               {
                 path: "queue",
                 loader: requireRoles(["reviewer"]),
-                lazy: page(() => import("../features/queue/routes/queue")),
+                lazy: page(() => import("../features/reviewing/routes/queue")),
               },
               {
                 path: "queue/:assignmentId",
                 loader: requireRoles(["reviewer"]),
-                lazy: page(() => import("../features/scoring/routes/scoring-workspace")),
+                lazy: page(() => import("../features/reviewing/routes/scoring-workspace")),
               },
               {
                 path: "reviews/questions",

@@ -4,9 +4,10 @@
 import { useMutation, useQuery, useQueryClient, type QueryClient } from "@tanstack/react-query";
 import type { FindingRead } from "../../../../shared/catalogue";
 import type { Scores } from "../../../../shared/rubric/types";
+import type { DraftSaved, ReviewSubmitted } from "../../../../shared/schemas/reviewing";
 import { api } from "../../../lib/api-client";
 import { retryDelayMs, retryTransient } from "../../../lib/retry";
-import { claimNext, queueKeys, workspaceQuery, type Workspace } from "../../../lib/review-workspace";
+import { claimNext, queueKeys, workspaceQuery, type Workspace } from "./workspace";
 import { prefetchWorkspaceMedia } from "./prefetch-media";
 import { queryKeys } from "../../../lib/query-keys";
 
@@ -21,10 +22,7 @@ export interface SubmitBody extends DraftBody {
   rubricId: string;
 }
 
-export interface SubmitResult {
-  review: { id: string; submittedAt: string; credit: boolean };
-  examState: "final" | "waiting" | "adjudication";
-}
+export type SubmitResult = ReviewSubmitted;
 
 const invalidateQueue = (qc: QueryClient) =>
   Promise.all([qc.invalidateQueries({ queryKey: queueKeys.overview() }), qc.invalidateQueries({ queryKey: queryKeys.home })]);
@@ -35,7 +33,7 @@ export function useWorkspace(assignmentId: string) {
 
 /** PUT /api/assignments/:id/draft. */
 export function saveDraft(assignmentId: string, body: DraftBody) {
-  return api<{ savedAt: string; leaseExpiresAt: string }>(`/assignments/${assignmentId}/draft`, { method: "PUT", body });
+  return api<DraftSaved>(`/assignments/${assignmentId}/draft`, { method: "PUT", body });
 }
 
 /**
@@ -86,21 +84,6 @@ export function useSubmitAndNext(assignmentId: string) {
     retry: retryTransient(),
     retryDelay: (attempt) => retryDelayMs(attempt, 15_000),
     onSuccess: ({ next }) => {
-      if (next) {
-        queryClient.setQueryData<Workspace>(queueKeys.workspace(next.assignment.id), next);
-        prefetchWorkspaceMedia(next);
-      }
-    },
-    onSettled: () => invalidateQueue(queryClient),
-  });
-}
-
-/** Claims the next exam without submitting (used when this one turns out to be submitted already). */
-export function useClaimNext() {
-  const queryClient = useQueryClient();
-  return useMutation({
-    mutationFn: (application: string | null) => claimNext(application),
-    onSuccess: (next) => {
       if (next) {
         queryClient.setQueryData<Workspace>(queueKeys.workspace(next.assignment.id), next);
         prefetchWorkspaceMedia(next);

@@ -15,6 +15,7 @@ import { applicationsQuery } from "../../../lib/catalogue";
 import { formatWaited } from "../../../lib/duration";
 import { formatCount } from "../../../lib/format";
 import { hasCommandModifier, isTypingTarget } from "../../../lib/keyboard";
+import { queryString } from "../../../lib/query-string";
 import { useNow } from "../../../lib/use-now";
 import { useQueueOverview, useStartNext } from "../api/queue";
 import { HeldTable } from "../components/held-table";
@@ -35,7 +36,7 @@ export default function QueuePage() {
     if (start.isPending) return;
     start.mutate(filter, {
       onSuccess: (workspace) => {
-        if (workspace) void navigate(`/queue/${workspace.assignment.id}${filter ? `?application=${encodeURIComponent(filter)}` : ""}`);
+        if (workspace) void navigate(`/queue/${workspace.assignment.id}${queryString({ application: filter })}`);
       },
     });
   }, [start, filter, navigate]);

@@ -12,8 +12,9 @@ import { Button } from "../../../components/ui/button";
 import { ConfirmDialog } from "../../../components/ui/dialog";
 import { FormMessage } from "../../../components/ui/form-message";
 import { Kbd } from "../../../components/ui/kbd";
-import { isApiError } from "../../../lib/api-errors";
-import type { Workspace } from "../../../lib/review-workspace";
+import { isApiError, validationIssues, type FieldIssue } from "../../../lib/api-errors";
+import { queryString } from "../../../lib/query-string";
+import type { Workspace } from "../api/workspace";
 import { forgetWorkspace, useReleaseAssignment, useSubmitAndNext, type DraftBody } from "../api/scoring";
 import { useDraftAutosave } from "../hooks/use-draft-autosave";
 import { useFocusedSeconds } from "../hooks/use-focused-seconds";
@@ -30,14 +31,12 @@ import { SaveStatus, TimeSpent } from "./save-status";
 
 const KIND_LABELS: Record<string, string> = { primary: "First read", second: "Second read", adjudication: "Adjudication" };
 
-/** Server (or local) issues by where they show: `scores.<key>`, `reads`, `feedback`, or `form`. */
-function issuesByPlace(details: unknown, fallback: string): Record<string, string> {
+/** Server (or local) issues by where they show: `scores.<key>`, `reads`, `feedback`, or `form` (first message per place). */
+function issuesByPlace(issues: FieldIssue[], fallback: string): Record<string, string> {
   const out: Record<string, string> = {};
-  const list = Array.isArray(details) ? (details as { path?: unknown; message?: unknown }[]) : [];
-  for (const d of list) {
-    const path = Array.isArray(d.path) ? d.path.join(".") : String(d.path ?? "");
+  for (const { path, message } of issues) {
     const place = path.startsWith("scores.") ? path : path.startsWith("reads") ? "reads" : path === "feedback" ? "feedback" : "form";
-    if (!(place in out)) out[place] = typeof d.message === "string" ? d.message : fallback;
+    if (!(place in out)) out[place] = message;
   }
   if (Object.keys(out).length === 0) out.form = fallback;
   return out;
@@ -158,7 +157,7 @@ export function WorkspaceView({ workspace, application, notice }: { workspace: W
       {
         onSuccess: ({ next }) => {
           finished.current = true;
-          const query = application ? `?application=${encodeURIComponent(application)}` : "";
+          const query = queryString({ application });
           if (next)
             void navigate(`/queue/${next.assignment.id}${query}`, {
               replace: true,
@@ -173,7 +172,7 @@ export function WorkspaceView({ workspace, application, notice }: { workspace: W
         onError: (error) => {
           autosave.resume();
           if (isApiError(error, 400)) {
-            const found = issuesByPlace(error.details, error.message);
+            const found = issuesByPlace(validationIssues(error.details, error.message), error.message);
             setIssues(found);
             const firstScore = Object.keys(found).find((k) => k.startsWith("scores."));
             if (firstScore) focusStop(criterionStopId(firstScore.slice(7)));

@@ -1,7 +1,7 @@
 // The Queue screen's data: what waits and what I hold (polled), and "Start next", which
 // claims an exam and hands its workspace to the cache so the scoring screen opens at once.
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { claimNext, queueKeys, queueOverviewQuery } from "../../../lib/review-workspace";
+import { claimNext, queueKeys, queueOverviewQuery } from "./workspace";
 import { queryKeys } from "../../../lib/query-keys";
 
 export function useQueueOverview() {

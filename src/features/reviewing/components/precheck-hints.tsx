@@ -3,7 +3,7 @@
 // few frames; they help the reviewer look, and never score anything.
 import { Info } from "lucide-react";
 import { TRANSDUCER_LABELS } from "../../../lib/catalogue";
-import type { BlindedExam } from "../../../lib/review-workspace";
+import type { BlindedExam } from "../api/workspace";
 
 interface Precheck {
   gain?: { hint?: string; meanLuma?: number };

@@ -1,7 +1,7 @@
 // What a blinded reviewer knows of the exam: its code, application, setting, transducer,
 // preset and indication — the sonographer only when the program has turned blinding off.
 import { EyeOff } from "lucide-react";
-import type { BlindedExam } from "../../../lib/review-workspace";
+import type { BlindedExam } from "../api/workspace";
 import { SETTING_LABELS, TRANSDUCER_LABELS } from "../../../lib/catalogue";
 import { formatDateTime } from "../../../lib/format";
 

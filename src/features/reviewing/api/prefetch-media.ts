@@ -1,7 +1,7 @@
 // Warms the browser cache with the next exam's media so it shows at once: every thumbnail,
 // the first clip's poster and strip, and the first part of its video (a ranged request, so
 // a long clip is not downloaded whole). Best effort: failures are ignored.
-import type { Workspace } from "../../../lib/review-workspace";
+import type { Workspace } from "./workspace";
 
 /** How much of the first video to fetch ahead: enough for the first seconds of a typical clip. */
 const VIDEO_HEAD_BYTES = 1024 * 1024;

@@ -1,7 +1,7 @@
 // The exam's clips as a row of thumbnails on the viewing surface; the current one is marked
 // in words and outline. The [ and ] keys move along it too (handled by the workspace).
 import { Image as ImageIcon, Video } from "lucide-react";
-import type { ReviewClip } from "../../../lib/review-workspace";
+import type { ReviewClip } from "../api/workspace";
 import { Kbd } from "../../../components/ui/kbd";
 
 export function clipTitle(clip: ReviewClip, index: number, views: { key: string; label: string }[]): string {

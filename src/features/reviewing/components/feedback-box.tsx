@@ -4,7 +4,7 @@
 import { useId, useRef } from "react";
 import { TextQuote } from "lucide-react";
 import type { Criterion } from "../../../../shared/rubric/types";
-import type { Snippet } from "../../../lib/review-workspace";
+import type { Snippet } from "../api/workspace";
 
 export const FEEDBACK_STOP_ID = "feedback-text";
 const MAX = 5000;

@@ -1,7 +1,7 @@
 // The exams I hold: each claim with its exam code and when the claim runs out (it returns
 // to the queue then), and a way back into the workspace.
 import { Link } from "react-router-dom";
-import type { HeldAssignment } from "../../../lib/review-workspace";
+import type { HeldAssignment } from "../api/workspace";
 import { buttonClasses } from "../../../components/ui/button";
 import { formatUntil } from "../../../lib/duration";
 import { formatDateTime } from "../../../lib/format";

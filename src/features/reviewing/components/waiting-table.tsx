@@ -1,6 +1,6 @@
 // What waits for me, by application and setting: how many exams, and how long the oldest
 // has waited. Clinical work is listed first, as the queue serves it first.
-import type { WaitingGroup } from "../../../lib/review-workspace";
+import type { WaitingGroup } from "../api/workspace";
 import { SETTING_LABELS } from "../../../lib/catalogue";
 import { formatWaited } from "../../../lib/duration";
 import { formatCount } from "../../../lib/format";

@@ -3,7 +3,7 @@
 // image; the frame strip under it. The workspace drives it by keyboard through `handle`.
 import { useCallback, useEffect, useImperativeHandle, useRef, useState, type Ref } from "react";
 import { ChevronLeft, ChevronRight, Pause, Play, Repeat } from "lucide-react";
-import type { ReviewClip } from "../../../lib/review-workspace";
+import type { ReviewClip } from "../api/workspace";
 import { Kbd } from "../../../components/ui/kbd";
 
 export const SPEEDS = [0.25, 0.5, 0.75, 1, 1.5, 2] as const;
