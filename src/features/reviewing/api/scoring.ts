@@ -22,8 +22,6 @@ export interface SubmitBody extends DraftBody {
   rubricId: string;
 }
 
-export type SubmitResult = ReviewSubmitted;
-
 const invalidateQueue = (qc: QueryClient) =>
   Promise.all([qc.invalidateQueries({ queryKey: queueKeys.overview() }), qc.invalidateQueries({ queryKey: queryKeys.home })]);
 
@@ -65,7 +63,7 @@ export function forgetWorkspace(queryClient: QueryClient, assignmentId: string) 
 
 // Reviews already accepted, per submit call: a retry after a failed claim of the next exam
 // must not send the review a second time.
-const accepted = new WeakMap<object, SubmitResult>();
+const accepted = new WeakMap<object, ReviewSubmitted>();
 
 /**
  * POST …/review; then claims the next exam (same application filter) and warms its media.
@@ -76,7 +74,7 @@ export function useSubmitAndNext(assignmentId: string) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: async (vars: { body: SubmitBody; application: string | null }) => {
-      const result = accepted.get(vars) ?? (await api<SubmitResult>(`/assignments/${assignmentId}/review`, { method: "POST", body: vars.body }));
+      const result = accepted.get(vars) ?? (await api<ReviewSubmitted>(`/assignments/${assignmentId}/review`, { method: "POST", body: vars.body }));
       accepted.set(vars, result);
       const next = await claimNext(vars.application);
       return { result, next };

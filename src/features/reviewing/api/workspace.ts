@@ -6,16 +6,7 @@ import { queryOptions } from "@tanstack/react-query";
 import type { QueueOverview, Workspace } from "../../../../shared/schemas/reviewing";
 import { api } from "../../../lib/api-client";
 
-export type {
-  Assignment,
-  BlindedExam,
-  HeldAssignment,
-  QueueOverview,
-  ReviewClip,
-  ReviewDraft,
-  WaitingGroup,
-  Workspace,
-} from "../../../../shared/schemas/reviewing";
+export type { BlindedExam, HeldAssignment, ReviewClip, WaitingGroup, Workspace } from "../../../../shared/schemas/reviewing";
 export type { Snippet } from "../../../../shared/schemas/settings";
 
 /** Cache keys, generic to specific: everything under ["queue"] changes when a claim does. */
