@@ -5,7 +5,7 @@
 import { useEffect } from "react";
 import { Link, useLocation, useParams } from "react-router-dom";
 import { useQuery } from "@tanstack/react-query";
-import { ConfirmationsForm } from "../../../components/progress/confirmations-form";
+import { ConfirmationsForm } from "../../progress";
 import { buttonClasses } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { PageHeader } from "../../../components/ui/page-header";

@@ -4,7 +4,7 @@
 import { useState } from "react";
 import { Link } from "react-router-dom";
 import { CircleCheck, CircleMinus, MessageSquare } from "lucide-react";
-import { ConfirmationsForm } from "../../../components/progress/confirmations-form";
+import { ConfirmationsForm } from "../../progress";
 import { Button } from "../../../components/ui/button";
 import { SelectField } from "../../../components/ui/select-field";
 import { StatusTag } from "../../../components/ui/status-tag";

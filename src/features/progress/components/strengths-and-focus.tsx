@@ -3,8 +3,8 @@
 // criterion's help text and the program's advice snippets.
 import { useId } from "react";
 import { Sparkles, Target } from "lucide-react";
-import type { CriterionStanding } from "../../../shared/schemas/progress";
-import { EmptyState } from "../ui/states";
+import type { CriterionStanding } from "../../../../shared/schemas/progress";
+import { EmptyState } from "../../../components/ui/states";
 import { percent } from "./format";
 
 function Standing({ s, showAdvice }: { s: CriterionStanding; showAdvice: boolean }) {

@@ -6,13 +6,13 @@
 import { useState } from "react";
 import { ArrowDownRight, ArrowRight, ArrowUpRight } from "lucide-react";
 import { CartesianGrid, Line, LineChart, XAxis, YAxis } from "recharts";
-import type { ApplicationProgress, TrendSeries } from "../../../shared/schemas/progress";
-import { ChartImage } from "../charts/chart-image";
-import { AXIS, AXIS_TICK, niceTicks } from "../charts/scale";
-import { tableClasses as t } from "../ui/report-section";
-import { EmptyState } from "../ui/states";
-import { OKABE_ITO } from "../../lib/chart-colours";
-import { formatDate } from "../../lib/format";
+import type { ApplicationProgress, TrendSeries } from "../../../../shared/schemas/progress";
+import { ChartImage } from "../../../components/charts/chart-image";
+import { AXIS, AXIS_TICK, niceTicks } from "../../../components/charts/scale";
+import { tableClasses as t } from "../../../components/ui/report-section";
+import { EmptyState } from "../../../components/ui/states";
+import { OKABE_ITO } from "../../../lib/chart-colours";
+import { formatDate } from "../../../lib/format";
 import { percent } from "./format";
 
 // Okabe–Ito without its yellow, which is too light for a thin line on paper; past six

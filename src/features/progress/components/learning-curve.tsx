@@ -4,12 +4,12 @@
 // sentence with the settings in plain words. Drawn with recharts: import this only from
 // lazily loaded routes, so the chart library stays out of the entry chunk.
 import { CartesianGrid, ComposedChart, Line, ReferenceDot, ReferenceLine, XAxis, YAxis } from "recharts";
-import type { ApplicationProgress, CusumView } from "../../../shared/schemas/progress";
-import { ChartImage } from "../charts/chart-image";
-import { AXIS, AXIS_TICK, niceTicks } from "../charts/scale";
-import { tableClasses as t } from "../ui/report-section";
-import { EmptyState } from "../ui/states";
-import { formatDate } from "../../lib/format";
+import type { ApplicationProgress, CusumView } from "../../../../shared/schemas/progress";
+import { ChartImage } from "../../../components/charts/chart-image";
+import { AXIS, AXIS_TICK, niceTicks } from "../../../components/charts/scale";
+import { tableClasses as t } from "../../../components/ui/report-section";
+import { EmptyState } from "../../../components/ui/states";
+import { formatDate } from "../../../lib/format";
 import { FAILURE_MEANING, cusumParameters, cusumSentence, signed, type ProgressViewer } from "./format";
 
 const PATH = "#0072B2"; // Okabe–Ito blue

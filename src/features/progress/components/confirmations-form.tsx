@@ -4,16 +4,16 @@
 // the sonographer's page; accuracy against confirmatory results counts them. Errors from the
 // shared schema (or the server's 400) are shown next to the field they concern.
 import { useId, useState, type ReactNode } from "react";
-import type { Confirmation, ConfirmationMethod } from "../../../shared/schemas/progress";
-import { CONFIRMATION_METHOD_LABELS, CONFIRMATION_METHODS, confirmationInputSchema } from "../../../shared/schemas/progress";
-import { fieldErrors, isApiError } from "../../lib/api-errors";
-import { formatDateTime } from "../../lib/format";
-import { Button } from "../ui/button";
-import { FormMessage } from "../ui/form-message";
-import { SelectField } from "../ui/select-field";
-import { FieldError } from "../ui/text-field";
-import { ErrorState, LoadingState } from "../ui/states";
-import { useConfirmations, useSaveConfirmations } from "./confirmations-api";
+import type { Confirmation, ConfirmationMethod } from "../../../../shared/schemas/progress";
+import { CONFIRMATION_METHOD_LABELS, CONFIRMATION_METHODS, confirmationInputSchema } from "../../../../shared/schemas/progress";
+import { fieldErrors, isApiError } from "../../../lib/api-errors";
+import { formatDateTime } from "../../../lib/format";
+import { Button } from "../../../components/ui/button";
+import { FormMessage } from "../../../components/ui/form-message";
+import { SelectField } from "../../../components/ui/select-field";
+import { FieldError } from "../../../components/ui/text-field";
+import { ErrorState, LoadingState } from "../../../components/ui/states";
+import { useConfirmations, useSaveConfirmations } from "../api/confirmations";
 
 type Row = { findingKey: string; method: ConfirmationMethod | ""; result: "positive" | "negative" | ""; note: string };
 

@@ -1,7 +1,7 @@
 // Words and figures for the progress components, in one place so the learner's screen, the
 // QA lead's page of a sonographer and the tests agree on how a rate or a signal reads.
-import type { CusumView, Rate } from "../../../shared/schemas/progress";
-import { formatDate } from "../../lib/format";
+import type { CusumView, Rate } from "../../../../shared/schemas/progress";
+import { formatDate } from "../../../lib/format";
 
 /** 0.873 → "87%" (null → "—"). */
 export function percent(value: number | null | undefined, digits = 0): string {

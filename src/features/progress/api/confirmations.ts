@@ -2,9 +2,9 @@
 // sonographer's exam page and the QA lead's page of a sonographer. Saving refreshes every
 // progress figure that may count them (the learner's ["progress"] and the lead's ["roster"]).
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import type { Confirmation, ConfirmationsInput } from "../../../shared/schemas/progress";
-import { api } from "../../lib/api-client";
-import { queryKeys } from "../../lib/query-keys";
+import type { Confirmation, ConfirmationsInput } from "../../../../shared/schemas/progress";
+import { api } from "../../../lib/api-client";
+import { queryKeys } from "../../../lib/query-keys";
 
 export const confirmationKeys = {
   all: ["confirmations"] as const,

@@ -4,10 +4,10 @@
 // Presentational: the learner's Progress screen and the QA lead's page of a sonographer
 // both pass in what GET …/progress answered.
 import { CircleCheck, Hourglass } from "lucide-react";
-import type { Progress } from "../../../shared/schemas/progress";
-import { tableClasses as t } from "../ui/report-section";
-import { EmptyState } from "../ui/states";
-import { formatDate } from "../../lib/format";
+import type { Progress } from "../../../../shared/schemas/progress";
+import { tableClasses as t } from "../../../components/ui/report-section";
+import { EmptyState } from "../../../components/ui/states";
+import { formatDate } from "../../../lib/format";
 import { percent } from "./format";
 import { ThresholdBar } from "./threshold-bar";
 

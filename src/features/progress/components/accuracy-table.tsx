@@ -2,9 +2,9 @@
 // NPV with Wilson 95% intervals (written out and drawn as whiskers) and the counts behind
 // them — once against the reviewer's final read and, separately, against confirmatory
 // results (CT, formal echo, surgery, clinical follow-up), with how many came by each method.
-import type { Accuracy, ApplicationProgress, ConfirmationMethod, Rate } from "../../../shared/schemas/progress";
-import { CONFIRMATION_METHOD_LABELS, CONFIRMATION_METHODS } from "../../../shared/schemas/progress";
-import { tableClasses as t } from "../ui/report-section";
+import type { Accuracy, ApplicationProgress, ConfirmationMethod, Rate } from "../../../../shared/schemas/progress";
+import { CONFIRMATION_METHOD_LABELS, CONFIRMATION_METHODS } from "../../../../shared/schemas/progress";
+import { tableClasses as t } from "../../../components/ui/report-section";
 import { rateCount, rateText } from "./format";
 
 const MEASURES: { key: "sensitivity" | "specificity" | "ppv" | "npv"; name: string; meaning: string }[] = [
