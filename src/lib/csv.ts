@@ -1,5 +1,6 @@
 // CSV built in the browser from what a table shows, so an export always matches the screen.
 // RFC 4180 quoting; text that a spreadsheet would run as a formula is defused with a quote.
+import { saveBlob } from "./download";
 
 export type CsvCell = string | number | null | undefined;
 
@@ -16,14 +17,7 @@ export function toCsv(header: readonly string[], rows: readonly (readonly CsvCel
   return [header, ...rows].map((r) => r.map(cell).join(",")).join("\r\n") + "\r\n";
 }
 
-/** Saves a CSV document as a file through a temporary link; a BOM lets spreadsheets read UTF-8. */
+/** Saves a CSV document as a file; a BOM lets spreadsheets read UTF-8. */
 export function downloadCsv(filename: string, csv: string): void {
-  const url = URL.createObjectURL(new Blob(["\ufeff", csv], { type: "text/csv;charset=utf-8" }));
-  const a = document.createElement("a");
-  a.href = url;
-  a.download = filename;
-  document.body.append(a);
-  a.click();
-  a.remove();
-  setTimeout(() => URL.revokeObjectURL(url), 1000);
+  saveBlob(new Blob(["\ufeff", csv], { type: "text/csv;charset=utf-8" }), filename);
 }

@@ -6,3 +6,4 @@ export { CriterionTrends } from "./components/criterion-trends";
 export { LearningCurve } from "./components/learning-curve";
 export { ProgressSummary } from "./components/progress-summary";
 export { StrengthsAndFocus } from "./components/strengths-and-focus";
+export { useReportDownload, type ReportDownloadState, type ReportFormat, type ReportRequest } from "./api/credentialing-report";

@@ -3,7 +3,6 @@
 // the reviewer and against confirmatory results, strengths and focus areas, and a download
 // of "my credentialing report". Application, rolling-mean window and date range live in the
 // address, so Back and a shared link keep them.
-import { useState } from "react";
 import { Link } from "react-router-dom";
 import { useQuery } from "@tanstack/react-query";
 import { Download, Mail } from "lucide-react";
@@ -23,8 +22,8 @@ import { SelectField } from "../../../components/ui/select-field";
 import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
 import { TextField } from "../../../components/ui/text-field";
 import { isIsoDay } from "../../../lib/date-range";
-import { downloadCredentialingReport, myProgressQuery } from "../api/progress";
-import { errorMessage } from "../../../lib/api-errors";
+import { useReportDownload } from "../api/credentialing-report";
+import { myProgressQuery } from "../api/progress";
 
 const WINDOWS = [5, 10, 20] as const;
 
@@ -36,15 +35,11 @@ function pickApplication(progress: Progress, wanted: string | null): Application
 }
 
 function ReportDownload({ progress, from, to }: { progress: Progress; from?: string; to?: string }) {
-  const [busy, setBusy] = useState<"pdf" | "csv" | null>(null);
-  const [error, setError] = useState<string | null>(null);
-  const get = (format: "pdf" | "csv") => {
-    setBusy(format);
-    setError(null);
-    downloadCredentialingReport(format, { userId: progress.sonographer.id, from, to })
-      .catch((e: unknown) => setError(errorMessage(e, "The report could not be downloaded.")))
-      .finally(() => setBusy(null));
-  };
+  const { state, run } = useReportDownload();
+  const busy = state.kind === "preparing" ? state.format : null;
+  const error = state.kind === "failed" ? state.message : null;
+  // My own id: without it, a person who is also a QA lead would get the whole program's report.
+  const get = (format: "pdf" | "csv") => void run({ format, userId: progress.sonographer.id, from, to });
   return (
     <div className="flex flex-col items-end gap-2">
       <div className="flex flex-wrap gap-2">

@@ -12,8 +12,9 @@ import { SelectField } from "../../../components/ui/select-field";
 import { ErrorState } from "../../../components/ui/states";
 import { TextField } from "../../../components/ui/text-field";
 import { daysAgo, isIsoDay, isoDay } from "../../../lib/date-range";
-import { rosterQuery, type ReportFormat } from "../api/roster";
-import { DownloadStatus, useReportDownload } from "../components/report-download";
+import { useReportDownload, type ReportFormat } from "../../progress";
+import { rosterQuery } from "../api/roster";
+import { DownloadStatus } from "../components/report-download";
 
 const RANGES = [
   { label: "Last 90 days", days: 90 },
