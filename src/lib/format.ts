@@ -1,7 +1,6 @@
-// Dates and numbers shown the same way on every screen, in the reader's locale.
+// Dates shown the same way on every screen, in the reader's locale (numbers: stat-format.ts).
 const dateTime = new Intl.DateTimeFormat(undefined, { dateStyle: "medium", timeStyle: "short" });
 const dateOnly = new Intl.DateTimeFormat(undefined, { dateStyle: "medium" });
-const integer = new Intl.NumberFormat(undefined, { maximumFractionDigits: 0 });
 
 /** "12 Mar 2026, 14:05" or "—" when absent or unreadable. */
 export function formatDateTime(iso: string | null | undefined): string {
@@ -17,7 +16,5 @@ export function formatDate(iso: string | null | undefined): string {
   return Number.isNaN(d.getTime()) ? "—" : dateOnly.format(d);
 }
 
-/** Whole numbers with the locale's grouping. */
-export function formatCount(n: number): string {
-  return integer.format(n);
-}
+// Counts moved to stat-format.ts; features/reviewing still imports formatCount from here.
+export { formatCount } from "./stat-format";

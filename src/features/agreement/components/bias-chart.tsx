@@ -7,7 +7,7 @@ import { ExportCsvButton } from "../../../components/ui/export-csv-button";
 import { ReportSection, tableClasses as t } from "../../../components/ui/report-section";
 import { seriesColour } from "../../../lib/chart-colours";
 import type { ReviewerBias } from "../api/agreement";
-import { formatCoefficient, formatInterval } from "./stat-format";
+import { formatCoefficient, formatInterval } from "../../../lib/stat-format";
 
 export function BiasChart({ bias, criterionLabel, filename }: { bias: ReviewerBias[]; criterionLabel: string; filename: string }) {
   const rows: DotWhiskerRow[] = bias

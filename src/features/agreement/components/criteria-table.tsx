@@ -4,7 +4,17 @@
 import { ExportCsvButton } from "../../../components/ui/export-csv-button";
 import { ReportSection, tableClasses as t } from "../../../components/ui/report-section";
 import type { CriterionAgreement, Interval } from "../api/agreement";
-import { bandWords, formatCoefficient, formatInterval, formatPercent, missingReason } from "./stat-format";
+import { bandWords, formatCoefficient, formatInterval, formatPercent } from "../../../lib/stat-format";
+
+/** Why a coefficient could not be computed, in words, when the report did not say. */
+function missingReason(units: number, percentAgreement: number | null, given?: string): string {
+  if (given) return given;
+  if (units === 0) return "No exam in this range was read twice for this criterion.";
+  if (units < 2) return "Only one exam was read twice: one unit cannot separate agreement from chance.";
+  if (percentAgreement === 1)
+    return "Every reviewer gave one and the same value, so chance agreement is total and the coefficient is 0/0. Percent agreement is the figure to read.";
+  return "Not computable from these reads.";
+}
 
 function Missing({ reason }: { reason: string }) {
   return (

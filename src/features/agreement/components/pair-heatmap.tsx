@@ -5,7 +5,7 @@ import { ExportCsvButton } from "../../../components/ui/export-csv-button";
 import { ReportSection } from "../../../components/ui/report-section";
 import { sequentialColour } from "../../../lib/chart-colours";
 import type { PairAgreement, Person } from "../api/agreement";
-import { formatCoefficient, formatPercent } from "./stat-format";
+import { formatCoefficient, formatPercent } from "../../../lib/stat-format";
 
 export type PairMeasure = "percentAgreement" | "kappa";
 

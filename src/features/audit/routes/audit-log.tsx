@@ -5,7 +5,7 @@ import { ChevronLeft, ChevronRight } from "lucide-react";
 import { Button } from "../../../components/ui/button";
 import { PageHeader } from "../../../components/ui/page-header";
 import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
-import { formatCount } from "../../../lib/format";
+import { formatCount } from "../../../lib/stat-format";
 import { AUDIT_PAGE_SIZE, useAuditLog } from "../api/audit";
 import { AuditTable } from "../components/audit-table";
 

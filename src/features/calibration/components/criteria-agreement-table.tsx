@@ -2,7 +2,7 @@
 // interval, Krippendorff's alpha, and the band in words. Anything not computable shows "—".
 import { ReportSection, tableClasses as t } from "../../../components/ui/report-section";
 import type { CalibrationCriterion } from "../api/calibration";
-import { bandWords, formatCoefficient, formatInterval } from "./stat-format";
+import { bandWords, formatCoefficient, formatInterval } from "../../../lib/stat-format";
 
 function Missing({ reason }: { reason: string }) {
   return (

@@ -5,7 +5,7 @@ import { CircleCheck, CircleX, Clock } from "lucide-react";
 import { ExportCsvButton } from "../../../components/ui/export-csv-button";
 import { ReportSection, tableClasses as t } from "../../../components/ui/report-section";
 import type { CalibrationResults, MatchCount, ReferenceRow } from "../api/calibration";
-import { formatPercent } from "./stat-format";
+import { formatPercent } from "../../../lib/stat-format";
 
 function Count({ count, what }: { count: MatchCount; what: string }) {
   if (count.compared === 0) return <span className="text-slate-600">none compared</span>;

@@ -8,7 +8,8 @@ import { ProgressBar } from "../../../components/ui/progress-bar";
 import { tableClasses as t } from "../../../components/ui/report-section";
 import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
 import { StatusTag } from "../../../components/ui/status-tag";
-import { formatCount, formatDate } from "../../../lib/format";
+import { formatDate } from "../../../lib/format";
+import { formatCount } from "../../../lib/stat-format";
 import { useCalibrationSets } from "../api/calibration";
 
 function NewSetLink() {

@@ -10,7 +10,7 @@ import { PageHeader } from "../../../components/ui/page-header";
 import { SelectField } from "../../../components/ui/select-field";
 import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
 import { applicationsQuery } from "../../../lib/catalogue";
-import { formatCount } from "../../../lib/format";
+import { formatCount } from "../../../lib/stat-format";
 import { useExamList, type ExamListFilters } from "../api/exams";
 import { ExamListFilters as FilterBar } from "../components/exam-list-filters";
 import { ExamsTable, SORTABLE } from "../components/exams-table";

@@ -4,7 +4,7 @@ import { Link } from "react-router-dom";
 import { ChevronRight } from "lucide-react";
 import { ROLE_LABELS } from "../../../../shared/roles";
 import type { Home } from "../../../../shared/schemas/home";
-import { formatCount } from "../../../lib/format";
+import { formatCount } from "../../../lib/stat-format";
 
 type Section = Home["sections"][number];
 type Card = Section["cards"][number];

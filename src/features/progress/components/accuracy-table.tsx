@@ -5,7 +5,7 @@
 import type { Accuracy, ApplicationProgress, ConfirmationMethod, Rate } from "../../../../shared/schemas/progress";
 import { CONFIRMATION_METHOD_LABELS, CONFIRMATION_METHODS } from "../../../../shared/schemas/progress";
 import { tableClasses as t } from "../../../components/ui/report-section";
-import { rateCount, rateText } from "./format";
+import { rateCount, rateText } from "../../../lib/stat-format";
 
 const MEASURES: { key: "sensitivity" | "specificity" | "ppv" | "npv"; name: string; meaning: string }[] = [
   { key: "sensitivity", name: "Sensitivity", meaning: "Of findings that were present, the share read as positive" },

@@ -13,7 +13,7 @@ import { tableClasses as t } from "../../../components/ui/report-section";
 import { EmptyState } from "../../../components/ui/states";
 import { OKABE_ITO } from "../../../lib/chart-colours";
 import { formatDate } from "../../../lib/format";
-import { percent } from "./format";
+import { percent } from "../../../lib/stat-format";
 
 // Okabe–Ito without its yellow, which is too light for a thin line on paper; past six
 // series the colours repeat with a dashed line, so no two lines look the same.

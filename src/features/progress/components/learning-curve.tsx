@@ -10,7 +10,8 @@ import { AXIS, AXIS_TICK, niceTicks } from "../../../components/charts/scale";
 import { tableClasses as t } from "../../../components/ui/report-section";
 import { EmptyState } from "../../../components/ui/states";
 import { formatDate } from "../../../lib/format";
-import { FAILURE_MEANING, cusumParameters, cusumSentence, signed, type ProgressViewer } from "./format";
+import { signed } from "../../../lib/stat-format";
+import { FAILURE_MEANING, cusumParameters, cusumSentence, type ProgressViewer } from "./cusum-words";
 
 const PATH = "#0072B2"; // Okabe–Ito blue
 const UPPER = "#D55E00"; // Okabe–Ito vermillion: the unacceptable limit

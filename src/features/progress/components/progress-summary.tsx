@@ -8,7 +8,7 @@ import type { Progress } from "../../../../shared/schemas/progress";
 import { tableClasses as t } from "../../../components/ui/report-section";
 import { EmptyState } from "../../../components/ui/states";
 import { formatDate } from "../../../lib/format";
-import { percent } from "./format";
+import { percent } from "../../../lib/stat-format";
 import { ThresholdBar } from "./threshold-bar";
 
 function Figure({ label, value, detail }: { label: string; value: string; detail?: string }) {

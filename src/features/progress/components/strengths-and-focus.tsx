@@ -5,7 +5,7 @@ import { useId } from "react";
 import { Sparkles, Target } from "lucide-react";
 import type { CriterionStanding } from "../../../../shared/schemas/progress";
 import { EmptyState } from "../../../components/ui/states";
-import { percent } from "./format";
+import { percent } from "../../../lib/stat-format";
 
 function Standing({ s, showAdvice }: { s: CriterionStanding; showAdvice: boolean }) {
   return (

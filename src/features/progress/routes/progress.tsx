@@ -9,7 +9,7 @@ import { Download, Mail } from "lucide-react";
 import type { ApplicationProgress, Progress } from "../../../../shared/schemas/progress";
 import { AccuracyTable } from "../components/accuracy-table";
 import { CriterionTrends } from "../components/criterion-trends";
-import { cusumSentence } from "../components/format";
+import { cusumSentence } from "../components/cusum-words";
 import { LearningCurve } from "../components/learning-curve";
 import { ProgressSummary, ThresholdStatus } from "../components/progress-summary";
 import { StrengthsAndFocus } from "../components/strengths-and-focus";

@@ -5,7 +5,8 @@ import { Link } from "react-router-dom";
 import { MessageCircleCheck, MessageCircleQuestion } from "lucide-react";
 import { PageHeader } from "../../../components/ui/page-header";
 import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
-import { formatCount, formatDateTime } from "../../../lib/format";
+import { formatDateTime } from "../../../lib/format";
+import { formatCount } from "../../../lib/stat-format";
 import { useQuestionList, type QuestionThreadItem } from "../api/questions";
 
 function State({ item }: { item: QuestionThreadItem }) {

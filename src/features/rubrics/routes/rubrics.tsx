@@ -8,7 +8,8 @@ import { FormMessage } from "../../../components/ui/form-message";
 import { PageHeader } from "../../../components/ui/page-header";
 import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
 import { StatusTag } from "../../../components/ui/status-tag";
-import { formatCount, formatDate } from "../../../lib/format";
+import { formatDate } from "../../../lib/format";
+import { formatCount } from "../../../lib/stat-format";
 import { STATUS_WORDS, useRubricAction, useRubricList, type RubricListItem } from "../api/rubrics";
 
 const TONE = { draft: "waiting", published: "good", archived: "off" } as const;

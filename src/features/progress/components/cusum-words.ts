@@ -1,30 +1,8 @@
-// Words and figures for the progress components, in one place so the learner's screen, the
-// QA lead's page of a sonographer and the tests agree on how a rate or a signal reads.
-import type { CusumView, Rate } from "../../../../shared/schemas/progress";
+// The learning curve in words, in one place so the learner's screen, the QA lead's page of a
+// sonographer and the tests agree on how a signal reads (figures: src/lib/stat-format.ts).
+import type { CusumView } from "../../../../shared/schemas/progress";
 import { formatDate } from "../../../lib/format";
-
-/** 0.873 → "87%" (null → "—"). */
-export function percent(value: number | null | undefined, digits = 0): string {
-  if (value === null || value === undefined || !Number.isFinite(value)) return "—";
-  // Whole percentages round the way the interval's lower bound does (Math.round), so both ends of "87% (72–95%)" agree.
-  return digits === 0 ? `${Math.round(value * 100)}%` : `${(value * 100).toFixed(digits)}%`;
-}
-
-/** A rate with its Wilson 95% interval: "87% (72–95%)", or "—" when nothing was counted. */
-export function rateText(r: Rate): string {
-  if (r.value === null || r.n === 0) return "—";
-  return `${percent(r.value)} (${Math.round(r.ci95[0] * 100)}–${percent(r.ci95[1])})`;
-}
-
-/** "13 of 15" for a rate, or "none" when nothing was counted. */
-export function rateCount(r: Rate): string {
-  return r.n === 0 ? "none" : `${r.successes} of ${r.n}`;
-}
-
-/** A CUSUM figure with a true minus sign: −2.71. */
-export function signed(value: number, digits = 2): string {
-  return value < 0 ? `−${Math.abs(value).toFixed(digits)}` : value.toFixed(digits);
-}
+import { percent } from "../../../lib/stat-format";
 
 /** Who reads a progress screen: the learner themselves or the QA lead looking at a learner. */
 export type ProgressViewer = "learner" | "lead";
