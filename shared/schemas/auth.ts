@@ -74,7 +74,6 @@ export const programChoiceSchema = z.object({ programId: z.uuid() });
 export const myProgramsSchema = z.object({
   programs: z.array(z.object({ id: z.uuid(), name: z.string(), roles: z.array(z.enum(ROLES)), current: z.boolean() })),
 });
-export type MyPrograms = z.infer<typeof myProgramsSchema>;
 
 export const invitationPreviewSchema = z.object({
   email: z.string(),

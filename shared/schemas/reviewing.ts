@@ -111,7 +111,6 @@ export const reviewerReadSchema = z.object({
   feedback: z.string(),
   submittedAt: z.string(),
 });
-export type ReviewerRead = z.infer<typeof reviewerReadSchema>;
 
 export const adjudicationSchema = z.object({
   assignmentId: z.uuid(),

@@ -6,9 +6,8 @@ import { ReportSection, tableClasses as t } from "../../../components/ui/report-
 import type { CriterionAgreement, Interval } from "../api/agreement";
 import { bandWords, formatCoefficient, formatInterval, formatPercent } from "../../../lib/stat-format";
 
-/** Why a coefficient could not be computed, in words, when the report did not say. */
-function missingReason(units: number, percentAgreement: number | null, given?: string): string {
-  if (given) return given;
+/** Why a coefficient could not be computed, in words. */
+function missingReason(units: number, percentAgreement: number | null): string {
   if (units === 0) return "No exam in this range was read twice for this criterion.";
   if (units < 2) return "Only one exam was read twice: one unit cannot separate agreement from chance.";
   if (percentAgreement === 1)
@@ -138,7 +137,7 @@ export function CriteriaTable({ criteria, filename }: { criteria: CriterionAgree
           </thead>
           <tbody className={t.tbody}>
             {criteria.map((c) => {
-              const reason = (given?: string) => missingReason(c.units, c.percentAgreement, given);
+              const reason = missingReason(c.units, c.percentAgreement);
               return (
                 <tr key={c.key} className="align-top" data-criterion={c.key}>
                   <th scope="row" className="px-3 py-2 font-semibold text-ink-900">
@@ -146,19 +145,19 @@ export function CriteriaTable({ criteria, filename }: { criteria: CriterionAgree
                     <span className="block text-xs font-normal text-slate-600">{c.kind}</span>
                   </th>
                   <td className={t.tdNum}>{c.units}</td>
-                  <td className={t.tdNum}>{c.percentAgreement === null ? <Missing reason={reason()} /> : formatPercent(c.percentAgreement)}</td>
+                  <td className={t.tdNum}>{c.percentAgreement === null ? <Missing reason={reason} /> : formatPercent(c.percentAgreement)}</td>
                   <td className={t.tdNum}>
-                    <Coefficient label="kappa" value={c.kappa.value} ci={c.kappa.ci95} reason={reason(c.kappa.reason)} />
+                    <Coefficient label="kappa" value={c.kappa.value} ci={c.kappa.ci95} reason={reason} />
                     <span className="block text-xs text-slate-600">{KAPPA_WEIGHTS[c.kappa.weights] ?? c.kappa.weights}</span>
                   </td>
                   <td className={t.tdNum}>
-                    <Coefficient label="alpha" value={c.alpha.value} ci={c.alpha.ci95} reason={reason(c.alpha.reason)} />
+                    <Coefficient label="alpha" value={c.alpha.value} ci={c.alpha.ci95} reason={reason} />
                     <span className="block text-xs text-slate-600">{c.alpha.level}</span>
                   </td>
                   <td className={t.tdNum}>
-                    <Coefficient label="ac1" value={c.ac1.value} ci={c.ac1.ci95} reason={reason(c.ac1.reason)} />
+                    <Coefficient label="ac1" value={c.ac1.value} ci={c.ac1.ci95} reason={reason} />
                   </td>
-                  <td className={t.td}>{c.band ? bandWords(c.band) : <Missing reason={reason(c.kappa.reason)} />}</td>
+                  <td className={t.td}>{c.band ? bandWords(c.band) : <Missing reason={reason} />}</td>
                 </tr>
               );
             })}

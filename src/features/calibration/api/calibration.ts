@@ -1,7 +1,6 @@
 // Calibration sets (QA lead only): the list with read progress, creating a set from chosen
 // exams and reviewers, and a set's results (multi-rater agreement, matches with a reference).
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import type { Role } from "../../../../shared/roles";
 import type { z } from "zod";
 import type {
   CalibrationCriterion,
@@ -17,6 +16,8 @@ import type {
   calibrationSetCreatedSchema,
   calibrationSetListSchema,
 } from "../../../../shared/schemas/calibration";
+import type { AgreementReport, Disagreement } from "../../../../shared/schemas/reports";
+import type { Member, MemberList } from "../../../../shared/schemas/users";
 import { api } from "../../../lib/api-client";
 import { queryString } from "../../../lib/query-string";
 import { isApiError } from "../../../lib/api-errors";
@@ -36,27 +37,16 @@ export type {
 };
 
 /** An exam two reviewers scored differently, from the agreement report: a natural calibration pick. */
-export interface CandidateExam {
-  examId: string;
-  code: string;
-  application: string;
-  a: string | number | null;
-  b: string | number | null;
-}
-
-export interface ProgramMember {
-  id: string;
-  name: string;
-  email: string;
-  roles: Role[];
-  active: boolean;
-}
+export type CandidateExam = Disagreement;
+export type ProgramMember = Member;
 
 export const calibrationKeys = {
   all: ["calibration-sets"] as const,
   list: () => ["calibration-sets", "list"] as const,
   results: (id: string) => ["calibration-sets", "results", id] as const,
   referenceForm: (examId: string) => ["calibration-sets", "reference-form", examId] as const,
+  /** The exams offered for a new set: calibration's own entry, apart from the agreement report's ["reports", …] ones and the sets' prefix (creating a set does not change them). */
+  candidates: () => ["calibration-candidates", { criterion: "quality" }] as const,
 };
 
 export const calibrationSetsQuery = queryOptions({
@@ -82,15 +72,14 @@ export const referenceFormQuery = (examId: string) =>
 
 /** Exams where two reviewers disagreed on overall image quality over the report's default range. */
 export const candidateExamsQuery = queryOptions({
-  queryKey: ["reports", "agreement", { criterion: "quality" }, "disagreements"],
-  queryFn: ({ signal }) =>
-    api<{ disagreements: CandidateExam[] }>(`/reports/agreement${queryString({ criterion: "quality" })}`, { signal }).then((r) => r.disagreements),
+  queryKey: calibrationKeys.candidates(),
+  queryFn: ({ signal }) => api<AgreementReport>(`/reports/agreement${queryString({ criterion: "quality" })}`, { signal }).then((r) => r.disagreements),
 });
 
 /** The program's members (same cache entry as Setup → People). */
 export const membersQuery = queryOptions({
   queryKey: queryKeys.members,
-  queryFn: ({ signal }) => api<{ members: ProgramMember[] }>("/users", { signal }),
+  queryFn: ({ signal }) => api<MemberList>("/users", { signal }),
 });
 
 export function useCalibrationSets() {

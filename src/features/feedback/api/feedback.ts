@@ -4,7 +4,8 @@
 import { useEffect } from "react";
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client";
-import type { Feedback, FeedbackListItem, Outcome } from "../../../../shared/schemas/feedback";
+import type { Acknowledgement, Feedback, FeedbackList, Outcome, postedMessageSchema } from "../../../../shared/schemas/feedback";
+import type { z } from "zod";
 import { queryKeys } from "../../../lib/query-keys";
 export type { Feedback, FeedbackCriterion, FeedbackListItem, Outcome } from "../../../../shared/schemas/feedback";
 
@@ -16,7 +17,7 @@ export const feedbackKeys = {
 
 export const feedbackListQuery = queryOptions({
   queryKey: feedbackKeys.list(),
-  queryFn: ({ signal }) => api<{ items: FeedbackListItem[] }>("/me/feedback", { signal }),
+  queryFn: ({ signal }) => api<FeedbackList>("/me/feedback", { signal }),
 });
 
 export const feedbackQuery = (examId: string) =>
@@ -54,12 +55,12 @@ function useFeedbackMutation<TVars, TResult>(fn: (vars: TVars) => Promise<TResul
 }
 
 export function useAcknowledge() {
-  return useFeedbackMutation((examId: string) => api<{ acknowledgedAt: string }>(`/exams/${examId}/acknowledge`, { method: "POST" }));
+  return useFeedbackMutation((examId: string) => api<Acknowledgement>(`/exams/${examId}/acknowledge`, { method: "POST" }));
 }
 
 export function usePostQuestion() {
   return useFeedbackMutation(({ examId, body }: { examId: string; body: string }) =>
-    api<{ id: string }>(`/exams/${examId}/messages`, { method: "POST", body: { body } }),
+    api<z.infer<typeof postedMessageSchema>>(`/exams/${examId}/messages`, { method: "POST", body: { body } }),
   );
 }
 

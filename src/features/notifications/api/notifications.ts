@@ -1,16 +1,11 @@
 // In-app notifications of the signed-in user, polled every minute for the header bell.
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import type { Notification as AppNotification, Notifications } from "../../../../shared/schemas/feedback";
 import { api } from "../../../lib/api-client";
 import { queryKeys } from "../../../lib/query-keys";
 
-export interface AppNotification {
-  id: string;
-  kind: string;
-  examId: string | null;
-  body: string;
-  read: boolean;
-  createdAt: string;
-}
+/** One notification (named apart from the browser's own Notification). */
+export type { AppNotification };
 
 /** How often the bell asks for new notifications. */
 export const NOTIFICATIONS_POLL_MS = 60_000;
@@ -22,7 +17,7 @@ export const notificationKeys = {
 
 export const notificationsQuery = queryOptions({
   queryKey: notificationKeys.list(),
-  queryFn: ({ signal }) => api<{ items: AppNotification[]; unread: number }>("/notifications", { signal }),
+  queryFn: ({ signal }) => api<Notifications>("/notifications", { signal }),
   refetchInterval: NOTIFICATIONS_POLL_MS,
   refetchIntervalInBackground: false,
 });

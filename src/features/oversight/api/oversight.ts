@@ -1,45 +1,18 @@
 // The QA lead's oversight data: open adjudications with both reads, the decision on one,
 // handing one to a third reviewer, and follow-ups of clinically significant disagreements.
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import type { ExamSetting, FindingRead } from "../../../../shared/catalogue";
-import type { Criterion, ScoreValue } from "../../../../shared/rubric/types";
-import type { Role } from "../../../../shared/roles";
+import type { Exam } from "../../../../shared/schemas/exams";
+import type { Adjudicated, Adjudication, Reassigned, adjudicationListSchema } from "../../../../shared/schemas/reviewing";
+import type { adjudicateSchema } from "../../../../shared/schemas/reviews";
+import type { MemberList } from "../../../../shared/schemas/users";
 import type { FollowUp, FollowUpStatus, followUpListSchema, followUpUpdatedSchema } from "../../../../shared/schemas/follow-ups";
 import type { z } from "zod";
 import { api } from "../../../lib/api-client";
 import { queryString } from "../../../lib/query-string";
 import { queryKeys } from "../../../lib/query-keys";
 
-export interface ReadOfReviewer {
-  kind: "primary" | "second";
-  reviewer: string;
-  scores: Record<string, ScoreValue>;
-  reads: { key: string; read: FindingRead }[];
-  feedback: string;
-  submittedAt: string;
-}
-
-export interface Adjudication {
-  assignmentId: string;
-  examId: string;
-  examCode: string;
-  setting: ExamSetting;
-  application: { code: string; name: string };
-  assignedTo: string | null;
-  rubric: { id: string; version: number; criteria: Criterion[] } | null;
-  reads: ReadOfReviewer[];
-  disagreements: string[];
-}
-
+export type { Adjudication };
 export type { FollowUp, FollowUpStatus };
-
-export interface ProgramMember {
-  id: string;
-  name: string;
-  email: string;
-  roles: Role[];
-  active: boolean;
-}
 
 export const oversightKeys = {
   all: ["oversight"] as const,
@@ -49,7 +22,7 @@ export const oversightKeys = {
 
 export const adjudicationsQuery = queryOptions({
   queryKey: oversightKeys.adjudications(),
-  queryFn: ({ signal }) => api<{ items: Adjudication[] }>("/adjudications", { signal }),
+  queryFn: ({ signal }) => api<z.infer<typeof adjudicationListSchema>>("/adjudications", { signal }),
 });
 
 export const followUpsQuery = (status: FollowUpStatus | "all") =>
@@ -62,14 +35,14 @@ export const followUpsQuery = (status: FollowUpStatus | "all") =>
 /** The program's members (same cache entry as Setup → People). */
 export const membersQuery = queryOptions({
   queryKey: queryKeys.members,
-  queryFn: ({ signal }) => api<{ members: ProgramMember[] }>("/users", { signal }),
+  queryFn: ({ signal }) => api<MemberList>("/users", { signal }),
 });
 
 /** The sonographer's own reads of an exam (a QA lead may open any exam of the program). */
 export const examReadsQuery = (examId: string) =>
   queryOptions({
     queryKey: queryKeys.examDetail(examId),
-    queryFn: ({ signal }) => api<{ exam: { id: string; findings: { key: string; read: FindingRead }[] } }>(`/exams/${examId}`, { signal }).then((r) => r.exam),
+    queryFn: ({ signal }) => api<{ exam: Exam }>(`/exams/${examId}`, { signal }).then((r) => r.exam),
   });
 
 export function useAdjudications() {
@@ -89,21 +62,18 @@ function useOversightMutation<TVars, TResult>(fn: (vars: TVars) => Promise<TResu
   });
 }
 
-export interface AdjudicateBody {
-  scores: Record<string, ScoreValue>;
-  reads: { key: string; read: FindingRead }[];
-  note: string;
-}
+/** What a QA lead decides: the final scores, the final finding reads and a note (as the server reads it). */
+export type AdjudicateBody = z.output<typeof adjudicateSchema>;
 
 export function useAdjudicate() {
   return useOversightMutation(({ examId, body }: { examId: string; body: AdjudicateBody }) =>
-    api<{ examId: string; credit: boolean; significantDisagreement: string[] }>(`/exams/${examId}/adjudicate`, { method: "POST", body }),
+    api<Adjudicated>(`/exams/${examId}/adjudicate`, { method: "POST", body }),
   );
 }
 
 export function useReassign() {
   return useOversightMutation(({ assignmentId, reviewerId }: { assignmentId: string; reviewerId: string }) =>
-    api<{ id: string; assignedTo: string }>(`/assignments/${assignmentId}/reassign`, { method: "POST", body: { reviewerId } }),
+    api<Reassigned>(`/assignments/${assignmentId}/reassign`, { method: "POST", body: { reviewerId } }),
   );
 }
 

@@ -2,7 +2,7 @@
 // sonographer's exam page and the QA lead's page of a sonographer. Saving refreshes every
 // progress figure that may count them (the learner's ["progress"] and the lead's ["roster"]).
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import type { Confirmation, ConfirmationsInput } from "../../../../shared/schemas/progress";
+import type { Confirmations, ConfirmationsInput } from "../../../../shared/schemas/progress";
 import { api } from "../../../lib/api-client";
 import { queryKeys } from "../../../lib/query-keys";
 
@@ -15,7 +15,7 @@ export const confirmationKeys = {
 export const confirmationsQuery = (examId: string) =>
   queryOptions({
     queryKey: confirmationKeys.exam(examId),
-    queryFn: ({ signal }) => api<{ items: Confirmation[] }>(`/exams/${examId}/confirmations`, { signal }),
+    queryFn: ({ signal }) => api<Confirmations>(`/exams/${examId}/confirmations`, { signal }),
     // A 403/404 is an answer (not the exam's sonographer nor a QA lead), not a hiccup to retry.
     retry: (count, error) => count < 2 && !(error instanceof Error && "status" in error && [403, 404, 409].includes(Number(error.status))),
   });
@@ -28,7 +28,7 @@ export function useConfirmations(examId: string, enabled = true) {
 export function useSaveConfirmations(examId: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (body: ConfirmationsInput) => api<{ items: Confirmation[] }>(`/exams/${examId}/confirmations`, { method: "PUT", body }),
+    mutationFn: (body: ConfirmationsInput) => api<Confirmations>(`/exams/${examId}/confirmations`, { method: "PUT", body }),
     onSuccess: (result) => queryClient.setQueryData(confirmationKeys.exam(examId), result),
     onSettled: () =>
       Promise.all([

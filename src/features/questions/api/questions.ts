@@ -5,47 +5,13 @@ import { useEffect } from "react";
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { z } from "zod";
 import { api } from "../../../lib/api-client";
-import type { ExamSetting, FindingRead } from "../../../../shared/catalogue";
+import type { MessageThread, postedMessageSchema } from "../../../../shared/schemas/feedback";
+import type { QuestionThread, ReviewedExam, questionThreadListSchema } from "../../../../shared/schemas/reviewing";
 import { queryKeys } from "../../../lib/query-keys";
 
-/** One thread in GET /api/reviews/questions. */
-export interface QuestionThreadItem {
-  examId: string;
-  code: string;
-  application: { code: string; name: string };
-  lastMessageAt: string;
-  /** The last word is the sonographer's: the thread waits for an answer. */
-  lastFromSonographer: boolean;
-  messages: number;
-}
-
-/** GET /api/reviews/exams/:id: the exam (never its sonographer), my review and the final result. */
-export interface ReviewedExam {
-  exam: {
-    id: string;
-    code: string;
-    application: { code: string; name: string };
-    performedAt: string;
-    setting: ExamSetting;
-    status: string;
-  };
-  /** Null for a QA lead who did not read the exam. */
-  myReview: {
-    submittedAt: string;
-    feedback: string;
-    criteria: { key: string; label: string; value: string | number | null; levelLabel: string | null }[];
-    reads: { key: string; label: string; read: FindingRead }[];
-  } | null;
-  final: { credit: boolean; source: "single_read" | "double_read_agreed" | "adjudicated"; decidedAt: string } | null;
-}
-
-/** GET /api/exams/:id/messages: authors as the server names them ("you", "Sonographer" while blinded, or a name). */
-export interface ThreadMessage {
-  id: string;
-  body: string;
-  at: string;
-  author: string;
-}
+/** A message of GET /api/exams/:id/messages: authors as the server names them ("you", "Sonographer" while blinded, or a name). */
+export type ThreadMessage = MessageThread["items"][number];
+export type { QuestionThread, ReviewedExam };
 
 export const questionKeys = {
   all: ["questions"] as const,
@@ -56,7 +22,7 @@ export const questionKeys = {
 
 export const questionListQuery = queryOptions({
   queryKey: questionKeys.list(),
-  queryFn: ({ signal }) => api<{ items: QuestionThreadItem[] }>("/reviews/questions", { signal }),
+  queryFn: ({ signal }) => api<z.infer<typeof questionThreadListSchema>>("/reviews/questions", { signal }),
 });
 
 export const reviewedExamQuery = (examId: string) =>
@@ -68,7 +34,7 @@ export const reviewedExamQuery = (examId: string) =>
 export const threadQuery = (examId: string) =>
   queryOptions({
     queryKey: questionKeys.thread(examId),
-    queryFn: ({ signal }) => api<{ examCode: string; items: ThreadMessage[] }>(`/exams/${examId}/messages`, { signal }),
+    queryFn: ({ signal }) => api<MessageThread>(`/exams/${examId}/messages`, { signal }),
   });
 
 export function useQuestionList() {
@@ -98,7 +64,8 @@ export const answerSchema = z.object({
 export function usePostAnswer() {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: ({ examId, body }: { examId: string; body: string }) => api<{ id: string }>(`/exams/${examId}/messages`, { method: "POST", body: { body } }),
+    mutationFn: ({ examId, body }: { examId: string; body: string }) =>
+      api<z.infer<typeof postedMessageSchema>>(`/exams/${examId}/messages`, { method: "POST", body: { body } }),
     onSettled: () =>
       Promise.all([queryClient.invalidateQueries({ queryKey: questionKeys.all }), queryClient.invalidateQueries({ queryKey: queryKeys.notifications })]),
   });

@@ -7,9 +7,9 @@ import { PageHeader } from "../../../components/ui/page-header";
 import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
 import { formatDateTime } from "../../../lib/format";
 import { formatCount } from "../../../lib/stat-format";
-import { useQuestionList, type QuestionThreadItem } from "../api/questions";
+import { useQuestionList, type QuestionThread } from "../api/questions";
 
-function State({ item }: { item: QuestionThreadItem }) {
+function State({ item }: { item: QuestionThread }) {
   return item.lastFromSonographer ? (
     <span className="inline-flex items-center gap-1 font-semibold text-sand-800">
       <MessageCircleQuestion aria-hidden="true" className="size-4" />

@@ -2,13 +2,12 @@
 // (GET /api/roster/:userId/progress and /feedback). The credentialing report is downloaded
 // through the progress feature's useReportDownload.
 import { keepPreviousData, queryOptions } from "@tanstack/react-query";
-import type { Progress, RosterRow } from "../../../../shared/schemas/progress";
+import type { Progress, Roster } from "../../../../shared/schemas/progress";
 import { api } from "../../../lib/api-client";
 import { queryString } from "../../../lib/query-string";
-import type { FeedbackListItem } from "../../../../shared/schemas/feedback";
+import type { FeedbackList, FeedbackListItem } from "../../../../shared/schemas/feedback";
 import { queryKeys } from "../../../lib/query-keys";
 
-/** One reviewed exam as the QA lead sees it: the learner's feedback with reviewer names. */
 /** A reviewed exam on the QA lead's page of a sonographer: the learner's feedback with reviewers named. */
 export type FeedbackDetail = FeedbackListItem;
 
@@ -28,7 +27,7 @@ export const rosterKeys = {
 
 export const rosterQuery = queryOptions({
   queryKey: rosterKeys.list(),
-  queryFn: ({ signal }) => api<{ items: RosterRow[] }>("/roster", { signal }).then((r) => r.items),
+  queryFn: ({ signal }) => api<Roster>("/roster", { signal }).then((r) => r.items),
 });
 
 /** One sonographer's progress for a range; the previous range stays on screen while the next loads. */
@@ -42,5 +41,5 @@ export const sonographerProgressQuery = (userId: string, range: ProgressRange) =
 export const sonographerFeedbackQuery = (userId: string) =>
   queryOptions({
     queryKey: rosterKeys.feedback(userId),
-    queryFn: ({ signal }) => api<{ items: FeedbackDetail[] }>(`/roster/${encodeURIComponent(userId)}/feedback`, { signal }).then((r) => r.items),
+    queryFn: ({ signal }) => api<FeedbackList>(`/roster/${encodeURIComponent(userId)}/feedback`, { signal }).then((r) => r.items),
   });
