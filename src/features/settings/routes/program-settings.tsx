@@ -10,7 +10,7 @@ import { Button } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { PageHeader } from "../../../components/ui/page-header";
 import { ErrorState, LoadingState } from "../../../components/ui/states";
-import { fieldErrors, isApiError } from "../../../lib/api-errors";
+import { fieldErrors, isApiError, splitFieldMessage } from "../../../lib/api-errors";
 import { TextField } from "../../../components/ui/text-field";
 import { useSettings, useUpdateSettings } from "../api/settings";
 
@@ -73,16 +73,16 @@ const SERVER_FIELDS = {
 
 /**
  * The field errors of a refused save, keyed by form field: from validation details when the
- * server sent them, else from a message that starts with or names a settings field.
+ * server sent them, else from a "field: text" message (lib/api-errors reads both).
  */
 function serverFieldErrors(error: unknown): Partial<Record<keyof FormValues, string>> {
-  const out: Partial<Record<keyof FormValues, string>> = {};
   const byField = fieldErrors(error);
-  for (const [server, field] of Object.entries(SERVER_FIELDS)) if (byField[server]) out[field] = byField[server];
-  if (Object.keys(out).length === 0 && isApiError(error, 400)) {
-    const named = Object.keys(SERVER_FIELDS).find((f) => new RegExp(`\\b${f}\\b`).test(error.message));
-    if (named) out[SERVER_FIELDS[named as keyof typeof SERVER_FIELDS]] = error.message.replace(new RegExp(`^${named}:\\s*`), "");
+  if (Object.keys(byField).length === 0 && isApiError(error, 400)) {
+    const { field, text } = splitFieldMessage(error.message);
+    if (field) byField[field] = text;
   }
+  const out: Partial<Record<keyof FormValues, string>> = {};
+  for (const [server, field] of Object.entries(SERVER_FIELDS)) if (byField[server]) out[field] = byField[server];
   return out;
 }
 
