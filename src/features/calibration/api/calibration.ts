@@ -17,11 +17,10 @@ import type {
   calibrationSetListSchema,
 } from "../../../../shared/schemas/calibration";
 import type { AgreementReport, Disagreement } from "../../../../shared/schemas/reports";
-import type { Member, MemberList } from "../../../../shared/schemas/users";
+import type { Member } from "../../../../shared/schemas/users";
 import { api } from "../../../lib/api-client";
 import { queryString } from "../../../lib/query-string";
 import { isApiError } from "../../../lib/api-errors";
-import { queryKeys } from "../../../lib/query-keys";
 
 export type {
   CalibrationCriterion,
@@ -74,12 +73,6 @@ export const referenceFormQuery = (examId: string) =>
 export const candidateExamsQuery = queryOptions({
   queryKey: calibrationKeys.candidates(),
   queryFn: ({ signal }) => api<AgreementReport>(`/reports/agreement${queryString({ criterion: "quality" })}`, { signal }).then((r) => r.disagreements),
-});
-
-/** The program's members (same cache entry as Setup → People). */
-export const membersQuery = queryOptions({
-  queryKey: queryKeys.members,
-  queryFn: ({ signal }) => api<MemberList>("/users", { signal }),
 });
 
 export function useCalibrationSets() {

@@ -4,7 +4,8 @@ import { useId } from "react";
 import { useQuery } from "@tanstack/react-query";
 import { FieldError } from "../../../components/ui/text-field";
 import { ErrorState, LoadingState } from "../../../components/ui/states";
-import { membersQuery, type ProgramMember } from "../api/calibration";
+import { membersQuery } from "../../../lib/members";
+import type { ProgramMember } from "../api/calibration";
 
 /** Active members holding the reviewer role, by name. */
 export function activeReviewers(members: ProgramMember[] | undefined): ProgramMember[] {

@@ -4,7 +4,6 @@ import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/r
 import type { Exam } from "../../../../shared/schemas/exams";
 import type { Adjudicated, Adjudication, Reassigned, adjudicationListSchema } from "../../../../shared/schemas/reviewing";
 import type { adjudicateSchema } from "../../../../shared/schemas/reviews";
-import type { MemberList } from "../../../../shared/schemas/users";
 import type { FollowUp, FollowUpStatus, followUpListSchema, followUpUpdatedSchema } from "../../../../shared/schemas/follow-ups";
 import type { z } from "zod";
 import { api } from "../../../lib/api-client";
@@ -31,12 +30,6 @@ export const followUpsQuery = (status: FollowUpStatus | "all") =>
     queryFn: ({ signal }) =>
       api<z.infer<typeof followUpListSchema>>(`/follow-ups${queryString({ status: status === "all" ? undefined : status })}`, { signal }),
   });
-
-/** The program's members (same cache entry as Setup → People). */
-export const membersQuery = queryOptions({
-  queryKey: queryKeys.members,
-  queryFn: ({ signal }) => api<MemberList>("/users", { signal }),
-});
 
 /** The sonographer's own reads of an exam (a QA lead may open any exam of the program). */
 export const examReadsQuery = (examId: string) =>

@@ -5,7 +5,8 @@ import { useQuery } from "@tanstack/react-query";
 import { Button } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { SelectField } from "../../../components/ui/select-field";
-import { membersQuery, useReassign, type Adjudication } from "../api/oversight";
+import { membersQuery } from "../../../lib/members";
+import { useReassign, type Adjudication } from "../api/oversight";
 
 export function ReassignPanel({ item }: { item: Adjudication }) {
   const members = useQuery(membersQuery);

@@ -7,7 +7,8 @@ import { PageHeader } from "../../../components/ui/page-header";
 import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
 import { StatusTag } from "../../../components/ui/status-tag";
 import { SETTING_LABELS } from "../../../lib/catalogue";
-import { membersQuery, useAdjudications, type Adjudication } from "../api/oversight";
+import { membersQuery } from "../../../lib/members";
+import { useAdjudications, type Adjudication } from "../api/oversight";
 import { disagreementLabel } from "../components/disagreement-label";
 
 export default function AdjudicationsPage() {

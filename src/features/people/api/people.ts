@@ -2,14 +2,10 @@
 // invalidates the whole ["users"] prefix: lists are small and must not show stale roles.
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import type { Role } from "../../../../shared/roles";
-import type { InvitationAnswer, InvitationList, MemberAnswer, MemberList } from "../../../../shared/schemas/users";
+import type { InvitationAnswer, InvitationList, MemberAnswer } from "../../../../shared/schemas/users";
 import { api } from "../../../lib/api-client";
+import { membersQuery } from "../../../lib/members";
 import { queryKeys } from "../../../lib/query-keys";
-
-export const membersQuery = queryOptions({
-  queryKey: queryKeys.members,
-  queryFn: ({ signal }) => api<MemberList>("/users", { signal }),
-});
 
 export const invitationsQuery = queryOptions({
   queryKey: ["users", "invitations"],
