@@ -2,20 +2,11 @@
 // reviewer-pair matrix, a confusion matrix, bias against consensus and the exams in
 // disagreement, for a date range and optionally one application.
 import { keepPreviousData, queryOptions } from "@tanstack/react-query";
-import type {
-  AgreementReport,
-  Confusion,
-  CriterionAgreement,
-  Disagreement,
-  Interval,
-  PairAgreement,
-  Person,
-  ReviewerBias,
-} from "../../../../shared/schemas/reports";
+import type { AgreementReport, Confusion, CriterionAgreement, Disagreement, PairAgreement, Person, ReviewerBias } from "../../../../shared/schemas/reports";
 import { api } from "../../../lib/api-client";
 import { queryString } from "../../../lib/query-string";
 
-export type { AgreementReport, Confusion, CriterionAgreement, Disagreement, Interval, PairAgreement, Person, ReviewerBias };
+export type { Confusion, CriterionAgreement, Disagreement, PairAgreement, Person, ReviewerBias };
 
 export interface AgreementFilters {
   from: string;

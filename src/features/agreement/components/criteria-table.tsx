@@ -3,8 +3,9 @@
 // interval, and the Landis & Koch band in words.
 import { ExportCsvButton } from "../../../components/ui/export-csv-button";
 import { ReportSection, tableClasses as t } from "../../../components/ui/report-section";
-import type { CriterionAgreement, Interval } from "../api/agreement";
-import { bandWords, formatCoefficient, formatInterval, formatPercent } from "../../../lib/stat-format";
+import { Coefficient, NotComputable } from "../../../components/ui/coefficient";
+import type { CriterionAgreement } from "../api/agreement";
+import { bandWords, formatPercent } from "../../../lib/stat-format";
 
 /** Why a coefficient could not be computed, in words. */
 function missingReason(units: number, percentAgreement: number | null): string {
@@ -13,32 +14,6 @@ function missingReason(units: number, percentAgreement: number | null): string {
   if (percentAgreement === 1)
     return "Every reviewer gave one and the same value, so chance agreement is total and the coefficient is 0/0. Percent agreement is the figure to read.";
   return "Not computable from these reads.";
-}
-
-function Missing({ reason }: { reason: string }) {
-  return (
-    <span title={reason} className="cursor-help text-slate-600 underline decoration-dotted underline-offset-2">
-      —<span className="sr-only"> (not computable: {reason})</span>
-    </span>
-  );
-}
-
-function Coefficient({ value, ci, reason, label }: { value: number | null; ci?: Interval | null; reason: string; label: string }) {
-  if (value === null) return <Missing reason={reason} />;
-  return (
-    <span className="inline-flex flex-col items-end">
-      <span data-stat={label} className="font-semibold">
-        {formatCoefficient(value)}
-      </span>
-      {ci ? (
-        <span data-stat-interval={label} className="text-xs text-slate-600">
-          {formatInterval(ci)}
-        </span>
-      ) : (
-        <span className="text-xs text-slate-500">no interval</span>
-      )}
-    </span>
-  );
 }
 
 const KAPPA_WEIGHTS = { quadratic: "quadratic weights", unweighted: "unweighted" } as const;
@@ -145,7 +120,7 @@ export function CriteriaTable({ criteria, filename }: { criteria: CriterionAgree
                     <span className="block text-xs font-normal text-slate-600">{c.kind}</span>
                   </th>
                   <td className={t.tdNum}>{c.units}</td>
-                  <td className={t.tdNum}>{c.percentAgreement === null ? <Missing reason={reason} /> : formatPercent(c.percentAgreement)}</td>
+                  <td className={t.tdNum}>{c.percentAgreement === null ? <NotComputable reason={reason} /> : formatPercent(c.percentAgreement)}</td>
                   <td className={t.tdNum}>
                     <Coefficient label="kappa" value={c.kappa.value} ci={c.kappa.ci95} reason={reason} />
                     <span className="block text-xs text-slate-600">{KAPPA_WEIGHTS[c.kappa.weights] ?? c.kappa.weights}</span>
@@ -157,7 +132,7 @@ export function CriteriaTable({ criteria, filename }: { criteria: CriterionAgree
                   <td className={t.tdNum}>
                     <Coefficient label="ac1" value={c.ac1.value} ci={c.ac1.ci95} reason={reason} />
                   </td>
-                  <td className={t.td}>{c.band ? bandWords(c.band) : <Missing reason={reason} />}</td>
+                  <td className={t.td}>{c.band ? bandWords(c.band) : <NotComputable reason={reason} />}</td>
                 </tr>
               );
             })}

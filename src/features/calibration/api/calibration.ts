@@ -3,16 +3,9 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import type { z } from "zod";
 import type {
-  CalibrationCriterion,
   CalibrationResults,
-  CalibrationSetSummary,
-  MatchCount,
   NewCalibrationSet,
-  Person,
-  ReferenceAnswer,
   ReferenceForm,
-  ReferenceRow,
-  ReviewerVsReference,
   calibrationSetCreatedSchema,
   calibrationSetListSchema,
 } from "../../../../shared/schemas/calibration";
@@ -25,15 +18,11 @@ import { isApiError } from "../../../lib/api-errors";
 export type {
   CalibrationCriterion,
   CalibrationResults,
-  CalibrationSetSummary,
   MatchCount,
   NewCalibrationSet,
-  Person,
-  ReferenceAnswer,
   ReferenceForm,
   ReferenceRow,
-  ReviewerVsReference,
-};
+} from "../../../../shared/schemas/calibration";
 
 /** An exam two reviewers scored differently, from the agreement report: a natural calibration pick. */
 export type CandidateExam = Disagreement;

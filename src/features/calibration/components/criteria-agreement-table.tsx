@@ -1,16 +1,9 @@
 // Agreement among all of a set's reviewers, per criterion: Fleiss' kappa with its 95 %
 // interval, Krippendorff's alpha, and the band in words. Anything not computable shows "—".
 import { ReportSection, tableClasses as t } from "../../../components/ui/report-section";
+import { Coefficient, NotComputable } from "../../../components/ui/coefficient";
 import type { CalibrationCriterion } from "../api/calibration";
-import { bandWords, formatCoefficient, formatInterval } from "../../../lib/stat-format";
-
-function Missing({ reason }: { reason: string }) {
-  return (
-    <span title={reason} className="cursor-help text-slate-600 underline decoration-dotted underline-offset-2">
-      —<span className="sr-only"> (not computable: {reason})</span>
-    </span>
-  );
-}
+import { bandWords, formatCoefficient } from "../../../lib/stat-format";
 
 function reasonFor(c: CalibrationCriterion): string {
   if (c.units === 0) return "No exam has been read by every reviewer yet.";
@@ -62,31 +55,18 @@ export function CriteriaAgreementTable({ criteria }: { criteria: CalibrationCrit
                   </th>
                   <td className={t.tdNum}>{c.units}</td>
                   <td className={t.tdNum}>
-                    {kappa === null ? (
-                      <Missing reason={reason} />
-                    ) : (
-                      <span className="inline-flex flex-col items-end">
-                        <span data-stat="fleiss" className="font-semibold">
-                          {formatCoefficient(kappa)}
-                        </span>
-                        {c.fleiss?.ci95 ? (
-                          <span className="text-xs text-slate-600">{formatInterval(c.fleiss.ci95)}</span>
-                        ) : (
-                          <span className="text-xs text-slate-500">no interval</span>
-                        )}
-                      </span>
-                    )}
+                    <Coefficient label="fleiss" value={kappa} ci={c.fleiss?.ci95} reason={reason} />
                   </td>
                   <td className={t.tdNum}>
                     {c.alpha.value === null ? (
-                      <Missing reason={reason} />
+                      <NotComputable reason={reason} />
                     ) : (
                       <span data-stat="alpha" className="font-semibold">
                         {formatCoefficient(c.alpha.value)}
                       </span>
                     )}
                   </td>
-                  <td className={t.td}>{c.band ? bandWords(c.band) : <Missing reason={reason} />}</td>
+                  <td className={t.td}>{c.band ? bandWords(c.band) : <NotComputable reason={reason} />}</td>
                 </tr>
               );
             })}
