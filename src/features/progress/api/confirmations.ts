@@ -4,6 +4,7 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import type { Confirmations, ConfirmationsInput } from "../../../../shared/schemas/progress";
 import { api } from "../../../lib/api-client";
+import { isApiError } from "../../../lib/api-errors";
 import { queryKeys } from "../../../lib/query-keys";
 
 export const confirmationKeys = {
@@ -17,7 +18,7 @@ export const confirmationsQuery = (examId: string) =>
     queryKey: confirmationKeys.exam(examId),
     queryFn: ({ signal }) => api<Confirmations>(`/exams/${examId}/confirmations`, { signal }),
     // A 403/404 is an answer (not the exam's sonographer nor a QA lead), not a hiccup to retry.
-    retry: (count, error) => count < 2 && !(error instanceof Error && "status" in error && [403, 404, 409].includes(Number(error.status))),
+    retry: (count, error) => count < 2 && !(isApiError(error) && [403, 404, 409].includes(error.status)),
   });
 
 export function useConfirmations(examId: string, enabled = true) {

@@ -2,7 +2,7 @@
 // per application, totals, last activity and flags that need the QA lead's attention.
 // Search and the flag filter live in the URL, so a link reproduces the view.
 import { useQuery } from "@tanstack/react-query";
-import { Link, useSearchParams } from "react-router-dom";
+import { Link } from "react-router-dom";
 import { ROSTER_FLAG_LABELS, ROSTER_FLAGS, type RosterFlag, type RosterRow } from "../../../../shared/schemas/progress";
 import { buttonClasses } from "../../../components/ui/button";
 import { PageHeader } from "../../../components/ui/page-header";
@@ -10,6 +10,7 @@ import { SelectField } from "../../../components/ui/select-field";
 import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
 import { TextField } from "../../../components/ui/text-field";
 import { isoDay } from "../../../lib/date-range";
+import { useSearchState } from "../../../lib/use-search-state";
 import { rosterQuery } from "../api/roster";
 import { RosterTable } from "../components/roster-table";
 
@@ -27,21 +28,12 @@ function matches(r: RosterRow, search: string, flag: FlagFilter): boolean {
 }
 
 export default function RosterPage() {
-  const [params, setParams] = useSearchParams();
+  const [params, update] = useSearchState();
   const search = params.get("q") ?? "";
   const rawFlag = params.get("flag");
   const flag: FlagFilter = isFlagFilter(rawFlag) ? rawFlag : "";
   const roster = useQuery(rosterQuery);
-  const set = (k: "q" | "flag", v: string) =>
-    setParams(
-      (prev) => {
-        const next = new URLSearchParams(prev);
-        if (v) next.set(k, v);
-        else next.delete(k);
-        return next;
-      },
-      { replace: true },
-    );
+  const set = (k: "q" | "flag", v: string) => update({ [k]: v });
   const rows = roster.data?.filter((r) => matches(r, search, flag)) ?? [];
   const flagged = roster.data?.filter((r) => r.flags.length > 0).length ?? 0;
 
@@ -88,7 +80,7 @@ export default function RosterPage() {
         <EmptyState
           title="No sonographer matches these filters"
           action={
-            <button type="button" className={buttonClasses("secondary", "sm")} onClick={() => setParams(new URLSearchParams(), { replace: true })}>
+            <button type="button" className={buttonClasses("secondary", "sm")} onClick={() => update({ q: null, flag: null })}>
               Clear the filters
             </button>
           }

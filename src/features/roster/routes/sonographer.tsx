@@ -4,7 +4,7 @@
 // The range, rolling window and application live in the URL.
 import { useQuery } from "@tanstack/react-query";
 import { ArrowLeft } from "lucide-react";
-import { Link, useParams, useSearchParams } from "react-router-dom";
+import { Link, useParams } from "react-router-dom";
 import type { ApplicationProgress, Progress } from "../../../../shared/schemas/progress";
 import { AccuracyTable, CriterionTrends, LearningCurve, ProgressSummary, StrengthsAndFocus } from "../../progress";
 import { buttonClasses } from "../../../components/ui/button";
@@ -16,6 +16,7 @@ import { TextField } from "../../../components/ui/text-field";
 import { isApiError } from "../../../lib/api-errors";
 import { isIsoDay } from "../../../lib/date-range";
 import { formatDate } from "../../../lib/format";
+import { useSearchState } from "../../../lib/use-search-state";
 import { sonographerFeedbackQuery, sonographerProgressQuery } from "../api/roster";
 import { ReportButtons } from "../components/report-download";
 import { ReviewedExams } from "../components/reviewed-exams";
@@ -24,22 +25,13 @@ import { SignalTag } from "../components/progress-marks";
 const WINDOWS = [5, 10, 20] as const;
 
 function useView() {
-  const [params, setParams] = useSearchParams();
+  const [params, update] = useSearchState();
   const from = isIsoDay(params.get("from")) ? params.get("from")! : "";
   const to = isIsoDay(params.get("to")) ? params.get("to")! : "";
   const w = Number(params.get("window"));
   const window = (WINDOWS as readonly number[]).includes(w) ? w : 10;
   const app = params.get("app") ?? "";
-  const set = (k: "from" | "to" | "window" | "app", v: string) =>
-    setParams(
-      (prev) => {
-        const next = new URLSearchParams(prev);
-        if (v) next.set(k, v);
-        else next.delete(k);
-        return next;
-      },
-      { replace: true },
-    );
+  const set = (k: "from" | "to" | "window" | "app", v: string) => update({ [k]: v });
   return { from, to, window, app, set };
 }
 
