@@ -12,13 +12,20 @@ export const confirmationKeys = {
   exam: (examId: string) => ["confirmations", examId] as const,
 };
 
+/**
+ * A refusal that is an answer, not a hiccup to retry: 403/404 (not the exam's sonographer nor
+ * a QA lead, or no such exam), 409 (the exam is still a draft). The form then stays away.
+ */
+export function isConfirmationsRefusal(error: unknown): boolean {
+  return isApiError(error) && [403, 404, 409].includes(error.status);
+}
+
 /** One exam's confirmatory results: one item per finding of its application. */
 export const confirmationsQuery = (examId: string) =>
   queryOptions({
     queryKey: confirmationKeys.exam(examId),
     queryFn: ({ signal }) => api<Confirmations>(`/exams/${examId}/confirmations`, { signal }),
-    // A 403/404 is an answer (not the exam's sonographer nor a QA lead), not a hiccup to retry.
-    retry: (count, error) => count < 2 && !(isApiError(error) && [403, 404, 409].includes(error.status)),
+    retry: (count, error) => count < 2 && !isConfirmationsRefusal(error),
   });
 
 export function useConfirmations(examId: string, enabled = true) {

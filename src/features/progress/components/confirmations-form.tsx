@@ -6,14 +6,14 @@
 import { useId, useState, type ReactNode } from "react";
 import type { Confirmation, ConfirmationMethod } from "../../../../shared/schemas/progress";
 import { CONFIRMATION_METHOD_LABELS, CONFIRMATION_METHODS, confirmationInputSchema } from "../../../../shared/schemas/progress";
-import { fieldErrors, isApiError } from "../../../lib/api-errors";
+import { fieldErrors } from "../../../lib/api-errors";
 import { formatDateTime } from "../../../lib/format";
 import { Button } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { SelectField } from "../../../components/ui/select-field";
 import { FieldError } from "../../../components/ui/text-field";
 import { ErrorState, LoadingState } from "../../../components/ui/states";
-import { useConfirmations, useSaveConfirmations } from "../api/confirmations";
+import { isConfirmationsRefusal, useConfirmations, useSaveConfirmations } from "../api/confirmations";
 
 type Row = { findingKey: string; method: ConfirmationMethod | ""; result: "positive" | "negative" | ""; note: string };
 
@@ -167,7 +167,7 @@ export function ConfirmationsForm({ examId, headingLevel = 2, collapsible = fals
     if (items && (!rows || !base || JSON.stringify(base.map(toRow)) === JSON.stringify(rows))) setRows(items.map(toRow));
   }
 
-  if (query.isError && (isApiError(query.error, 403) || isApiError(query.error, 404) || isApiError(query.error, 409))) return null;
+  if (query.isError && isConfirmationsRefusal(query.error)) return null;
   const Heading = headingLevel === 2 ? "h2" : "h3";
   const dirty = !!items && !!rows && JSON.stringify(items.map(toRow)) !== JSON.stringify(rows);
 
