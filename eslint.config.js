@@ -10,9 +10,8 @@ import { readdirSync } from "node:fs";
 import { join } from "node:path";
 
 // Route handlers parse, call one service and present: queries live in server/repositories/
-// and transactions in server/services/. Files still holding queries are listed here until
-// they move; the list only shrinks (tests/unit/lint-rules.test.ts checks the rule fires).
-const ROUTES_WITH_QUERIES = ["server/routes/home/router.ts"];
+// and transactions in server/services/, with no exception under server/routes/
+// (tests/lint/layering.test.ts checks the rule fires).
 const NO_QUERIES = "a route handler parses, calls a service and presents: put the query in server/repositories/ and the transaction in server/services/";
 
 // Features under src/features/ do not import each other, except another feature's public
@@ -64,7 +63,6 @@ export default tseslint.config(
   },
   {
     files: ["server/routes/**/*.ts"],
-    ignores: ROUTES_WITH_QUERIES,
     rules: {
       "@typescript-eslint/no-restricted-imports": [
         "error",

@@ -8,7 +8,13 @@ import { OpenAPIRegistry } from "@asteasolutions/zod-to-openapi";
 import { defineRoute, type RouteKit } from "./route";
 import { errorHandler } from "./errors";
 
-function appWith(answer: unknown, checkResponses = true) {
+const thingSchema = z.object({ id: z.string(), at: z.string(), items: z.array(z.object({ n: z.number() })) });
+
+function appWith(
+  answer: unknown,
+  checkResponses = true,
+  responses: Record<number, { description: string; schema?: z.ZodType; file?: string }> = { 200: { description: "the thing", schema: thingSchema } },
+) {
   const kit: RouteKit = { router: express.Router(), registry: new OpenAPIRegistry(), authenticate: (_q, _s, n) => n(), routes: [], checkResponses };
   defineRoute(kit, {
     method: "get",
@@ -16,7 +22,7 @@ function appWith(answer: unknown, checkResponses = true) {
     summary: "a thing",
     tag: "test",
     access: "public",
-    responses: { 200: { description: "the thing", schema: z.object({ id: z.string(), at: z.string(), items: z.array(z.object({ n: z.number() })) }) } },
+    responses,
     handler: () => answer,
   });
   const app = express();
@@ -43,6 +49,16 @@ describe("response checking", () => {
     const res = await request(appWith({ id: "a", at: "x", items: [{ n: 1, secret: "s" }] }).app).get("/api/thing");
     expect(res.status).toBe(500);
     expect(res.body.error.message).toBe("GET /thing → 200: items.0.secret is not declared in the response schema");
+  });
+
+  it("refuses a JSON answer whose status is declared without a schema, or not declared at all", async () => {
+    const bare = await request(appWith({ id: "a" }, true, { 200: { description: "something" } }).app).get("/api/thing");
+    expect(bare.status).toBe(500);
+    expect(bare.body.error).toEqual({ code: "response_schema_mismatch", message: "GET /thing → 200: a JSON answer, but the route declares no schema for it" });
+    const fileOnly = await request(appWith({ id: "a" }, true, { 200: { description: "a file", file: "text/csv" } }).app).get("/api/thing");
+    expect(fileOnly.status).toBe(500);
+    const other = await request(appWith({ id: "a" }, true, { 201: { description: "made", schema: z.object({ id: z.string() }) } }).app).get("/api/thing");
+    expect(other.body.error.message).toBe("GET /thing → 200: the route declares no answer with this status");
   });
 
   it("sends the answer unchecked when checking is off (production)", async () => {

@@ -239,3 +239,26 @@ export function overdueReadsByApplication(db: Q, programId: string, hours: numbe
     .select("ap.name")
     .count<{ name: string; count: string }[]>("* as count");
 }
+
+/** Reads the reviewer could claim now (home). */
+export async function countClaimable(db: Q, programId: string, reviewerId: string): Promise<number> {
+  const [r] = await claimable(db, programId, reviewerId).count<{ c: string }[]>("* as c");
+  return Number(r.c);
+}
+
+/** Claims the reviewer holds whose lease has not run out (home). */
+export async function countLiveClaims(db: Q, programId: string, reviewerId: string): Promise<number> {
+  const [r] = await db("assignments")
+    .where({ program_id: programId, reviewer_id: reviewerId, state: "claimed" })
+    .andWhere("lease_expires_at", ">", db.fn.now())
+    .count<{ c: string }[]>("* as c");
+  return Number(r.c);
+}
+
+/** Adjudications not decided yet: all of the program's, or only those handed to `assignedTo` (home). */
+export async function countUndecidedAdjudications(db: Q, programId: string, opts: { assignedTo?: string } = {}): Promise<number> {
+  const q = db("assignments").where({ program_id: programId, kind: "adjudication" }).whereIn("state", ["open", "claimed"]);
+  if (opts.assignedTo) q.andWhere("assigned_to", opts.assignedTo);
+  const [r] = await q.count<{ c: string }[]>("* as c");
+  return Number(r.c);
+}

@@ -216,3 +216,15 @@ export const findExamWithApplication = (db: Q, programId: string, examId: string
       }
     | undefined
   >("e.id", "e.program_id", "e.sonographer_id", "e.code", "e.application_id", "e.performed_at", "e.setting", "e.status", "ap.code as app_code", "ap.name as app_name");
+
+/** How many of a sonographer's exams are in `status` (home counts). */
+export async function countOwnExams(db: Q, programId: string, sonographerId: string, status: string): Promise<number> {
+  const [r] = await db("exams").where({ program_id: programId, sonographer_id: sonographerId, status }).count<{ c: string }[]>("* as c");
+  return Number(r.c);
+}
+
+/** Exams of the program submitted and still waiting for their final result. */
+export async function countExamsAwaitingResult(db: Q, programId: string): Promise<number> {
+  const [r] = await db("exams").where("program_id", programId).whereIn("status", ["submitted", "in_review", "adjudication"]).count<{ c: string }[]>("* as c");
+  return Number(r.c);
+}

@@ -79,3 +79,14 @@ export async function revokeInvitation(db: Q, programId: string, id: string): Pr
 export async function acceptInvitation(db: Q, id: string): Promise<void> {
   await db("invitations").where("id", id).update({ accepted_at: db.fn.now() });
 }
+
+/** Invitations of the program still open (neither accepted nor revoked, not expired). */
+export async function countOpenInvitations(db: Q, programId: string): Promise<number> {
+  const [r] = await db("invitations")
+    .where("program_id", programId)
+    .whereNull("accepted_at")
+    .whereNull("revoked_at")
+    .andWhere("expires_at", ">", db.fn.now())
+    .count<{ c: string }[]>("* as c");
+  return Number(r.c);
+}

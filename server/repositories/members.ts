@@ -87,3 +87,22 @@ export async function isActiveReviewer(db: Q, programId: string, userId: string)
     .first("user_id");
   return Boolean(row);
 }
+
+/** Active members of the program holding `role`. */
+export async function countActiveWithRole(db: Q, programId: string, role: Role): Promise<number> {
+  const [r] = await db("memberships")
+    .where("program_id", programId)
+    .whereNull("deactivated_at")
+    .whereRaw("? = ANY(roles)", [role])
+    .count<{ c: string }[]>("* as c");
+  return Number(r.c);
+}
+
+/** Members of the program, active or deactivated. */
+export async function countMembers(db: Q, programId: string, which: "active" | "deactivated"): Promise<number> {
+  const q = db("memberships").where("program_id", programId);
+  if (which === "active") q.whereNull("deactivated_at");
+  else q.whereNotNull("deactivated_at");
+  const [r] = await q.count<{ c: string }[]>("* as c");
+  return Number(r.c);
+}

@@ -216,3 +216,13 @@ export function questionThreads(db: Q, programId: string, reviewerId: string | n
     { id: string; code: string; app_code: string; app_name: string; n: string | number; last_at: Date | string; last_from_sonographer: boolean | null }[]
   >;
 }
+
+/** Exams the reviewer read (a deciding read) whose thread ends with a question from the sonographer (home). */
+export async function countQuestionsAwaitingAnswer(db: Q, programId: string, reviewerId: string): Promise<number> {
+  const [r] = await db("exams as e")
+    .where("e.program_id", programId)
+    .whereExists(reviewerReads(db, reviewerId, "thread", db.ref("e.id")))
+    .whereRaw(`(SELECT m.author_id = e.sonographer_id FROM feedback_messages m WHERE m.exam_id = e.id ORDER BY m.created_at DESC, m.id DESC LIMIT 1) IS TRUE`)
+    .count<{ c: string }[]>("* as c");
+  return Number(r.c);
+}
