@@ -14,6 +14,11 @@ import { join } from "node:path";
 // (tests/lint/layering.test.ts checks the rule fires).
 const NO_QUERIES = "a route handler parses, calls a service and presents: put the query in server/repositories/ and the transaction in server/services/";
 
+// A route folder's schemas are gathered in its schema.ts (server-only ones defined there, the
+// client's re-exported from shared/schemas/); its router files import them from ./schema.
+const SCHEMAS_IN_FOLDER =
+  "a route file takes its schemas from its folder's schema.ts: define a server-only schema there, or re-export the shared one from shared/schemas/";
+
 // Features under src/features/ do not import each other, except another feature's public
 // entry (src/features/<f>/index.ts). One zone per folder found there, so a new or renamed
 // feature is covered without editing a list; src/app/ may import any feature.
@@ -67,8 +72,14 @@ export default tseslint.config(
       "@typescript-eslint/no-restricted-imports": [
         "error",
         {
-          paths: [{ name: "knex", message: NO_QUERIES, allowTypeImports: true }],
-          patterns: [{ group: ["**/db/knex"], message: NO_QUERIES, allowTypeImports: true }],
+          paths: [
+            { name: "knex", message: NO_QUERIES, allowTypeImports: true },
+            { name: "zod", message: SCHEMAS_IN_FOLDER },
+          ],
+          patterns: [
+            { group: ["**/db/knex"], message: NO_QUERIES, allowTypeImports: true },
+            { group: ["**/shared/schemas/*", "**/shared/rubric/types"], message: SCHEMAS_IN_FOLDER },
+          ],
         },
       ],
       "no-restricted-syntax": [
@@ -76,6 +87,19 @@ export default tseslint.config(
         { selector: "CallExpression[callee.name=/^(db|trx|knex)$/]", message: NO_QUERIES },
         { selector: "CallExpression[callee.type='MemberExpression'][callee.property.name=/^(db|trx)$/]", message: NO_QUERIES },
         { selector: "MemberExpression[property.name=/^(transaction|raw|fn)$/]", message: NO_QUERIES },
+      ],
+    },
+  },
+  {
+    // schema.ts is where a folder's schemas are written or re-exported.
+    files: ["server/routes/*/schema.ts"],
+    rules: {
+      "@typescript-eslint/no-restricted-imports": [
+        "error",
+        {
+          paths: [{ name: "knex", message: NO_QUERIES, allowTypeImports: true }],
+          patterns: [{ group: ["**/db/knex"], message: NO_QUERIES, allowTypeImports: true }],
+        },
       ],
     },
   },

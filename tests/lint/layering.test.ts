@@ -45,6 +45,39 @@ describe("no queries in server/routes/", () => {
   });
 });
 
+describe("a route folder's schemas live in its schema.ts", () => {
+  it("refuses zod and shared schemas in a router file", async () => {
+    const code = [
+      'import { z } from "zod";',
+      'import { idParamsSchema } from "../../../shared/schemas/common";',
+      'import { rubricInputSchema } from "../../../shared/rubric/types";',
+      "export const a = [z, idParamsSchema, rubricInputSchema];",
+    ].join("\n");
+    expect(await ruleHits(code, "server/routes/lint-probe/router.ts")).toEqual([1, 2, 3]);
+  });
+
+  it("lets schema.ts define and re-export them, and the router import ./schema", async () => {
+    const schema = ['import { z } from "zod";', 'export { idParamsSchema } from "../../../shared/schemas/common";', "export const q = z.object({});"].join(
+      "\n",
+    );
+    expect(await ruleHits(schema, "server/routes/lint-probe/schema.ts")).toEqual([]);
+    expect(await ruleHits('import { q } from "./schema";\nexport const a = q;', "server/routes/lint-probe/router.ts")).toEqual([]);
+  });
+
+  it("every route folder has its router.ts and schema.ts", () => {
+    const folders = readdirSync("server/routes", { withFileTypes: true }).filter((d) => d.isDirectory());
+    expect(folders.length).toBeGreaterThan(10);
+    for (const folder of folders) {
+      const files = readdirSync(join("server/routes", folder.name));
+      expect({ folder: folder.name, router: files.includes("router.ts"), schema: files.includes("schema.ts") }).toEqual({
+        folder: folder.name,
+        router: true,
+        schema: true,
+      });
+    }
+  });
+});
+
 describe("features do not import each other", () => {
   const BOUNDARY = "import-x/no-restricted-paths";
   const boundaryHits = async (lint: ESLint, code: string, filePath: string) => {

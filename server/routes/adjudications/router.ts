@@ -2,7 +2,7 @@
 // one is POST /exams/:id/adjudicate, in routes/exams/adjudicate.ts).
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { adjudicationListSchema } from "../../../shared/schemas/reviewing";
+import { adjudicationListSchema } from "./schema";
 import { openAdjudications } from "../../services/adjudications";
 import { presentAdjudication } from "../../presenters/reviewing";
 

@@ -1,7 +1,7 @@
 // The program's application catalogue with views and findings.
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { applicationListSchema } from "../../../shared/schemas/applications";
+import { applicationListSchema } from "./schema";
 import { programApplications } from "../../services/applications";
 
 export function registerApplicationRoutes(kit: RouteKit, { db }: RouteContext) {

@@ -2,9 +2,16 @@
 // submitting the review; and a QA lead handing a read to a chosen reviewer.
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { idParamsSchema } from "../../../shared/schemas/common";
-import { reassignSchema, reviewDraftSchema, submitReviewSchema } from "../../../shared/schemas/reviews";
-import { draftSavedSchema, reassignedSchema, reviewSubmittedSchema, workspaceSchema } from "../../../shared/schemas/reviewing";
+import {
+  draftSavedSchema,
+  idParamsSchema,
+  reassignedSchema,
+  reassignSchema,
+  reviewDraftSchema,
+  reviewSubmittedSchema,
+  submitReviewSchema,
+  workspaceSchema,
+} from "./schema";
 import { actorOf } from "../../services/actor";
 import { autosaveDraft, handRead, openWorkspace, release } from "../../services/queue";
 import { submitRead } from "../../services/reviews";

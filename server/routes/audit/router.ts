@@ -3,7 +3,7 @@ import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
 import { presentAuditEntry } from "../../presenters/audit";
 import { readAuditLog } from "../../services/audit-log";
-import { auditPageSchema, auditQuerySchema } from "../../../shared/schemas/users";
+import { auditPageSchema, auditQuerySchema } from "./schema";
 
 export function registerAuditRoutes(kit: RouteKit, { db }: RouteContext) {
   defineRoute(kit, {

@@ -3,9 +3,8 @@
 import type { RequestHandler } from "express";
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { acceptInvitationSchema, invitationPreviewSchema, loginResponseSchema } from "../../../shared/schemas/auth";
+import { acceptInvitationSchema, invitationPreviewSchema, invitationTokenParamsSchema, loginResponseSchema } from "./schema";
 import { acceptInvitation, previewInvitation } from "../../services/invitations";
-import { invitationTokenParamsSchema } from "./schema";
 
 export function registerInvitationRoutes(kit: RouteKit, { db, config }: RouteContext, limits: RequestHandler[]) {
   defineRoute(kit, {

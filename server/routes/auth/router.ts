@@ -3,15 +3,16 @@
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
 import {
-  myProgramsSchema,
-  programChoiceSchema,
   changePasswordSchema,
+  forgotAnswerSchema,
   forgotPasswordSchema,
   loginResponseSchema,
   loginSchema,
   meResponseSchema,
+  myProgramsSchema,
+  programChoiceSchema,
   resetPasswordSchema,
-} from "../../../shared/schemas/auth";
+} from "./schema";
 import { clearSessionCookie } from "../../auth/cookies";
 import { actorOf } from "../../services/actor";
 import { myPrograms, signIn, switchProgram } from "../../services/sign-in";
@@ -19,7 +20,6 @@ import { signOut } from "../../services/sign-out";
 import { changePassword, requestPasswordReset, resetPassword } from "../../services/passwords";
 import { authLimiters } from "./limits";
 import { registerInvitationRoutes } from "./invitations";
-import { forgotAnswerSchema } from "./schema";
 
 export function registerAuthRoutes(kit: RouteKit, ctx: RouteContext) {
   const { db, config, log } = ctx;

@@ -2,14 +2,14 @@
 // and reads the results (multi-rater agreement, each reviewer against the reference answers).
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { idParamsSchema } from "../../../shared/schemas/common";
 import {
   calibrationResultsSchema,
   calibrationSetCreatedSchema,
   calibrationSetListSchema,
   createCalibrationSetSchema,
+  idParamsSchema,
   referenceFormSchema,
-} from "../../../shared/schemas/calibration";
+} from "./schema";
 import { actorOf } from "../../services/actor";
 import { calibrationSetResults, calibrationSets, createCalibrationSet, referenceForm } from "../../services/calibration";
 

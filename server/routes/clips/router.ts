@@ -1,16 +1,14 @@
 // Clips: label and redact, remove, retry after a failure, and the authorized media route
 // (with Range) that the players use. Media is never a public folder. Uploads are a
 // sub-resource of their exam (routes/exams/clips.ts).
-import { z } from "zod";
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
 import { sendStored } from "../../http/range";
-import { idParamsSchema } from "../../../shared/schemas/common";
-import { clipResponseSchema, clipUpdateSchema } from "../../../shared/schemas/exams";
+import { clipMediaParamsSchema, clipResponseSchema, clipUpdateSchema, idParamsSchema } from "./schema";
 import { presentClip } from "../../presenters/exam";
 import { SERVED_MEDIA_TYPES } from "../../storage/keys";
 import { actorOf } from "../../services/actor";
-import { clipMedia, MEDIA_VARIANTS, removeClip, retryClip, updateClip } from "../../services/clips";
+import { clipMedia, removeClip, retryClip, updateClip } from "../../services/clips";
 
 export function registerClipRoutes(kit: RouteKit, ctx: RouteContext) {
   const { db, storage } = ctx;
@@ -63,7 +61,7 @@ export function registerClipRoutes(kit: RouteKit, ctx: RouteContext) {
     summary: "A clip's media (video, image, poster, strip, thumb) for those allowed to see the exam; supports Range",
     tag: "clips",
     access: "signed_in",
-    params: z.object({ id: z.uuid(), variant: z.enum(MEDIA_VARIANTS) }),
+    params: clipMediaParamsSchema,
     responses: {
       200: { description: "The bytes", file: SERVED_MEDIA_TYPES },
       206: { description: "Part of the bytes", file: SERVED_MEDIA_TYPES },

@@ -2,9 +2,7 @@
 // it was handed to (the list of open adjudications is GET /adjudications).
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { idParamsSchema } from "../../../shared/schemas/common";
-import { adjudicateSchema } from "../../../shared/schemas/reviews";
-import { adjudicatedSchema } from "../../../shared/schemas/reviewing";
+import { adjudicatedSchema, adjudicateSchema, idParamsSchema } from "./schema";
 import { actorOf } from "../../services/actor";
 import { adjudicate } from "../../services/reviews";
 

@@ -5,13 +5,12 @@ import crypto from "node:crypto";
 import fs from "node:fs";
 import fsp from "node:fs/promises";
 import multer from "multer";
-import { z } from "zod";
 import type { RequestHandler } from "express";
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
 import { HttpError } from "../../http/errors";
 import { unstorableReason } from "../../http/strings";
-import { clipUploadResponseSchema } from "../../../shared/schemas/exams";
+import { clipUploadResponseSchema, idParamsSchema } from "./schema";
 import { presentClip } from "../../presenters/exam";
 import type { ExamRow } from "../../policies/exam";
 import { actorOf } from "../../services/actor";
@@ -35,7 +34,7 @@ export function registerExamClipRoutes(kit: RouteKit, { db, storage, config, job
   // Authorize before a byte of the file is accepted.
   const authorizeUpload: RequestHandler = (req, res, next) => {
     const id = String(req.params.id);
-    if (!z.uuid().safeParse(id).success) return next(new HttpError(400, "validation_failed", "id: Invalid UUID"));
+    if (!idParamsSchema.safeParse({ id }).success) return next(new HttpError(400, "validation_failed", "id: Invalid UUID"));
     assertMayAddClip(deps, req.user as AuthUser, id)
       .then((exam) => {
         res.locals.exam = exam;

@@ -2,8 +2,7 @@
 // Accuracy): its sonographer or a QA lead reads and records them. Registered from ./router.ts.
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { idParamsSchema } from "../../../shared/schemas/common";
-import { confirmationsInputSchema, confirmationsSchema } from "../../../shared/schemas/progress";
+import { confirmationsInputSchema, confirmationsSchema, idParamsSchema } from "./schema";
 import { actorOf } from "../../services/actor";
 import { examConfirmations, saveConfirmations } from "../../services/confirmations";
 

@@ -2,9 +2,7 @@
 // (README "Review rules" → Feedback). Registered from ./router.ts.
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { idParamsSchema } from "../../../shared/schemas/common";
-import { messageInputSchema } from "../../../shared/schemas/reviews";
-import { acknowledgementSchema, messageThreadSchema, postedMessageSchema } from "../../../shared/schemas/feedback";
+import { acknowledgementSchema, idParamsSchema, messageInputSchema, messageThreadSchema, postedMessageSchema } from "./schema";
 import { actorOf } from "../../services/actor";
 import { acknowledgeFeedback } from "../../services/feedback";
 import { messageThread, postMessage } from "../../services/messages";

@@ -2,15 +2,15 @@
 // route under /exams is registered from here; sub-resources have their own file.
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { idParamsSchema } from "../../../shared/schemas/common";
 import {
   examCreateSchema,
   examListQuerySchema,
   examListResponseSchema,
   examResponseSchema,
   examUpdateSchema,
+  idParamsSchema,
   submitExamSchema,
-} from "../../../shared/schemas/exams";
+} from "./schema";
 import { presentExamListItem, presentExamView } from "../../presenters/exam";
 import { actorOf } from "../../services/actor";
 import { createExam, discardExam, examForViewer, listMyExams, submitExam, updateExam } from "../../services/exams";

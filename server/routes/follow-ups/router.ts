@@ -1,11 +1,8 @@
 // /follow-ups: clinically significant disagreements the QA lead follows up (for example a
 // patient callback), and moving one on with a note.
-import { z } from "zod";
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { idParamsSchema } from "../../../shared/schemas/common";
-import { followUpUpdateSchema } from "../../../shared/schemas/reviews";
-import { followUpListSchema, followUpStatusSchema, followUpUpdatedSchema } from "../../../shared/schemas/follow-ups";
+import { followUpListQuerySchema, followUpListSchema, followUpUpdatedSchema, followUpUpdateSchema, idParamsSchema } from "./schema";
 import { actorOf } from "../../services/actor";
 import { programFollowUps, updateFollowUp } from "../../services/follow-ups";
 
@@ -16,7 +13,7 @@ export function registerFollowUpRoutes(kit: RouteKit, { db }: RouteContext) {
     summary: "Clinically significant disagreements to follow up (for example a patient callback)",
     tag: "oversight",
     access: ["qa_lead"],
-    query: z.object({ status: followUpStatusSchema.optional() }),
+    query: followUpListQuerySchema,
     responses: { 200: { description: "Follow-ups", schema: followUpListSchema } },
     handler: async ({ user, query }) => ({ items: await programFollowUps(db, user.programId, query.status) }),
   });

@@ -1,7 +1,7 @@
 // /home: "what needs me now", per role the caller holds (services/home.ts).
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { homeSchema } from "../../../shared/schemas/home";
+import { homeSchema } from "./schema";
 import { homeOf } from "../../services/home";
 
 export function registerHomeRoutes(kit: RouteKit, { db }: RouteContext) {

@@ -2,9 +2,7 @@
 // their reviewed exams (README "Progress and credentialing", "Review rules" → Feedback).
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { idParamsSchema } from "../../../shared/schemas/common";
-import { progressQuerySchema, progressSchema } from "../../../shared/schemas/progress";
-import { feedbackListSchema, feedbackSchema } from "../../../shared/schemas/feedback";
+import { feedbackListSchema, feedbackSchema, idParamsSchema, progressQuerySchema, progressSchema } from "./schema";
 import { myProgress } from "../../services/progress";
 import { myFeedback, openFeedback } from "../../services/feedback";
 

@@ -1,7 +1,7 @@
 // The caller's in-app notifications (feedback ready, questions, answers).
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { markNotificationsReadSchema, notificationsSchema } from "../../../shared/schemas/feedback";
+import { markNotificationsReadSchema, notificationsSchema } from "./schema";
 import { markRead, myNotifications } from "../../services/notifications";
 
 export function registerNotificationRoutes(kit: RouteKit, { db }: RouteContext) {

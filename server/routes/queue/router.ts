@@ -1,8 +1,7 @@
 // The review queue: what waits and what I hold, and claiming the next exam ("Start next").
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { queueNextSchema } from "../../../shared/schemas/reviews";
-import { queueOverviewSchema, workspaceSchema } from "../../../shared/schemas/reviewing";
+import { queueNextSchema, queueOverviewSchema, workspaceSchema } from "./schema";
 import { actorOf } from "../../services/actor";
 import { queueOverview, startNext } from "../../services/queue";
 import { presentQueueOverview, presentWorkspace } from "../../presenters/reviewing";

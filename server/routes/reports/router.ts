@@ -3,8 +3,7 @@
 // (README "Progress and credentialing", "Report").
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { agreementReportQuerySchema, agreementReportSchema, programReportQuerySchema, programReportSchema } from "../../../shared/schemas/reports";
-import { credentialingReportQuerySchema } from "../../../shared/schemas/progress";
+import { agreementReportQuerySchema, agreementReportSchema, credentialingReportQuerySchema, programReportQuerySchema, programReportSchema } from "./schema";
 import { actorOf } from "../../services/actor";
 import { agreementReport, exportCredentialingReport, programReport } from "../../services/reports";
 

@@ -3,8 +3,7 @@
 // read it (blinded: never the sonographer). Answers go through POST /exams/:id/messages.
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { idParamsSchema } from "../../../shared/schemas/common";
-import { questionThreadListSchema, reviewedExamSchema } from "../../../shared/schemas/reviewing";
+import { idParamsSchema, questionThreadListSchema, reviewedExamSchema } from "./schema";
 import { questionThreadsFor, reviewedExam } from "../../services/reviewed-exams";
 import { presentQuestionThread, presentReviewedExam } from "../../presenters/reviewing";
 

@@ -2,9 +2,7 @@
 // program with progress and flags, and one sonographer's progress and feedback.
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { idParamsSchema } from "../../../shared/schemas/common";
-import { progressQuerySchema, progressSchema, rosterSchema } from "../../../shared/schemas/progress";
-import { feedbackListSchema } from "../../../shared/schemas/feedback";
+import { feedbackListSchema, idParamsSchema, progressQuerySchema, progressSchema, rosterSchema } from "./schema";
 import { roster, sonographerProgress } from "../../services/progress";
 import { sonographerFeedback } from "../../services/feedback";
 

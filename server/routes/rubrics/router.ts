@@ -3,9 +3,7 @@
 // changes a past score.
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { idParamsSchema } from "../../../shared/schemas/common";
-import { rubricInputSchema } from "../../../shared/rubric/types";
-import { rubricAnswerSchema, rubricListSchema } from "../../../shared/schemas/rubrics";
+import { idParamsSchema, rubricAnswerSchema, rubricInputSchema, rubricListSchema } from "./schema";
 import { actorOf } from "../../services/actor";
 import { archiveRubric, createRubric, programRubrics, publishRubric, rubricById, saveRubric } from "../../services/rubrics";
 

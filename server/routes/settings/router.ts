@@ -2,8 +2,7 @@
 // credit rule, learning-curve CUSUM), read and changed by a QA lead or an admin.
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { programSettingsUpdateSchema } from "../../../shared/schemas/reviews";
-import { settingsAnswerSchema } from "../../../shared/schemas/settings";
+import { programSettingsUpdateSchema, settingsAnswerSchema } from "./schema";
 import { actorOf } from "../../services/actor";
 import { programSettings, saveSettings } from "../../services/settings";
 

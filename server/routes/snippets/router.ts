@@ -1,9 +1,7 @@
 // /snippets: the program's reusable feedback snippets; reviewers read them, a QA lead keeps them.
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { idParamsSchema } from "../../../shared/schemas/common";
-import { snippetInputSchema } from "../../../shared/schemas/reviews";
-import { snippetAnswerSchema, snippetListSchema } from "../../../shared/schemas/settings";
+import { idParamsSchema, snippetAnswerSchema, snippetInputSchema, snippetListSchema } from "./schema";
 import { actorOf } from "../../services/actor";
 import { addSnippet, programSnippets, removeSnippet } from "../../services/snippets";
 

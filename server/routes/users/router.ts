@@ -2,15 +2,7 @@
 // caller's program; another program's user answers 404.
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { idParamsSchema } from "../../../shared/schemas/common";
-import {
-  invitationAnswerSchema,
-  invitationListSchema,
-  inviteSchema,
-  memberAnswerSchema,
-  memberListSchema,
-  updateRolesSchema,
-} from "../../../shared/schemas/users";
+import { idParamsSchema, invitationAnswerSchema, invitationListSchema, inviteSchema, memberAnswerSchema, memberListSchema, updateRolesSchema } from "./schema";
 import { actorOf } from "../../services/actor";
 import { invite, programInvitations, withdrawInvitation } from "../../services/invitations";
 import { changeRoles, programMembers, setMemberActive } from "../../services/members";

@@ -1,0 +1,4 @@
+// The schemas the reviews routes parse and answer with. Those the client also uses are
+// defined in shared/schemas/ and re-exported here; server-only ones are defined here.
+export { idParamsSchema } from "../../../shared/schemas/common";
+export { questionThreadListSchema, reviewedExamSchema } from "../../../shared/schemas/reviewing";

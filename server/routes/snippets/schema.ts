@@ -1,0 +1,5 @@
+// The schemas the snippets routes parse and answer with. Those the client also uses are
+// defined in shared/schemas/ and re-exported here; server-only ones are defined here.
+export { idParamsSchema } from "../../../shared/schemas/common";
+export { snippetInputSchema } from "../../../shared/schemas/reviews";
+export { snippetAnswerSchema, snippetListSchema } from "../../../shared/schemas/settings";
