@@ -22,6 +22,7 @@ import {
   markClipProcessing,
   markClipReady,
   originalOfSubmittedClip,
+  touchProcessingClip,
 } from "../repositories/clips";
 
 export interface ClipJobContext {
@@ -30,6 +31,11 @@ export interface ClipJobContext {
   /** When "delete_on_submit", an original is dropped once its exam is submitted and the clip is done. */
   originalRetention?: "delete_on_submit" | "keep";
   log?: (e: unknown) => void;
+  /**
+   * How often a running job says it is alive (touches the clip), so the stuck-clip sweep does
+   * not send a clip again while its job is still transcoding; below the sweep's threshold.
+   */
+  heartbeatSeconds?: number;
 }
 
 export interface Attempt {
@@ -61,6 +67,10 @@ export async function processClipJob(ctx: ClipJobContext, job: ClipJob, attempt:
     return "skipped";
   }
   await markClipProcessing(ctx.db, clip.id, job.version);
+  const heartbeat = ctx.heartbeatSeconds
+    ? setInterval(() => void touchProcessingClip(ctx.db, clip.id, job.version).catch(() => undefined), ctx.heartbeatSeconds * 1000)
+    : undefined;
+  heartbeat?.unref();
 
   const work = await fsp.mkdtemp(path.join(os.tmpdir(), "soundings-clip-"));
   try {
@@ -118,6 +128,7 @@ export async function processClipJob(ctx: ClipJobContext, job: ClipJob, attempt:
     else await markClipAwaitingRetry(ctx.db, clip.id, job.version);
     throw err;
   } finally {
+    clearInterval(heartbeat);
     await fsp.rm(work, { recursive: true, force: true });
   }
 }

@@ -1,5 +1,6 @@
 // A media worker: takes clip jobs from the shared queue, and sweeps for clips whose
-// processing was lost (a worker killed mid-job) so they are sent again.
+// processing was lost (a worker killed mid-job) so they are sent again. A job at work touches
+// its clip every quarter of the sweep's threshold, so only a lost job's clip looks stuck.
 import type PgBoss from "pg-boss";
 import type { Db } from "../db/knex";
 import type { Storage } from "../storage/types";
@@ -33,7 +34,8 @@ export async function startMediaWorker(deps: { db: Db; storage: Storage; config:
     { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 },
     async (jobs: PgBoss.JobWithMetadata<ClipJob>[]) => {
       for (const job of jobs) {
-        await processClipJob({ db, storage, log, originalRetention: config.originalRetention }, job.data, {
+        const heartbeatSeconds = Math.max(0.25, Math.min(60, config.jobs.stuckAfterSeconds / 4));
+        await processClipJob({ db, storage, log, originalRetention: config.originalRetention, heartbeatSeconds }, job.data, {
           retryCount: job.retryCount,
           retryLimit: job.retryLimit,
         });

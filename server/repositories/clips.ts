@@ -186,6 +186,10 @@ export const markClipProcessing = (db: Q, clipId: string, version: number) =>
     .where({ id: clipId, process_version: version })
     .update({ state: "processing", attempts: db.raw("attempts + 1"), updated_at: db.fn.now() });
 
+/** The job is still at work on the clip (a heartbeat): the stuck-clip sweep leaves it alone. */
+export const touchProcessingClip = (db: Q, clipId: string, version: number) =>
+  db("clips").where({ id: clipId, process_version: version, state: "processing" }).update({ updated_at: db.fn.now() });
+
 /** Processing finished: the new outputs and metadata, ready. Returns how many rows changed (0 = superseded). */
 export const markClipReady = (db: Q, clipId: string, version: number, outputs: Record<string, unknown>): Promise<number> =>
   db("clips")

@@ -5,8 +5,11 @@ import { spawn } from "node:child_process";
 import fs from "node:fs";
 import request from "supertest";
 import { makeKit, makeMember, makeProgram, tokenFor, type TestKit } from "./helpers";
-import { fixtureDir, mpeg4Avi } from "./media-fixtures";
+import { fixtureDir, h264Mp4, mpeg4Avi } from "./media-fixtures";
 import { startMediaWorker } from "../../server/jobs/worker";
+import { processClipJob } from "../../server/jobs/process-clip";
+import { requeueStuckClips } from "../../server/repositories/clips";
+import type { Storage } from "../../server/storage/types";
 
 let kit: TestKit;
 beforeAll(() => {
@@ -58,4 +61,48 @@ describe("worker crash", () => {
       fs.rmSync(dir, { recursive: true, force: true });
     }
   }, 240_000);
+});
+
+describe("a job at work keeps its clip from looking stuck", () => {
+  // The job is held inside its download (a gate), so it is 'processing' for as long as the
+  // test wants, whatever the machine's speed; the sweep's threshold is 1 s.
+  async function heldJob(heartbeatSeconds: number | undefined) {
+    const p = await makeProgram(kit.db);
+    const m = await makeMember(kit.db, p.id, ["sonographer"]);
+    const auth = `Bearer ${await tokenFor(kit, m)}`;
+    const exam = (
+      await request(kit.app)
+        .post("/api/exams")
+        .set("Authorization", auth)
+        .send({ applicationCode: "efast", performedAt: new Date(Date.now() - 60_000).toISOString(), setting: "simulated", transducer: "curvilinear" })
+    ).body.exam;
+    const dir = fixtureDir();
+    const up = await request(kit.app)
+      .post(`/api/exams/${exam.id}/clips`)
+      .set("Authorization", auth)
+      .attach("file", h264Mp4(dir, "short.mp4", { seconds: 1 }));
+    expect(up.status).toBe(202);
+    let open!: () => void;
+    const gate = new Promise<void>((r) => (open = r));
+    const storage: Storage = { ...kit.storage, download: async (key, to) => (await gate, kit.storage.download(key, to)) };
+    const done = processClipJob({ db: kit.db, storage, heartbeatSeconds }, { clipId: up.body.id, version: 1 }, { retryCount: 0, retryLimit: 0 });
+    const state = async () => (await kit.db("clips").where("id", up.body.id).first()).state as string;
+    for (let i = 0; i < 100 && (await state()) !== "processing"; i++) await new Promise((r) => setTimeout(r, 50));
+    expect(await state()).toBe("processing");
+    await new Promise((r) => setTimeout(r, 1600));
+    const swept = (await requeueStuckClips(kit.db, 1)).map((c) => c.id);
+    const after = await state();
+    open();
+    await done;
+    fs.rmSync(dir, { recursive: true, force: true });
+    return { swept: swept.includes(up.body.id), after, final: await state() };
+  }
+
+  it("with a heartbeat, the sweep leaves a clip whose job is still running", async () => {
+    expect(await heldJob(0.25)).toEqual({ swept: false, after: "processing", final: "ready" });
+  }, 60_000);
+
+  it("without one, the same clip would be sent again (what the heartbeat prevents)", async () => {
+    expect(await heldJob(undefined)).toMatchObject({ swept: true, after: "queued" });
+  }, 60_000);
 });
