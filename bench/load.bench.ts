@@ -15,7 +15,8 @@ import { loadConfig } from "../server/config";
 import { buildApp } from "../server/app";
 import { seedQueueProgram } from "./queue-program";
 import { createLocalStorage } from "../server/storage/local";
-import { processedKey } from "../server/storage/keys";
+import { originalKey, processedKey } from "../server/storage/keys";
+import { insertClip, markClipReady } from "../server/repositories/clips";
 
 const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 100);
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 30);
@@ -35,19 +36,20 @@ try {
   const videoKey = processedKey(program.id, clipId, 1, "video.mp4");
   fs.mkdirSync(path.dirname(path.join(storageDir, videoKey)), { recursive: true });
   fs.writeFileSync(path.join(storageDir, videoKey), crypto.randomBytes(4 << 20));
-  await db("clips").insert({
+  await insertClip(db, {
     id: clipId,
-    exam_id: exams[0].id,
-    program_id: program.id,
+    examId: exams[0].id,
+    programId: program.id,
+    view: null,
     kind: "video",
-    state: "ready",
+    originalName: "load.mp4",
+    originalKey: originalKey(program.id, clipId),
     sha256: crypto.randomBytes(32).toString("hex"),
-    size_bytes: 4 << 20,
+    sizeBytes: 4 << 20,
     mime: "video/mp4",
-    output_key: videoKey,
-    poster_key: videoKey,
-    processed_version: 1,
+    position: 0,
   });
+  await markClipReady(db, clipId, 1, { output_key: videoKey, poster_key: videoKey });
 
   const { app: server } = buildApp({
     db,

@@ -5,7 +5,8 @@ import path from "node:path";
 import { pipeline } from "node:stream/promises";
 import { assertSafeKey, type Storage } from "./types";
 
-export function createLocalStorage(root: string): Storage {
+export function createLocalStorage(rootDir: string): Storage {
+  const root = path.resolve(rootDir);
   const file = (key: string) => {
     assertSafeKey(key);
     return path.join(root, key);
@@ -14,11 +15,19 @@ export function createLocalStorage(root: string): Storage {
     driver: "local",
     async put(key, sourcePath) {
       const dest = file(key);
-      await fsp.mkdir(path.dirname(dest), { recursive: true });
-      // Write beside, then rename: a reader never sees half a file.
+      // Write beside, then rename: a reader never sees half a file. A delete emptying the same
+      // folders at that moment may remove one just made: make it again once.
       const tmp = `${dest}.part-${process.pid}-${Date.now()}`;
-      await fsp.copyFile(sourcePath, tmp);
-      await fsp.rename(tmp, dest);
+      for (let tries = 0; ; tries++) {
+        try {
+          await fsp.mkdir(path.dirname(dest), { recursive: true });
+          await fsp.copyFile(sourcePath, tmp);
+          await fsp.rename(tmp, dest);
+          return;
+        } catch (err) {
+          if ((err as NodeJS.ErrnoException).code !== "ENOENT" || tries > 0 || !fs.existsSync(sourcePath)) throw err;
+        }
+      }
     },
     async get(key, range) {
       const f = file(key);
@@ -36,7 +45,17 @@ export function createLocalStorage(root: string): Storage {
       await pipeline(fs.createReadStream(file(key)), fs.createWriteStream(destPath));
     },
     async delete(key) {
-      await fsp.rm(file(key), { force: true });
+      const f = file(key);
+      await fsp.rm(f, { force: true });
+      // Folders exist only for their files (as with object storage): remove the ones this
+      // emptied, up to the root, so a refused upload leaves no empty clips/<id>/ behind.
+      for (let dir = path.dirname(f); dir.startsWith(root + path.sep) && dir !== root; dir = path.dirname(dir)) {
+        try {
+          await fsp.rmdir(dir);
+        } catch {
+          break; // not empty (or already gone): the folders above are in use
+        }
+      }
     },
   };
 }

@@ -18,6 +18,8 @@ import { DEFAULT_CATALOGUE } from "../../shared/catalogue";
 import { createStorage } from "../../server/storage";
 import { createJobQueue, type JobQueue } from "../../server/jobs/queue";
 import type { Storage } from "../../server/storage/types";
+import { originalKey, processedKey } from "../../server/storage/keys";
+import { forgetClipOriginal, insertClip, markClipFailed, markClipReady, nextClipPosition } from "../../server/repositories/clips";
 import type { Role } from "../../shared/roles";
 
 export const TEST_PASSWORD = "correct-horse-battery-7";
@@ -170,33 +172,34 @@ export async function makeExam(db: Db, programId: string, sonographerId: string,
 
 /** A clip row; a "ready" one gets a small stored poster and video so media routes answer. */
 export async function makeClip(kit: TestKit, exam: { id: string; program_id: string }, state: "queued" | "ready" | "failed" = "queued") {
+  // Through the clip repository's own insert and transitions, with keys from storage/keys.ts;
+  // no original is kept (its key is forgotten), and a ready clip's outputs are 10 bytes each.
   const id = crypto.randomUUID();
-  const row: Record<string, unknown> = {
+  await insertClip(kit.db, {
     id,
-    exam_id: exam.id,
-    program_id: exam.program_id,
+    examId: exam.id,
+    programId: exam.program_id,
+    view: null,
     kind: "video",
-    state,
+    originalName: "clip.mp4",
+    originalKey: originalKey(exam.program_id, id),
     sha256: crypto.randomBytes(32).toString("hex"),
-    size_bytes: 10,
+    sizeBytes: 10,
     mime: "video/mp4",
-    error: state === "failed" ? "test failure" : null,
-  };
+    position: await nextClipPosition(kit.db, exam.id),
+  });
+  await forgetClipOriginal(kit.db, id);
+  if (state === "failed") await markClipFailed(kit.db, id, 1, "test failure");
   if (state === "ready") {
     const fs = await import("node:fs");
     const os = await import("node:os");
     const path = await import("node:path");
     const tmp = path.join(os.tmpdir(), `soundings-fake-${id}`);
     fs.writeFileSync(tmp, Buffer.from("0123456789"));
-    for (const name of ["video.mp4", "poster.jpg"])
-      await kit.storage.put(`programs/${exam.program_id}/clips/${id}/v1/${name}`, tmp, "application/octet-stream");
+    const outputs = { output_key: processedKey(exam.program_id, id, 1, "video.mp4"), poster_key: processedKey(exam.program_id, id, 1, "poster.jpg") };
+    for (const key of Object.values(outputs)) await kit.storage.put(key, tmp, "application/octet-stream");
     fs.rmSync(tmp);
-    Object.assign(row, {
-      output_key: `programs/${exam.program_id}/clips/${id}/v1/video.mp4`,
-      poster_key: `programs/${exam.program_id}/clips/${id}/v1/poster.jpg`,
-      processed_version: 1,
-    });
+    await markClipReady(kit.db, id, 1, outputs);
   }
-  await kit.db("clips").insert(row);
   return { id };
 }

@@ -169,6 +169,8 @@ describe("a storage that fails while storing", () => {
       expect(res.body.error.message).toMatch(/^file: /);
       expect(await clipCount(failing, exam.id)).toBe(0);
       expect(storedFor(failing, programId)).toEqual([]);
+      // Nor an empty clips/<id>/ folder: the program's folder holds nothing, so it is gone.
+      expect(fs.existsSync(path.join(failing.config.storageDir, "programs", programId))).toBe(false);
       expect(filesUnder(failing.config.uploads.tempDir)).toEqual([]);
     } finally {
       await failing.close();
