@@ -15,6 +15,3 @@ export function formatDate(iso: string | null | undefined): string {
   const d = new Date(iso);
   return Number.isNaN(d.getTime()) ? "—" : dateOnly.format(d);
 }
-
-// Counts moved to stat-format.ts; features/reviewing still imports formatCount from here.
-export { formatCount } from "./stat-format";

@@ -11,7 +11,7 @@ import type { Criterion, ScoreValue } from "../../../../shared/rubric/types";
 import { Button } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { FieldError } from "../../../components/ui/text-field";
-import { fieldErrors } from "../../../lib/api-errors";
+import { errorMessage, fieldErrors } from "../../../lib/api-errors";
 import { READ_LABELS } from "../../../lib/catalogue";
 import type { AdjudicateBody, Adjudication } from "../api/oversight";
 
@@ -19,6 +19,22 @@ type FormValues = { scores: Record<string, string>; reads: Record<string, Findin
 
 const th = "px-3 py-2 font-semibold";
 const td = "px-3 py-2 align-top";
+const finalSelect = "block w-full rounded-md border border-slate-400 bg-white px-2 py-1 text-sm focus-visible:outline-2 focus-visible:outline-sea-600";
+
+/** The head row both comparison tables share: their own first columns, then Reads and Final. */
+function ComparisonHead({ columns }: { columns: string[] }) {
+  return (
+    <thead className="border-y border-slate-200 bg-paper-200 text-xs uppercase tracking-wide text-slate-700">
+      <tr>
+        {[...columns, "Reads", "Final"].map((c) => (
+          <th key={c} scope="col" className={th}>
+            {c}
+          </th>
+        ))}
+      </tr>
+    </thead>
+  );
+}
 
 function scoreWords(c: Criterion, v: ScoreValue | undefined): string {
   if (v === undefined || v === null || v === "") return "—";
@@ -106,25 +122,7 @@ export function AdjudicationForm({ item, findings, sonographerReads, busy, error
         <div className="mt-3 overflow-x-auto">
           <table className="w-full text-left text-sm">
             <caption className="sr-only">Both reads per criterion and the final score</caption>
-            <thead className="border-y border-slate-200 bg-paper-200 text-xs uppercase tracking-wide text-slate-700">
-              <tr>
-                <th scope="col" className={th}>
-                  Criterion
-                </th>
-                <th scope="col" className={th}>
-                  Primary · {primary?.reviewer ?? "—"}
-                </th>
-                <th scope="col" className={th}>
-                  Second · {second?.reviewer ?? "—"}
-                </th>
-                <th scope="col" className={th}>
-                  Reads
-                </th>
-                <th scope="col" className={th}>
-                  Final
-                </th>
-              </tr>
-            </thead>
+            <ComparisonHead columns={["Criterion", `Primary · ${primary?.reviewer ?? "—"}`, `Second · ${second?.reviewer ?? "—"}`]} />
             <tbody className="divide-y divide-slate-100">
               {criteria.map((c) => {
                 const d = differs.has(c.key);
@@ -162,7 +160,7 @@ export function AdjudicationForm({ item, findings, sonographerReads, busy, error
                           id={id}
                           aria-invalid={message ? true : undefined}
                           aria-describedby={`${id}-error`}
-                          className="block w-full rounded-md border border-slate-400 bg-white px-2 py-1 text-sm focus-visible:outline-2 focus-visible:outline-sea-600"
+                          className={finalSelect}
                           {...form.register(`scores.${c.key}`)}
                         >
                           <option value="">{c.required ? "Choose…" : "Not scored"}</option>
@@ -196,28 +194,7 @@ export function AdjudicationForm({ item, findings, sonographerReads, busy, error
           <div className="mt-3 overflow-x-auto">
             <table className="w-full text-left text-sm">
               <caption className="sr-only">The sonographer&apos;s read, both reviewers&apos; reads and the final read of each finding</caption>
-              <thead className="border-y border-slate-200 bg-paper-200 text-xs uppercase tracking-wide text-slate-700">
-                <tr>
-                  <th scope="col" className={th}>
-                    Finding
-                  </th>
-                  <th scope="col" className={th}>
-                    Sonographer
-                  </th>
-                  <th scope="col" className={th}>
-                    Primary
-                  </th>
-                  <th scope="col" className={th}>
-                    Second
-                  </th>
-                  <th scope="col" className={th}>
-                    Reads
-                  </th>
-                  <th scope="col" className={th}>
-                    Final
-                  </th>
-                </tr>
-              </thead>
+              <ComparisonHead columns={["Finding", "Sonographer", "Primary", "Second"]} />
               <tbody className="divide-y divide-slate-100">
                 {findings.map((f) => {
                   const d = differs.has(`read.${f.key}`);
@@ -243,7 +220,7 @@ export function AdjudicationForm({ item, findings, sonographerReads, busy, error
                           id={id}
                           aria-invalid={message ? true : undefined}
                           aria-describedby={`${id}-error`}
-                          className="block w-full rounded-md border border-slate-400 bg-white px-2 py-1 text-sm focus-visible:outline-2 focus-visible:outline-sea-600"
+                          className={finalSelect}
                           {...form.register(`reads.${f.key}`)}
                         >
                           <option value="">Choose…</option>
@@ -283,7 +260,7 @@ export function AdjudicationForm({ item, findings, sonographerReads, busy, error
           {...form.register("note")}
         />
         <div className="mt-3">
-          <FormMessage message={error instanceof Error ? error.message : null} />
+          <FormMessage message={error ? errorMessage(error, "The final result was not saved; try again.") : null} />
         </div>
         <div className="mt-3 flex justify-end">
           <Button type="submit" busy={busy}>

@@ -3,7 +3,7 @@
 import type { WaitingGroup } from "../api/workspace";
 import { SETTING_LABELS } from "../../../lib/catalogue";
 import { formatWaited } from "../../../lib/duration";
-import { formatCount } from "../../../lib/format";
+import { formatCount } from "../../../lib/stat-format";
 
 const SETTING_ORDER = { clinical: 0, educational: 1, simulated: 2 } as const;
 

@@ -4,7 +4,7 @@
 // While the server is unreachable or answers 503 the draft stays on screen and is sent
 // again with a doubling delay ("waiting"), until it is saved.
 import { useCallback, useEffect, useRef, useState } from "react";
-import { isApiError } from "../../../lib/api-errors";
+import { isApiError, errorMessage } from "../../../lib/api-errors";
 import { isTransientError, retryDelayMs } from "../../../lib/retry";
 import { saveDraft, saveDraftOnExit, type DraftBody } from "../api/scoring";
 
@@ -51,16 +51,16 @@ export function useDraftAutosave(assignmentId: string, body: () => DraftBody, ve
       if (stopped.current) return;
       if (isApiError(error, 409) || isApiError(error, 404)) {
         stopped.current = true;
-        setState({ kind: "lost", message: error instanceof Error ? error.message : "You no longer hold this exam." });
+        setState({ kind: "lost", message: errorMessage(error, "You no longer hold this exam.") });
       } else if (isTransientError(error)) {
         // Not the draft's fault: keep it and try again later (a newer change saves sooner).
         dirty.current = true;
         const delay = retryDelayMs(retries.current++);
-        setState({ kind: "waiting", message: error instanceof Error ? error.message : "The server is not reachable.", retryAt: Date.now() + delay });
+        setState({ kind: "waiting", message: errorMessage(error, "The server is not reachable."), retryAt: Date.now() + delay });
         timer.current = window.setTimeout(() => retryLater.current(), delay);
       } else {
         dirty.current = true;
-        setState({ kind: "failed", message: error instanceof Error ? error.message : "The draft could not be saved." });
+        setState({ kind: "failed", message: errorMessage(error, "The draft could not be saved.") });
       }
     }
   }, [assignmentId]);

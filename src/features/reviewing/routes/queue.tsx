@@ -13,7 +13,7 @@ import { SelectField } from "../../../components/ui/select-field";
 import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
 import { applicationsQuery } from "../../../lib/catalogue";
 import { formatWaited } from "../../../lib/duration";
-import { formatCount } from "../../../lib/format";
+import { formatCount } from "../../../lib/stat-format";
 import { hasCommandModifier, isTypingTarget } from "../../../lib/keyboard";
 import { queryString } from "../../../lib/query-string";
 import { useNow } from "../../../lib/use-now";
