@@ -17,24 +17,27 @@ beforeAll(() => {
 });
 afterAll(() => kit.close());
 
+/** A new sonographer's exam with one uploaded clip, left queued (no worker takes this schema's jobs yet). */
+async function uploadClip(file: (dir: string) => string, dir: string) {
+  const p = await makeProgram(kit.db);
+  const m = await makeMember(kit.db, p.id, ["sonographer"]);
+  const auth = `Bearer ${await tokenFor(kit, m)}`;
+  const exam = (
+    await request(kit.app)
+      .post("/api/exams")
+      .set("Authorization", auth)
+      .send({ applicationCode: "efast", performedAt: new Date(Date.now() - 60_000).toISOString(), setting: "simulated", transducer: "curvilinear" })
+  ).body.exam;
+  const up = await request(kit.app).post(`/api/exams/${exam.id}/clips`).set("Authorization", auth).attach("file", file(dir));
+  expect(up.status).toBe(202);
+  return up;
+}
+
 describe("worker crash", () => {
   it("finishes a clip whose worker was killed mid-job", async () => {
-    const p = await makeProgram(kit.db);
-    const m = await makeMember(kit.db, p.id, ["sonographer"]);
-    const auth = `Bearer ${await tokenFor(kit, m)}`;
-    const exam = (
-      await request(kit.app)
-        .post("/api/exams")
-        .set("Authorization", auth)
-        .send({ applicationCode: "efast", performedAt: new Date(Date.now() - 60_000).toISOString(), setting: "simulated", transducer: "curvilinear" })
-    ).body.exam;
     const dir = fixtureDir();
     // Big enough that the transcode is still running when the worker is killed.
-    const up = await request(kit.app)
-      .post(`/api/exams/${exam.id}/clips`)
-      .set("Authorization", auth)
-      .attach("file", mpeg4Avi(dir, "long.avi", { seconds: 12, size: "1280x720" }));
-    expect(up.status).toBe(202);
+    const up = await uploadClip((d) => mpeg4Avi(d, "long.avi", { seconds: 12, size: "1280x720" }), dir);
 
     const child = spawn(process.execPath, ["--import", "tsx", "server/worker.ts"], {
       env: { ...process.env, NODE_ENV: "test", JOB_SCHEMA: "pgboss_crashtest", JOB_STUCK_AFTER_SECONDS: "3600" },
@@ -67,21 +70,8 @@ describe("a job at work keeps its clip from looking stuck", () => {
   // The job is held inside its download (a gate), so it is 'processing' for as long as the
   // test wants, whatever the machine's speed; the sweep's threshold is 1 s.
   async function heldJob(heartbeatSeconds: number | undefined) {
-    const p = await makeProgram(kit.db);
-    const m = await makeMember(kit.db, p.id, ["sonographer"]);
-    const auth = `Bearer ${await tokenFor(kit, m)}`;
-    const exam = (
-      await request(kit.app)
-        .post("/api/exams")
-        .set("Authorization", auth)
-        .send({ applicationCode: "efast", performedAt: new Date(Date.now() - 60_000).toISOString(), setting: "simulated", transducer: "curvilinear" })
-    ).body.exam;
     const dir = fixtureDir();
-    const up = await request(kit.app)
-      .post(`/api/exams/${exam.id}/clips`)
-      .set("Authorization", auth)
-      .attach("file", h264Mp4(dir, "short.mp4", { seconds: 1 }));
-    expect(up.status).toBe(202);
+    const up = await uploadClip((d) => h264Mp4(d, "short.mp4", { seconds: 1 }), dir);
     let open!: () => void;
     const gate = new Promise<void>((r) => (open = r));
     const storage: Storage = { ...kit.storage, download: async (key, to) => (await gate, kit.storage.download(key, to)) };
