@@ -26,6 +26,7 @@ export async function startMediaWorker(deps: { db: Db; storage: Storage; config:
   const { db, storage, config, queue } = deps;
   const log = deps.log ?? defaultLog;
   const sweep = () => sweepStuckClips(db, queue, config.jobs.stuckAfterSeconds);
+  const heartbeatSeconds = Math.max(0.25, Math.min(60, config.jobs.stuckAfterSeconds / 4));
   await sweep();
   const timer = setInterval(() => void sweep().catch(log), Math.max(5, Math.min(60, config.jobs.stuckAfterSeconds)) * 1000);
   timer.unref();
@@ -34,7 +35,6 @@ export async function startMediaWorker(deps: { db: Db; storage: Storage; config:
     { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 },
     async (jobs: PgBoss.JobWithMetadata<ClipJob>[]) => {
       for (const job of jobs) {
-        const heartbeatSeconds = Math.max(0.25, Math.min(60, config.jobs.stuckAfterSeconds / 4));
         await processClipJob({ db, storage, log, originalRetention: config.originalRetention, heartbeatSeconds }, job.data, {
           retryCount: job.retryCount,
           retryLimit: job.retryLimit,
