@@ -3,7 +3,8 @@
 // the sonographer's own reads, and never another reviewer's scores.
 import type { Rubric } from "../../shared/rubric/types";
 import { criteriaFor } from "../../shared/rubric/logic";
-import { presentClip, type ClipRow } from "./exam";
+import { guideOf, presentClip, type ClipRow } from "./exam";
+import type { Orientation } from "../../shared/catalogue";
 
 export interface AssignmentRow {
   id: string;
@@ -36,11 +37,15 @@ export function presentBlindedExam(p: {
     indication: string;
     app_code: string;
     app_name: string;
+    application_id: string;
+    app_version: number;
+    app_orientation: Orientation;
+    app_cautions: string[];
     sonographer_name: string;
   };
   clips: ClipRow[];
   views: { key: string; label: string }[];
-  findings: { key: string; label: string }[];
+  findings: { key: string; label: string; hint: string }[];
   blindSonographer: boolean;
 }) {
   const e = p.exam;
@@ -55,6 +60,7 @@ export function presentBlindedExam(p: {
     indication: e.indication,
     views: p.views,
     findings: p.findings,
+    guide: guideOf(e),
     sonographer: p.blindSonographer ? null : { name: e.sonographer_name },
     clips: p.clips.filter((c) => c.state === "ready").map((c) => presentClip(c, { forOwner: false })),
   };

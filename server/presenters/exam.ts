@@ -1,7 +1,8 @@
 // What an exam looks like to its viewer. Whether the sonographer is named is decided here,
 // once, from the policy (blinded reviewers will get a code and never a name or id).
 import type { Clip, Exam, ExamListItem } from "../../shared/schemas/exams";
-import type { FindingRead } from "../../shared/catalogue";
+import type { FindingRead, Orientation } from "../../shared/catalogue";
+import type { ApplicationGuide } from "../../shared/schemas/applications";
 
 export interface ClipRow {
   id: string;
@@ -57,6 +58,14 @@ export function presentClip(c: ClipRow, opts: { forOwner: boolean }): Clip {
   };
 }
 
+/** The exam's application version's version, orientation convention and cautions. */
+export const guideOf = (e: { application_id: string; app_version: number; app_orientation: Orientation; app_cautions: string[] }): ApplicationGuide => ({
+  applicationId: e.application_id,
+  version: e.app_version,
+  orientation: e.app_orientation,
+  cautions: e.app_cautions,
+});
+
 export interface ExamDetailRow {
   id: string;
   program_id: string;
@@ -64,6 +73,10 @@ export interface ExamDetailRow {
   status: Exam["status"];
   app_code: string;
   app_name: string;
+  application_id: string;
+  app_version: number;
+  app_orientation: Orientation;
+  app_cautions: string[];
   performed_at: Date;
   setting: Exam["setting"];
   transducer: Exam["transducer"];
@@ -87,6 +100,7 @@ export function presentExam(
     code: e.code,
     status: e.status,
     application: { code: e.app_code, name: e.app_name },
+    guide: guideOf(e),
     performedAt: e.performed_at.toISOString(),
     setting: e.setting,
     transducer: e.transducer,

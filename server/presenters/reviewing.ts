@@ -65,6 +65,7 @@ export function presentAdjudication(r: OpenAdjudication): Adjudication {
     examCode: r.code,
     setting: r.setting as Adjudication["setting"],
     application: { code: r.app_code, name: r.app_name },
+    applicationId: r.application_id,
     assignedTo: r.assigned_to,
     rubric: r.rubric ? { id: r.rubric.id, version: r.rubric.version, criteria: r.rubric.criteria } : null,
     reads: r.reads.map((x) => ({

@@ -210,6 +210,7 @@ export function listUndecidedAdjudications(db: Q, programId: string, opts: { ass
       "a.assigned_to",
       "e.code",
       "e.setting",
+      "e.application_id",
       "ap.code as app_code",
       "ap.name as app_name",
     ) as Promise<
@@ -220,6 +221,7 @@ export function listUndecidedAdjudications(db: Q, programId: string, opts: { ass
       assigned_to: string | null;
       code: string;
       setting: string;
+      application_id: string;
       app_code: string;
       app_name: string;
     }[]

@@ -26,9 +26,9 @@ export const findExam = (db: Q, programId: string, id: string) =>
 /** The exam, locked for the rest of the transaction (changes to one exam are serialised). */
 export const lockExam = (trx: Q, programId: string, id: string) => findExam(trx, programId, id).forUpdate();
 
-/** An active application of the program by its code. */
+/** The published version of an active application of the program, by its code (new and edited exams are recorded under it). */
 export const findActiveApplication = (db: Q, programId: string, code: string) =>
-  db("applications").where({ program_id: programId, code, active: true }).first<{ id: string; code: string } | undefined>("id", "code");
+  db("applications").where({ program_id: programId, code, active: true, status: "published" }).first<{ id: string; code: string } | undefined>("id", "code");
 
 /** The finding keys an application asks about. */
 export async function applicationFindingKeys(db: Q, applicationId: string): Promise<string[]> {
@@ -96,7 +96,15 @@ export async function examDetail(db: Q, programId: string, id: string) {
     .join("applications as a", "a.id", "e.application_id")
     .join("users as u", "u.id", "e.sonographer_id")
     .where({ "e.id": id, "e.program_id": programId })
-    .first("e.*", "a.code as app_code", "a.name as app_name", "u.name as sonographer_name")) as ExamDetailRow | undefined;
+    .first(
+      "e.*",
+      "a.code as app_code",
+      "a.name as app_name",
+      "a.version as app_version",
+      "a.orientation as app_orientation",
+      "a.cautions as app_cautions",
+      "u.name as sonographer_name",
+    )) as ExamDetailRow | undefined;
   if (!exam) return undefined;
   const [findings, clips] = await Promise.all([
     db("exam_findings").where("exam_id", id).orderBy("finding_key") as Promise<{ finding_key: string; read: FindingRead }[]>,

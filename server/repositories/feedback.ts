@@ -4,7 +4,7 @@
 import type { Knex } from "knex";
 import type { Db } from "../db/knex";
 import { DECIDING_READS } from "../policies/exam";
-import type { ExamSetting, FindingRead } from "../../shared/catalogue";
+import type { ExamSetting, FindingRead, Orientation } from "../../shared/catalogue";
 import type { Scores } from "../../shared/rubric/types";
 import type { Outcome } from "../../shared/schemas/feedback";
 
@@ -19,6 +19,10 @@ export interface ReviewedExamRow {
   feedback_acknowledged_at: Date | null;
   app_code: string;
   app_name: string;
+  application_id: string;
+  app_version: number;
+  app_orientation: Orientation;
+  app_cautions: string[];
   scores: Scores;
   credit: boolean;
   source: "single_read" | "double_read_agreed" | "adjudicated";
@@ -46,6 +50,10 @@ export function reviewedExams(db: Q, programId: string, sonographerId: string, p
     "e.feedback_acknowledged_at",
     "ap.code as app_code",
     "ap.name as app_name",
+    "e.application_id",
+    "ap.version as app_version",
+    "ap.orientation as app_orientation",
+    "ap.cautions as app_cautions",
     "r.scores",
     "r.credit",
     "r.source",

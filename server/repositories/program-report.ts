@@ -41,8 +41,12 @@ export async function programReportRows(db: Db, pid: string, from: string, to: s
         db.raw("percentile_cont(0.5) WITHIN GROUP (ORDER BY extract(epoch FROM r.decided_at - e.submitted_at) / 3600) AS median"),
         db.raw("percentile_cont(0.9) WITHIN GROUP (ORDER BY extract(epoch FROM r.decided_at - e.submitted_at) / 3600) AS p90"),
       ),
+    // Volume per application across its versions, under the name of its published version.
     db("exams as e")
-      .join("applications as ap", "ap.id", "e.application_id")
+      .join("applications as v", "v.id", "e.application_id")
+      .join("applications as ap", function () {
+        this.on("ap.program_id", "=", "v.program_id").andOn("ap.code", "=", "v.code").andOnVal("ap.status", "=", "published");
+      })
       .where("e.program_id", pid)
       .whereNotNull("e.submitted_at")
       .whereRaw(inRange("e.submitted_at"))

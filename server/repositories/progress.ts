@@ -17,6 +17,8 @@ export interface ProgressExamRow {
   id: string;
   sonographer_id: string;
   application_id: string;
+  /** The application's code (the same across its versions). */
+  application_code: string;
   status: string;
   performed_at: Date;
   submitted_at: Date;
@@ -47,10 +49,10 @@ export function peopleByIds(db: Q, userIds: string[]): Promise<{ id: string; nam
   return db("users").whereIn("id", userIds).select("id", "name", "email");
 }
 
-/** The program's applications in catalogue order, inactive ones included. */
+/** The published version of each of the program's applications in catalogue order, inactive ones included. */
 export function programApplications(db: Q, programId: string): Promise<{ id: string; code: string; name: string; active: boolean }[]> {
   return db("applications")
-    .where("program_id", programId)
+    .where({ program_id: programId, status: "published" })
     .orderBy([{ column: "position" }, { column: "name" }])
     .select("id", "code", "name", "active");
 }
@@ -61,6 +63,7 @@ export function programApplications(db: Q, programId: string): Promise<{ id: str
  */
 export function progressExams(db: Q, programId: string, userIds: string[], { from, to }: ProgressRange): Promise<ProgressExamRow[]> {
   const q = db("exams as e")
+    .join("applications as ap", "ap.id", "e.application_id")
     .leftJoin("exam_results as r", "r.exam_id", "e.id")
     .where("e.program_id", programId)
     .whereIn("e.sonographer_id", userIds)
@@ -70,6 +73,7 @@ export function progressExams(db: Q, programId: string, userIds: string[], { fro
       "e.id",
       "e.sonographer_id",
       "e.application_id",
+      "ap.code as application_code",
       "e.status",
       "e.performed_at",
       "e.submitted_at",

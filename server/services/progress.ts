@@ -97,7 +97,7 @@ export async function computeProgress(db: Q, programId: string, userIds: string[
     const recent = mine.filter((e) => reviewedExamIds.has(e.id)).slice(-query.window);
 
     for (const app of apps) {
-      const appExams = mine.filter((e) => e.application_id === app.id);
+      const appExams = mine.filter((e) => e.application_code === app.code);
       // Inactive applications are listed only when the learner has exams in them.
       if (!app.active && appExams.length === 0) continue;
       const reviewed = appExams.filter((e) => reviewedExamIds.has(e.id));
@@ -168,7 +168,7 @@ export async function computeProgress(db: Q, programId: string, userIds: string[
         lastActivityAt: latest(appExams),
       });
 
-      for (const e of recent.filter((x) => x.application_id === app.id)) {
+      for (const e of recent.filter((x) => x.application_code === app.code)) {
         const rubric = e.rubric_id ? rubrics.get(e.rubric_id) : undefined;
         for (const c of rubric ? criteriaFor(rubric.criteria, app.code) : []) {
           const value = criterionAttainment(c, (e.scores ?? {})[c.key]);

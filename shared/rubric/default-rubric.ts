@@ -2,8 +2,9 @@
 // are our own wording. The interpretation criterion is recorded as the reviewer's own read
 // of each finding, not as a level here.
 import type { Criterion } from "./types";
+import { PROCEDURE_CODES } from "../catalogue";
 
-const IDEAL = new Set(["suitable", "follows", "fits", "balanced", "standard", "complete", "4", "5"]);
+const IDEAL = new Set(["suitable", "follows", "fits", "balanced", "standard", "complete", "seen", "under_10s", "4", "5"]);
 const lv = (value: string, label: string, anchor: string, fails = false) => ({ value, label, anchor, fails, ideal: IDEAL.has(value) });
 
 export const DEFAULT_RUBRIC_NAME = "General image review";
@@ -85,8 +86,8 @@ export const DEFAULT_CRITERIA: Criterion[] = [
   }),
   criterion({
     key: "labels",
-    label: "Labelling",
-    help: "Are the clips labelled with their views and side?",
+    label: "Labeling",
+    help: "Are the clips labeled with their views and side?",
     kind: "ordinal",
     levels: [
       lv("complete", "Complete", "Every clip carries its view (and side where it matters)."),
@@ -101,12 +102,37 @@ export const DEFAULT_CRITERIA: Criterion[] = [
     help: "Could a decision be made from these images?",
     kind: "ordinal",
     levels: [
-      lv("1", "1", "No recognisable structures."),
-      lv("2", "2", "Structures recognisable, but not enough to decide."),
+      lv("1", "1", "No recognizable structures."),
+      lv("2", "2", "Structures recognizable, but not enough to decide."),
       lv("3", "3", "The minimum for a decision, with clear flaws."),
       lv("4", "4", "Good, with minor flaws."),
       lv("5", "5", "Excellent."),
     ],
     tolerance: 1,
+  }),
+  // Technique items of procedures and resuscitation are scored here, never read as findings.
+  criterion({
+    key: "needle_tip",
+    label: "Needle tip seen",
+    help: "Was the needle tip followed on screen to the target (in plane, or out of plane by walking the tip)?",
+    kind: "yes_no",
+    levels: [
+      lv("seen", "Seen throughout", "The tip is on screen and identified from entry to the target."),
+      lv("lost", "Lost", "The tip leaves the image or the shaft is taken for the tip.", true),
+    ],
+    tolerance: 0,
+    applications: [...PROCEDURE_CODES],
+  }),
+  criterion({
+    key: "pause",
+    label: "Pulse-check pause",
+    help: "Did image acquisition keep the pause in chest compressions under 10 seconds?",
+    kind: "yes_no",
+    levels: [
+      lv("under_10s", "Under 10 seconds", "The clip is recorded within the pulse check and compressions resume on time."),
+      lv("over_10s", "10 seconds or longer", "Scanning lengthened the pause in compressions.", true),
+    ],
+    tolerance: 0,
+    applications: ["cardiac_arrest"],
   }),
 ];

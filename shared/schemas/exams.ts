@@ -2,6 +2,7 @@
 import { z } from "zod";
 import { FINDING_READS, SETTINGS, TRANSDUCERS } from "../catalogue";
 import { isoDateSchema, isoDateTimeSchema } from "./common";
+import { applicationGuideSchema } from "./applications";
 
 /** draft → submitted → in_review (→ adjudication) → reviewed. */
 export const EXAM_STATUSES = ["draft", "submitted", "in_review", "adjudication", "reviewed"] as const;
@@ -82,6 +83,7 @@ export const examSchema = z.object({
   code: z.string(),
   status: z.enum(EXAM_STATUSES),
   application: z.object({ code: z.string(), name: z.string() }),
+  guide: applicationGuideSchema,
   performedAt: z.string(),
   setting: z.enum(SETTINGS),
   transducer: z.enum(TRANSDUCERS),

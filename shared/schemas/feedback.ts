@@ -3,6 +3,7 @@
 // question thread about it (GET /api/exams/:id/messages) and the caller's notifications.
 import { z } from "zod";
 import { FINDING_READS, SETTINGS } from "../catalogue";
+import { applicationGuideSchema } from "./applications";
 
 export const OUTCOMES = ["TP", "FP", "TN", "FN", "indeterminate"] as const;
 export type Outcome = (typeof OUTCOMES)[number];
@@ -24,6 +25,7 @@ export const feedbackSchema = z.object({
   examId: z.string(),
   code: z.string(),
   application: z.object({ code: z.string(), name: z.string() }),
+  guide: applicationGuideSchema,
   performedAt: z.string(),
   setting: z.enum(SETTINGS),
   reviewedAt: z.string(),

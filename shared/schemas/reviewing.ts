@@ -5,6 +5,7 @@ import { FINDING_READS, SETTINGS, TRANSDUCERS } from "../catalogue";
 import { criterionSchema } from "../rubric/types";
 import { clipSchema, EXAM_STATUSES } from "./exams";
 import { readSchema, scoreValueSchema } from "./reviews";
+import { applicationGuideSchema } from "./applications";
 import { snippetSchema } from "./settings";
 
 export const ASSIGNMENT_KINDS = ["primary", "second", "adjudication", "calibration"] as const;
@@ -60,7 +61,8 @@ export const blindedExamSchema = z.object({
   preset: z.string(),
   indication: z.string(),
   views: z.array(z.object({ key: z.string(), label: z.string() })),
-  findings: z.array(z.object({ key: z.string(), label: z.string() })),
+  findings: z.array(z.object({ key: z.string(), label: z.string(), hint: z.string() })),
+  guide: applicationGuideSchema,
   /** Null while the program keeps sonographers blinded (the default). */
   sonographer: z.object({ name: z.string() }).nullable(),
   clips: z.array(reviewClipSchema),
@@ -118,6 +120,8 @@ export const adjudicationSchema = z.object({
   examCode: z.string(),
   setting: z.enum(SETTINGS),
   application: applicationRefSchema,
+  /** The application version the exam was recorded under (its findings' labels). */
+  applicationId: z.uuid(),
   assignedTo: z.uuid().nullable(),
   rubric: z.object({ id: z.uuid(), version: z.number().int(), criteria: z.array(criterionSchema) }).nullable(),
   reads: z.array(reviewerReadSchema),

@@ -206,6 +206,12 @@ export const router = createBrowserRouter([
                 lazy: page(() => import("../features/settings/routes/program-settings")),
               },
               { path: "setup/applications", lazy: page(() => import("../features/applications/routes/applications")) },
+              {
+                path: "setup/applications/new",
+                loader: requireRoles(["qa_lead", "admin"]),
+                lazy: page(() => import("../features/applications/routes/application-editor")),
+              },
+              { path: "setup/applications/:id", lazy: page(() => import("../features/applications/routes/application-editor")) },
               { path: "account/password", lazy: page(() => import("../features/auth/routes/change-password")) },
               { path: "*", lazy: page(() => import("./not-found-page")) },
             ],

@@ -6,6 +6,7 @@ import { makeClip, makeExam, makeKit, makeMember, makeProgram, tokenFor, type Te
 import { ROLES, type Role } from "../../shared/roles";
 import { newEmailToken } from "../../server/auth/tokens";
 import { insertRubric } from "../../server/repositories/rubrics";
+import { getApplication } from "../../server/repositories/applications";
 import { DEFAULT_CRITERIA } from "../../shared/rubric/default-rubric";
 
 type Who = "anonymous" | Role;
@@ -80,6 +81,13 @@ const claimed = async (state: "open" | "claimed" = "claimed") => {
 };
 const draftRubric = async () =>
   kit.db.transaction((trx) => insertRubric(trx, { programId, version: 1, name: "Matrix draft", status: "draft", criteria: DEFAULT_CRITERIA.slice(0, 2) }));
+/** The program's published aorta application and the body that saves it unchanged (no new version). */
+const aortaApp = async () => {
+  const row = await kit.db("applications").where({ program_id: programId, code: "aorta", status: "published" }).first("id");
+  const app = (await getApplication(kit.db, programId, row.id))!;
+  const { id: _i, code: _c, version: _v, status: _s, publishedAt: _p, ...body } = app;
+  return { id: app.id, body };
+};
 const rubricBody = { name: "Matrix rubric", criteria: DEFAULT_CRITERIA.slice(0, 2) };
 const followUp = async () => {
   const exam = await makeExam(kit.db, programId, members.sonographer.id, { status: "submitted" });
@@ -123,6 +131,21 @@ const MATRIX: Row[] = [
   { route: "POST /auth/switch-program", call: fixed("/api/auth/switch-program", { programId: "00000000-0000-4000-8000-000000000000" }), expect: signedIn(404) },
   { route: "GET /home", call: fixed("/api/home"), expect: signedIn(200) },
   { route: "GET /applications", call: fixed("/api/applications"), expect: signedIn(200) },
+  { route: "GET /applications/:id", call: async () => ({ path: `/api/applications/${(await aortaApp()).id}` }), expect: signedIn(200) },
+  { route: "GET /applications/:id/versions", call: async () => ({ path: `/api/applications/${(await aortaApp()).id}/versions` }), expect: signedIn(200) },
+  {
+    route: "POST /applications",
+    call: async () => ({ path: "/api/applications", body: { ...(await aortaApp()).body, code: `matrix_${Math.random().toString(36).slice(2, 10)}` } }),
+    expect: only(["qa_lead", "admin"], 201),
+  },
+  {
+    route: "PUT /applications/:id",
+    call: async () => {
+      const app = await aortaApp();
+      return { path: `/api/applications/${app.id}`, body: app.body };
+    },
+    expect: only(["qa_lead", "admin"], 200),
+  },
   { route: "GET /users", call: fixed("/api/users"), expect: only(["admin", "qa_lead"], 200) },
   { route: "GET /users/invitations", call: fixed("/api/users/invitations"), expect: only(["admin"], 200) },
   {

@@ -14,7 +14,7 @@ import request from "supertest";
 import { createDb, type Db } from "../../server/db/knex";
 import { queueSubmittedExam } from "../../server/services/queue";
 import { listFiles, sha256File } from "../../scripts/lib/backup";
-import { makeClip, makeExam, makeKit, makeMember, makeProgram, tokenFor, type TestKit } from "./helpers";
+import { EFAST_FINDING_KEYS, makeClip, makeExam, makeKit, makeMember, makeProgram, type TestKit, tokenFor } from "./helpers";
 
 const exec = promisify(execFile);
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "../..");
@@ -87,7 +87,7 @@ beforeAll(async () => {
   const exam = await makeExam(kit.db, p.id, sono.id, { status: "submitted" });
   await makeClip(kit, exam, "ready");
   await makeClip(kit, exam, "ready");
-  const findings = ["free_fluid_ruq", "free_fluid_luq", "free_fluid_pelvis", "pericardial_effusion", "pneumothorax_right", "pneumothorax_left"];
+  const findings = EFAST_FINDING_KEYS;
   await kit.db("exam_findings").insert(findings.map((key) => ({ exam_id: exam.id, finding_key: key, read: "negative" })));
   await kit.db.transaction((trx) => queueSubmittedExam(trx, { id: exam.id, program_id: p.id, setting: "clinical" }, 0));
   const auth = `Bearer ${await tokenFor(kit, reviewer)}`;

@@ -2,7 +2,7 @@
 // and results equal to the statistics module on the reads (Fleiss' kappa, Krippendorff's alpha).
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
-import { makeExam, makeKit, makeMember, makeProgram, tokenFor, type TestKit } from "./helpers";
+import { EFAST_FINDING_KEYS, makeExam, makeKit, makeMember, makeProgram, type TestKit, tokenFor } from "./helpers";
 import { fleissKappa, krippendorffAlpha } from "../../shared/stats/index";
 
 let kit: TestKit;
@@ -11,7 +11,7 @@ beforeAll(() => {
 });
 afterAll(() => kit.close());
 
-const EFAST = ["free_fluid_ruq", "free_fluid_luq", "free_fluid_pelvis", "pericardial_effusion", "pneumothorax_right", "pneumothorax_left"];
+const EFAST = EFAST_FINDING_KEYS;
 const scores = (quality: string, depth = "fits") => ({
   transducer: "suitable",
   marker: "follows",
@@ -120,7 +120,7 @@ describe("calibration sets", () => {
     expect(res.body.rubric.version).toBe(1);
     // The default rubric applies all seven criteria to every application.
     expect(res.body.criteria.map((c: { key: string }) => c.key)).toEqual(["transducer", "marker", "depth", "gain", "plane", "labels", "quality"]);
-    expect(res.body.criteria.find((c: { key: string }) => c.key === "quality").levels[0]).toMatchObject({ value: "1", anchor: "No recognisable structures." });
+    expect(res.body.criteria.find((c: { key: string }) => c.key === "quality").levels[0]).toMatchObject({ value: "1", anchor: "No recognizable structures." });
     expect(res.body.findings).toEqual([{ key: "aneurysm", label: "Aneurysm (3 cm or more)" }]);
     // A draft is not yet an exam anyone may calibrate on; another program's exam does not exist here.
     expect((await request(kit.app).get(`/api/calibration-sets/exams/${draft.id}`).set("Authorization", L)).status).toBe(404);
@@ -258,14 +258,14 @@ describe("calibration sets", () => {
     expect(quality.label).toBe("Overall image quality");
     expect(Object.fromEntries(quality.given.map((g) => [g.reviewerId, g.matches]))).toEqual({ [r1.id]: true, [r2.id]: false });
 
-    // Agreement on the reads: 7 units (6 eFAST findings, the aneurysm); one splits, 5 are both
+    // Agreement on the reads: 9 units (8 eFAST findings, the aneurysm); one splits, 7 are both
     // negative, 1 both positive. By hand with Fleiss (1971), eq. for P-bar and P-bar-e:
-    // P = 6/7, Pe = (11² + 3²)/14² = 130/196, kappa = (6/7 − 130/196)/(1 − 130/196) = 19/33.
+    // P = 8/9, Pe = (15² + 3²)/18² = 13/18, kappa = (8/9 − 13/18)/(1 − 13/18) = 3/5.
     // Krippendorff's nominal alpha from the coincidence matrix (Krippendorff 2011, "Computing
-    // Krippendorff's Alpha-Reliability", section C): 1 − (n − 1)·Σo(c≠k)/Σ n_c n_k(c≠k) = 1 − 13·2/(2·11·3) = 20/33.
+    // Krippendorff's Alpha-Reliability", section C): 1 − (n − 1)·Σo(c≠k)/Σ n_c n_k(c≠k) = 1 − 17·2/(2·15·3) = 28/45.
     const read = results.body.criteria.find((c: { key: string }) => c.key === "read");
-    expect(read.units).toBe(7);
-    expect(read.fleiss.value).toBeCloseTo(19 / 33, 12);
-    expect(read.alpha.value).toBeCloseTo(20 / 33, 12);
+    expect(read.units).toBe(9);
+    expect(read.fleiss.value).toBeCloseTo(3 / 5, 12);
+    expect(read.alpha.value).toBeCloseTo(28 / 45, 12);
   });
 });

@@ -7,11 +7,11 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { AddressInfo } from "node:net";
 import type { Server } from "node:http";
 import request from "supertest";
-import { makeExam, makeKit, makeMember, makeProgram, tokenFor, type TestKit, type TestMember } from "./helpers";
+import { EFAST_FINDING_KEYS, makeExam, makeKit, makeMember, makeProgram, type TestKit, type TestMember, tokenFor } from "./helpers";
 import { startTempDatabase, type TempDatabase } from "./temp-database";
 import { queueSubmittedExam } from "../../server/services/queue";
 
-const EFAST_FINDINGS = ["free_fluid_ruq", "free_fluid_luq", "free_fluid_pelvis", "pericardial_effusion", "pneumothorax_right", "pneumothorax_left"];
+const EFAST_FINDINGS = EFAST_FINDING_KEYS;
 const GOOD = { transducer: "suitable", marker: "follows", depth: "fits", gain: "balanced", plane: "standard", labels: "complete", quality: "4" };
 const reads = () => EFAST_FINDINGS.map((key) => ({ key, read: "negative" }));
 

@@ -22,6 +22,9 @@ import { originalKey, processedKey } from "../../server/storage/keys";
 import { forgetClipOriginal, insertClip, markClipFailed, markClipReady, nextClipPosition } from "../../server/repositories/clips";
 import type { Role } from "../../shared/roles";
 
+/** The built-in eFAST application's finding keys, in catalogue order (shared/catalogue.ts): a review reads each. */
+export const EFAST_FINDING_KEYS = DEFAULT_CATALOGUE.find((a) => a.code === "efast")!.findings.map((f) => f.key);
+
 export const TEST_PASSWORD = "correct-horse-battery-7";
 
 export interface TestKit {

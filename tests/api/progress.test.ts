@@ -8,7 +8,7 @@ import os from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
-import { makeExam, makeKit, makeMember, makeProgram, tokenFor, type TestKit, type TestMember } from "./helpers";
+import { EFAST_FINDING_KEYS, makeExam, makeKit, makeMember, makeProgram, type TestKit, type TestMember, tokenFor } from "./helpers";
 import { queueSubmittedExam } from "../../server/services/queue";
 import { mulberry32, wilsonInterval, cusum } from "../../shared/stats/index";
 import type { Progress, RosterRow } from "../../shared/schemas/progress";
@@ -19,7 +19,7 @@ let lead: TestMember;
 let learner: TestMember;
 let other: TestMember;
 let reviewer: TestMember;
-const EFAST = ["free_fluid_ruq", "free_fluid_luq", "free_fluid_pelvis", "pericardial_effusion", "pneumothorax_right", "pneumothorax_left"];
+const EFAST = EFAST_FINDING_KEYS;
 const DAY = 86_400_000;
 const START = Date.parse("2026-06-01T09:00:00Z");
 

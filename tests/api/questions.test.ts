@@ -5,7 +5,7 @@
 // finding labels from the demo catalogue's eFAST findings (shared/catalogue.ts).
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
-import { makeExam, makeKit, makeMember, makeProgram, tokenFor, type TestKit, type TestMember } from "./helpers";
+import { EFAST_FINDING_KEYS, makeExam, makeKit, makeMember, makeProgram, type TestKit, type TestMember, tokenFor } from "./helpers";
 import { queueSubmittedExam } from "../../server/services/queue";
 
 let kit: TestKit;
@@ -14,7 +14,7 @@ beforeAll(() => {
 });
 afterAll(() => kit.close());
 
-const EFAST_FINDINGS = ["free_fluid_ruq", "free_fluid_luq", "free_fluid_pelvis", "pericardial_effusion", "pneumothorax_right", "pneumothorax_left"];
+const EFAST_FINDINGS = EFAST_FINDING_KEYS;
 // Depth "too deep" and quality 4: both non-default levels, so the labels shown must be looked up.
 const SCORES = { transducer: "suitable", marker: "follows", depth: "too_deep", gain: "balanced", plane: "standard", labels: "complete", quality: "4" };
 const READS = EFAST_FINDINGS.map((key) => ({ key, read: key === "free_fluid_ruq" ? "positive" : "negative" }));
@@ -98,13 +98,13 @@ describe("GET /api/reviews/exams/:id", () => {
       "Depth",
       "Gain",
       "Scan plane",
-      "Labelling",
+      "Labeling",
       "Overall image quality",
     ]);
     expect(res.body.myReview.criteria).toContainEqual({ key: "depth", label: "Depth", value: "too_deep", levelLabel: "Too deep" });
     expect(res.body.myReview.criteria).toContainEqual({ key: "quality", label: "Overall image quality", value: "4", levelLabel: "4" });
     expect(res.body.myReview.reads[0]).toEqual({ key: "free_fluid_ruq", label: "Free fluid, right upper quadrant", read: "positive" });
-    expect(res.body.myReview.reads).toHaveLength(6);
+    expect(res.body.myReview.reads).toHaveLength(EFAST_FINDINGS.length);
     // One read settles it; quality 4 ≥ 3 and the marker follows convention (the default credit rule, README "Review rules").
     expect(res.body.final).toEqual({ credit: true, source: "single_read", decidedAt: expect.any(String) });
 

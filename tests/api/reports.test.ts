@@ -2,7 +2,7 @@
 // checked against published examples and statsmodels/sklearn) applied to the raw rows.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
-import { makeExam, makeKit, makeMember, makeProgram, tokenFor, type TestKit, type TestMember } from "./helpers";
+import { EFAST_FINDING_KEYS, makeExam, makeKit, makeMember, makeProgram, type TestKit, type TestMember, tokenFor } from "./helpers";
 import { queueSubmittedExam } from "../../server/services/queue";
 import { cohensKappa, gwetAC1, krippendorffAlpha, mulberry32, percentAgreement } from "../../shared/stats/index";
 import { DEFAULT_CRITERIA } from "../../shared/rubric/default-rubric";
@@ -10,7 +10,7 @@ import { DEFAULT_CRITERIA } from "../../shared/rubric/default-rubric";
 let kit: TestKit;
 let lead: TestMember;
 let programId: string;
-const EFAST = ["free_fluid_ruq", "free_fluid_luq", "free_fluid_pelvis", "pericardial_effusion", "pneumothorax_right", "pneumothorax_left"];
+const EFAST = EFAST_FINDING_KEYS;
 const EXAMS = 30;
 
 beforeAll(async () => {

@@ -2,7 +2,19 @@
 // versions, double reads and adjudication, derived results, feedback delivery, bad input.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
-import { makeClip, makeExam, makeKit, makeMember, makeProgram, mailsFor, tokenFor, waitForMail, type TestKit, type TestMember } from "./helpers";
+import {
+  EFAST_FINDING_KEYS,
+  mailsFor,
+  makeClip,
+  makeExam,
+  makeKit,
+  makeMember,
+  makeProgram,
+  type TestKit,
+  type TestMember,
+  tokenFor,
+  waitForMail,
+} from "./helpers";
 import { queueSubmittedExam, sampledForSecondRead } from "../../server/services/queue";
 import { sendOverdueDigests } from "../../server/services/notify";
 
@@ -12,7 +24,7 @@ beforeAll(() => {
 });
 afterAll(() => kit.close());
 
-const EFAST_FINDINGS = ["free_fluid_ruq", "free_fluid_luq", "free_fluid_pelvis", "pericardial_effusion", "pneumothorax_right", "pneumothorax_left"];
+const EFAST_FINDINGS = EFAST_FINDING_KEYS;
 const GOOD = { transducer: "suitable", marker: "follows", depth: "fits", gain: "balanced", plane: "standard", labels: "complete", quality: "4" };
 const negatives = () => EFAST_FINDINGS.map((key) => ({ key, read: "negative" }));
 const body = (over: { scores?: Record<string, string>; reads?: { key: string; read: string }[]; feedback?: string } = {}) => ({

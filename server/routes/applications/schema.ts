@@ -1,3 +1,10 @@
 // The schemas the applications routes parse and answer with. Those the client also uses are
 // defined in shared/schemas/ and re-exported here; server-only ones are defined here.
-export { applicationListSchema } from "../../../shared/schemas/applications";
+export { idParamsSchema } from "../../../shared/schemas/common";
+export {
+  applicationAnswerSchema,
+  applicationInputSchema,
+  applicationListSchema,
+  applicationVersionListSchema,
+  newApplicationSchema,
+} from "../../../shared/schemas/applications";

@@ -10,7 +10,8 @@ import { buttonClasses } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { PageHeader } from "../../../components/ui/page-header";
 import { EmptyState, LoadingState, QueryErrorState } from "../../../components/ui/states";
-import { READ_LABELS, SETTING_LABELS, TRANSDUCER_LABELS, applicationsQuery } from "../../../lib/catalogue";
+import { READ_LABELS, SETTING_LABELS, TRANSDUCER_LABELS, applicationVersionQuery } from "../../../lib/catalogue";
+import { ApplicationCautions } from "../../../components/ui/cautions";
 import { formatDateTime } from "../../../lib/format";
 import { hasAnyRole, sessionQuery } from "../../../lib/session";
 import { isProcessing, useExam } from "../api/exams";
@@ -32,9 +33,10 @@ export default function ExamPage() {
   const location = useLocation();
   const notice = (location.state as { notice?: string } | null)?.notice ?? null;
   const query = useExam(id);
-  const apps = useQuery(applicationsQuery);
   const exam = query.data;
-  const application = apps.data?.applications.find((a) => a.code === exam?.application.code);
+  // The labels of the version the exam was recorded under, which a later edit of the catalogue does not change.
+  const version = useQuery(applicationVersionQuery(exam?.guide.applicationId ?? ""));
+  const application = version.data?.application;
   const editable = exam?.status === "draft";
   const session = useQuery(sessionQuery);
   // Hiding the section only spares others a refusal: the server decides who may enter results.
@@ -94,7 +96,16 @@ export default function ExamPage() {
               <dd className="whitespace-pre-line text-ink-900">{query.data.indication || "—"}</dd>
               <dt className="font-semibold text-slate-700">Submitted</dt>
               <dd className="tabular-nums text-ink-900">{query.data.submittedAt ? formatDateTime(query.data.submittedAt) : "Not yet"}</dd>
+              <dt className="font-semibold text-slate-700">Catalogue</dt>
+              <dd className="tabular-nums text-ink-900">
+                {query.data.application.name}, version {query.data.guide.version}
+              </dd>
             </dl>
+            {query.data.guide.cautions.length > 0 ? (
+              <div className="mt-4">
+                <ApplicationCautions cautions={query.data.guide.cautions} />
+              </div>
+            ) : null}
           </section>
 
           <section aria-labelledby="reads-heading" className="rounded-lg border border-slate-200 bg-white p-5">

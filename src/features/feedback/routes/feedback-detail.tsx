@@ -7,6 +7,7 @@ import { CircleCheck } from "lucide-react";
 import { Button } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { PageHeader } from "../../../components/ui/page-header";
+import { ApplicationCautions } from "../../../components/ui/cautions";
 import { LoadingState, QueryErrorState } from "../../../components/ui/states";
 import { StatusTag } from "../../../components/ui/status-tag";
 import { SETTING_LABELS } from "../../../lib/catalogue";
@@ -29,36 +30,43 @@ function Section({ id, title, children }: { id: string; title: string; children:
 
 function Summary({ fb }: { fb: Feedback }) {
   return (
-    <dl className="grid gap-x-6 gap-y-2 text-sm sm:grid-cols-[12rem_1fr]">
-      <dt className="font-semibold text-slate-700">Application</dt>
-      <dd className="text-ink-900">{fb.application.name}</dd>
-      <dt className="font-semibold text-slate-700">Performed</dt>
-      <dd className="tabular-nums text-ink-900">{formatDateTime(fb.performedAt)}</dd>
-      <dt className="font-semibold text-slate-700">Setting</dt>
-      <dd className="text-ink-900">{SETTING_LABELS[fb.setting]}</dd>
-      <dt className="font-semibold text-slate-700">Reviewed</dt>
-      <dd className="tabular-nums text-ink-900">{formatDateTime(fb.reviewedAt)}</dd>
-      <dt className="font-semibold text-slate-700">Result from</dt>
-      <dd className="text-ink-900">
-        {SOURCE_WORDS[fb.source]}
-        {fb.rubricVersion !== null ? <span className="text-slate-600"> · rubric version {fb.rubricVersion}</span> : null}
-      </dd>
-      <dt className="font-semibold text-slate-700">Credit toward credentialing</dt>
-      <dd className="text-ink-900">
-        {fb.credit ? (
-          <StatusTag tone="good">Yes, this exam counts</StatusTag>
-        ) : (
-          <>
-            <StatusTag tone="off">No, this exam does not count</StatusTag>
-            <ul className="mt-1 list-disc pl-5 text-slate-700">
-              {noCreditReasons(fb).map((r) => (
-                <li key={r}>{r}</li>
-              ))}
-            </ul>
-          </>
-        )}
-      </dd>
-    </dl>
+    <>
+      <dl className="grid gap-x-6 gap-y-2 text-sm sm:grid-cols-[12rem_1fr]">
+        <dt className="font-semibold text-slate-700">Application</dt>
+        <dd className="text-ink-900">{fb.application.name}</dd>
+        <dt className="font-semibold text-slate-700">Performed</dt>
+        <dd className="tabular-nums text-ink-900">{formatDateTime(fb.performedAt)}</dd>
+        <dt className="font-semibold text-slate-700">Setting</dt>
+        <dd className="text-ink-900">{SETTING_LABELS[fb.setting]}</dd>
+        <dt className="font-semibold text-slate-700">Reviewed</dt>
+        <dd className="tabular-nums text-ink-900">{formatDateTime(fb.reviewedAt)}</dd>
+        <dt className="font-semibold text-slate-700">Result from</dt>
+        <dd className="text-ink-900">
+          {SOURCE_WORDS[fb.source]}
+          {fb.rubricVersion !== null ? <span className="text-slate-600"> · rubric version {fb.rubricVersion}</span> : null}
+        </dd>
+        <dt className="font-semibold text-slate-700">Credit toward credentialing</dt>
+        <dd className="text-ink-900">
+          {fb.credit ? (
+            <StatusTag tone="good">Yes, this exam counts</StatusTag>
+          ) : (
+            <>
+              <StatusTag tone="off">No, this exam does not count</StatusTag>
+              <ul className="mt-1 list-disc pl-5 text-slate-700">
+                {noCreditReasons(fb).map((r) => (
+                  <li key={r}>{r}</li>
+                ))}
+              </ul>
+            </>
+          )}
+        </dd>
+      </dl>
+      {fb.guide.cautions.length > 0 ? (
+        <div className="mt-4">
+          <ApplicationCautions cautions={fb.guide.cautions} />
+        </div>
+      ) : null}
+    </>
   );
 }
 

@@ -6,7 +6,7 @@ import { ExternalLink } from "lucide-react";
 import { PageHeader } from "../../../components/ui/page-header";
 import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
 import { StatusTag } from "../../../components/ui/status-tag";
-import { SETTING_LABELS, applicationsQuery } from "../../../lib/catalogue";
+import { SETTING_LABELS, applicationVersionQuery } from "../../../lib/catalogue";
 import { formatDateTime } from "../../../lib/format";
 import { hasAnyRole, sessionQuery } from "../../../lib/session";
 import { examReadsQuery, useAdjudicate, useAdjudications } from "../api/oversight";
@@ -18,12 +18,13 @@ export default function AdjudicationPage() {
   const { examId = "" } = useParams();
   const navigate = useNavigate();
   const list = useAdjudications();
-  const apps = useQuery(applicationsQuery);
   const exam = useQuery({ ...examReadsQuery(examId), enabled: !!examId });
   const { data: user } = useQuery(sessionQuery);
   const adjudicate = useAdjudicate();
   const item = list.data?.items.find((i) => i.examId === examId);
-  const application = apps.data?.applications.find((a) => a.code === item?.application.code);
+  // The findings of the version the exam was recorded under.
+  const version = useQuery(applicationVersionQuery(item?.applicationId ?? ""));
+  const application = version.data?.application;
   const findings = application?.findings ?? [];
   const findingLabels = Object.fromEntries(findings.map((f) => [f.key, f.label]));
   const sonographerReads = Object.fromEntries((exam.data?.findings ?? []).map((f) => [f.key, f.read]));
@@ -50,12 +51,12 @@ export default function AdjudicationPage() {
           ) : undefined
         }
       />
-      {list.isPending || apps.isPending ? (
+      {list.isPending || (!!item && version.isPending) ? (
         <LoadingState label="Loading the reads…" />
       ) : list.isError ? (
         <ErrorState error={list.error} onRetry={() => void list.refetch()} retrying={list.isFetching} />
-      ) : apps.isError ? (
-        <ErrorState error={apps.error} onRetry={() => void apps.refetch()} retrying={apps.isFetching} />
+      ) : version.isError ? (
+        <ErrorState error={version.error} onRetry={() => void version.refetch()} retrying={version.isFetching} />
       ) : !item ? (
         <EmptyState
           title="This exam is not waiting for adjudication"

@@ -17,15 +17,18 @@ type Props = {
   /** Move focus to the next (1) or previous (-1) stop of the rubric. */
   onAdvance: (direction: 1 | -1) => void;
   onFocusCriterion: () => void;
+  /** What the exam's application says about this criterion (the orientation convention). */
+  note?: string;
 };
 
 /** The id of the element that holds a criterion (focus goes to its checked level, else its first). */
 export const criterionStopId = (key: string) => `criterion-${key}`;
 
-export function CriterionField({ criterion: c, position, value, error, onChange, onAdvance, onFocusCriterion }: Props) {
+export function CriterionField({ criterion: c, position, value, error, onChange, onAdvance, onFocusCriterion, note }: Props) {
   const id = useId();
   const legendId = `${id}-legend`;
   const helpId = `${id}-help`;
+  const noteId = `${id}-note`;
   const errorId = `${id}-error`;
   const chosen = levelIndex(c, value);
 
@@ -51,7 +54,7 @@ export function CriterionField({ criterion: c, position, value, error, onChange,
       data-stop
       role={c.kind === "number" ? undefined : "radiogroup"}
       aria-labelledby={legendId}
-      aria-describedby={[c.help ? helpId : null, error ? errorId : null].filter(Boolean).join(" ") || undefined}
+      aria-describedby={[c.help ? helpId : null, note ? noteId : null, error ? errorId : null].filter(Boolean).join(" ") || undefined}
       aria-invalid={error ? true : undefined}
       aria-required={c.required || undefined}
       onKeyDown={onKeyDown}
@@ -76,6 +79,11 @@ export function CriterionField({ criterion: c, position, value, error, onChange,
       {c.help ? (
         <p id={helpId} className="clear-both pt-0.5 text-xs text-slate-600">
           {c.help}
+        </p>
+      ) : null}
+      {note ? (
+        <p id={noteId} className="clear-both mt-1 rounded bg-sea-50 px-1.5 py-1 text-xs font-semibold text-sea-900">
+          {note}
         </p>
       ) : null}
 

@@ -4,10 +4,11 @@ import { EyeOff } from "lucide-react";
 import type { BlindedExam } from "../api/workspace";
 import { SETTING_LABELS, TRANSDUCER_LABELS } from "../../../lib/catalogue";
 import { formatDateTime } from "../../../lib/format";
+import { ApplicationCautions } from "../../../components/ui/cautions";
 
 export function ExamFacts({ exam, leaseExpiresAt }: { exam: BlindedExam; leaseExpiresAt: string | null }) {
   const facts: [string, string][] = [
-    ["Application", exam.application.name],
+    ["Application", `${exam.application.name} (catalogue v${exam.guide.version})`],
     ["Setting", SETTING_LABELS[exam.setting] ?? exam.setting],
     ["Transducer", TRANSDUCER_LABELS[exam.transducer] ?? exam.transducer],
     ["Preset", exam.preset || "—"],
@@ -41,6 +42,7 @@ export function ExamFacts({ exam, leaseExpiresAt }: { exam: BlindedExam; leaseEx
         <span className="text-slate-600">Indication </span>
         <span className="whitespace-pre-line text-ink-900">{exam.indication || "—"}</span>
       </p>
+      <ApplicationCautions cautions={exam.guide.cautions} compact />
     </div>
   );
 }

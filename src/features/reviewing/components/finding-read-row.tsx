@@ -15,7 +15,7 @@ const READS: { read: FindingRead; key: string }[] = [
 export const findingStopId = (key: string) => `finding-${key}`;
 
 type Props = {
-  finding: { key: string; label: string };
+  finding: { key: string; label: string; hint?: string };
   value: FindingRead | undefined;
   invalid: boolean;
   onChange: (read: FindingRead) => void;
@@ -53,6 +53,7 @@ export function FindingReadRow({ finding, value, invalid, onChange, onAdvance }:
     >
       <legend id={`${id}-legend`} className="float-left text-sm font-semibold text-ink-950">
         {finding.label}
+        {finding.hint ? <span className="block text-xs font-normal text-slate-600">{finding.hint}</span> : null}
       </legend>
       <div className="flex gap-1">
         {READS.map(({ read, key }) => {

@@ -23,6 +23,7 @@ import { ClipSwitcher, clipTitle } from "./clip-switcher";
 import { ClipViewer, type PlayerHandle } from "./clip-viewer";
 import { CriterionField, criterionStopId } from "./criterion-field";
 import { ExamFacts } from "./exam-summary";
+import { ORIENTATION_LABELS, isOrientationCriterion } from "../../../lib/catalogue";
 import { FEEDBACK_STOP_ID, FeedbackBox } from "./feedback-box";
 import { FindingReadRow, findingStopId } from "./finding-read-row";
 import { KeyboardHelp } from "./keyboard-help";
@@ -272,6 +273,7 @@ export function WorkspaceView({ workspace, application, notice }: { workspace: W
                 onChange={(v) => setScore(c.key, v)}
                 onAdvance={(d) => advance(criterionStopId(c.key), d)}
                 onFocusCriterion={() => setFocusedCriterion(c.key)}
+                note={isOrientationCriterion(c) ? `This application: ${ORIENTATION_LABELS[exam.guide.orientation]}.` : undefined}
               />
             ))}
           </section>
