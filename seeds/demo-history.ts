@@ -118,11 +118,16 @@ export async function seedLearningHistory(
           scores[key] =
             rand() < slip ? OFF[key][Math.floor(rand() * OFF[key].length)] : { depth: "fits", gain: "balanced", plane: "standard", labels: "complete" }[key]!;
         scores.quality = learner.failures.includes(k) ? "2" : String(rand() < 0.3 + 0.5 * progress ? 4 + Math.round(rand()) : 3);
-        // The reviewer agrees with the learner's reads on clinical exams (no significant
-        // disagreement) and differs now and then on teaching scans.
+        // The reviewer agrees with the learner's reads, except now and then on a teaching scan
+        // that already fails (a misread blocks credit on every setting, so disagreeing elsewhere
+        // would add failures the history does not plan).
         const reviewerReads = reads.map((r) => ({
           key: r.key,
-          read: (setting === "educational" && rand() < 0.08 ? (r.read === "positive" ? "negative" : "positive") : r.read) as FindingRead,
+          read: (setting === "educational" && learner.failures.includes(k) && rand() < 0.3
+            ? r.read === "positive"
+              ? "negative"
+              : "positive"
+            : r.read) as FindingRead,
         }));
         const ctx = (await examContext(trx, program.id, exam.id))!;
         const assignments = await trx("assignments").where("exam_id", exam.id).orderBy("kind", "desc").select("id", "kind");

@@ -51,6 +51,9 @@ export interface CatalogueEntry {
   findings: CatalogueFinding[];
 }
 
+/** The credit rule a built-in application starts with: the program's threshold, no cap, no minimum of positives, completeness not required. */
+export const DEFAULT_APPLICATION_CREDIT_RULE = { threshold: null, nonClinicalCap: null, minPositive: 0, requireComplete: false };
+
 /** The procedure applications; their technique is scored by the rubric's needle criterion. */
 export const PROCEDURE_CODES = ["vascular_access", "paracentesis_thoracentesis", "nerve_block", "arthrocentesis", "pericardiocentesis"] as const;
 

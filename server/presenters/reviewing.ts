@@ -75,6 +75,7 @@ export function presentAdjudication(r: OpenAdjudication): Adjudication {
       scores: x.scores,
       reads: x.reads,
       feedback: x.feedback,
+      limited: x.limited,
       submittedAt: x.submitted_at.toISOString(),
     })),
     disagreements: r.disagreements,

@@ -4,6 +4,7 @@
 import type { Accuracy, ApplicationProgress, ConfirmationMethod, Progress, Rate } from "../../shared/schemas/progress";
 import { cusum } from "../../shared/stats/cusum";
 import { wilsonInterval } from "../../shared/stats/wilson";
+import { describeThresholdRule } from "../../shared/progress";
 
 export const PROGRAM = "Cedar Hollow Emergency Medicine";
 
@@ -42,9 +43,16 @@ export function application(spec: AppSpec): ApplicationProgress {
     submitted: spec.submitted,
     reviewed,
     credited,
+    creditedBySetting: { clinical: credited, educational: 0, simulated: 0 },
+    counted: credited,
+    positives: 0,
+    limited: 0,
     threshold,
+    creditRule: { threshold, nonClinicalCap: null, minPositive: 0, requireComplete: false },
+    creditRuleText: describeThresholdRule({ threshold, nonClinicalCap: null, minPositive: 0, requireComplete: false }, 3),
     remaining: Math.max(0, threshold - credited),
     met: credited >= threshold,
+    indeterminateRate: rate(0, 0),
     creditRate: rate(credited, reviewed),
     qualityDistribution: spec.quality ?? {},
     cusum: {

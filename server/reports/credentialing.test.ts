@@ -242,6 +242,17 @@ describe("credentialing report CSV", () => {
       "cusum_p1",
       "cusum_alpha",
       "cusum_beta",
+      "counted",
+      "credited_clinical",
+      "credited_educational",
+      "credited_simulated",
+      "positives",
+      "limited",
+      "rule_non_clinical_cap",
+      "rule_min_positive",
+      "rule_require_complete",
+      "indeterminate_rate",
+      "credit_rule",
     ]);
     const rows = read(csv);
     expect(rows).toHaveLength(10);

@@ -166,6 +166,18 @@ export const CREDENTIALING_CSV_COLUMNS: readonly string[] = [
   "cusum_p1",
   "cusum_alpha",
   "cusum_beta",
+  // The application's credit rule as applied, and the counts it decides on.
+  "counted",
+  "credited_clinical",
+  "credited_educational",
+  "credited_simulated",
+  "positives",
+  "limited",
+  "rule_non_clinical_cap",
+  "rule_min_positive",
+  "rule_require_complete",
+  "indeterminate_rate",
+  "credit_rule",
 ];
 
 /**
@@ -204,6 +216,17 @@ export function renderCredentialingCsv(data: CredentialingReportData): string {
         formatParameter(a.cusum.p1),
         formatParameter(a.cusum.alpha),
         formatParameter(a.cusum.beta),
+        String(a.counted),
+        String(a.creditedBySetting.clinical),
+        String(a.creditedBySetting.educational),
+        String(a.creditedBySetting.simulated),
+        String(a.positives),
+        String(a.limited),
+        a.creditRule.nonClinicalCap === null ? "" : String(a.creditRule.nonClinicalCap),
+        String(a.creditRule.minPositive),
+        a.creditRule.requireComplete ? "yes" : "no",
+        a.indeterminateRate.value === null ? "" : proportion(a.indeterminateRate.value),
+        guardCell(a.creditRuleText),
       ]);
     }
   }
@@ -327,11 +350,22 @@ function sonographerSection(pg: Pager, data: CredentialingReportData, p: Progres
     ["E-mail", p.sonographer.email],
     ["Dates", formatRange(data.range)],
     ["Generated", formatGenerated(data.generatedAt)],
-    ["Credit rule", `${s.threshold} credited exams per application; credit needs overall image quality of at least ${s.minQualityForCredit}`],
+    [
+      "Credit rule",
+      `per application, as stated under the counts (program default ${s.threshold} credited exams); credit needs overall image quality of at least ${s.minQualityForCredit}, no critical criterion failing and no misread finding`,
+    ],
   ]);
 
   pg.sectionTitle("Exams per application");
   countsTable(pg, p);
+  pg.sectionTitle("Credit rule applied");
+  for (const a of p.applications.filter(isActive)) {
+    const bySetting = a.creditedBySetting;
+    pg.paragraph(
+      `${a.application.name}: ${a.creditRuleText} Counted ${a.counted} of ${a.threshold} (credited: ${bySetting.clinical} clinical, ${bySetting.educational} educational, ${bySetting.simulated} simulated; ${a.positives} with a positive finding; ${a.limited} technically limited). Indeterminate reads: ${a.indeterminateRate.value === null ? "none read" : `${Math.round(a.indeterminateRate.value * 100)} %`}.`,
+      { size: 8.5 },
+    );
+  }
 
   const active = p.applications.filter(isActive);
   if (active.length === 0) {

@@ -3,8 +3,8 @@
 // it was recorded under (exams.application_id), with that version's views and findings.
 import type { Knex } from "knex";
 import type { Db } from "../db/knex";
-import type { Application, ApplicationVersion } from "../../shared/schemas/applications";
-import type { CatalogueEntry, Orientation, Transducer } from "../../shared/catalogue";
+import type { Application, ApplicationVersion, CreditRuleOfApplication } from "../../shared/schemas/applications";
+import { DEFAULT_APPLICATION_CREDIT_RULE, type CatalogueEntry, type Orientation, type Transducer } from "../../shared/catalogue";
 
 type Q = Db | Knex.Transaction;
 
@@ -23,12 +23,23 @@ export interface ApplicationRow {
   orientation: Orientation;
   cautions: string[];
   position: number;
+  credit_threshold: number | null;
+  credit_non_clinical_cap: number | null;
+  credit_min_positive: number;
+  credit_require_complete: boolean;
   published_at: Date;
   archived_at: Date | null;
 }
 
 /** The content of one version, as written (a catalogue entry without its code). */
-export type ApplicationContent = Omit<CatalogueEntry, "code"> & { active: boolean };
+export type ApplicationContent = Omit<CatalogueEntry, "code"> & { active: boolean; creditRule: CreditRuleOfApplication };
+
+export const creditRuleOf = (a: Pick<ApplicationRow, "credit_threshold" | "credit_non_clinical_cap" | "credit_min_positive" | "credit_require_complete">) => ({
+  threshold: a.credit_threshold,
+  nonClinicalCap: a.credit_non_clinical_cap,
+  minPositive: a.credit_min_positive,
+  requireComplete: a.credit_require_complete,
+});
 
 async function present(db: Q, apps: ApplicationRow[]): Promise<Application[]> {
   const ids = apps.map((a) => a.id);
@@ -52,6 +63,7 @@ async function present(db: Q, apps: ApplicationRow[]): Promise<Application[]> {
       .filter((r) => r.application_id === a.id)
       .map((r) => ({ key: r.key as string, label: r.label as string, required: r.required as boolean, hint: r.hint as string })),
     findings: findings.filter((r) => r.application_id === a.id).map((r) => ({ key: r.key as string, label: r.label as string, hint: r.hint as string })),
+    creditRule: creditRuleOf(a),
     publishedAt: a.published_at.toISOString(),
   }));
 }
@@ -137,6 +149,10 @@ export async function insertApplicationVersion(
       depth_max_cm: c.typicalDepthCm[1],
       orientation: c.orientation,
       cautions: c.cautions,
+      credit_threshold: c.creditRule.threshold,
+      credit_non_clinical_cap: c.creditRule.nonClinicalCap,
+      credit_min_positive: c.creditRule.minPositive,
+      credit_require_complete: c.creditRule.requireComplete,
       position: a.position,
       created_by: a.createdBy ?? null,
     })
@@ -153,7 +169,13 @@ export async function insertApplicationVersion(
 /** Copies a catalogue into a program as version 1 of each application (when a program is created). */
 export async function insertCatalogue(db: Q, programId: string, catalogue: CatalogueEntry[]): Promise<void> {
   for (const [i, { code, ...content }] of catalogue.entries())
-    await insertApplicationVersion(db, { programId, code, version: 1, position: i, content: { ...content, active: true } });
+    await insertApplicationVersion(db, {
+      programId,
+      code,
+      version: 1,
+      position: i,
+      content: { ...content, active: true, creditRule: DEFAULT_APPLICATION_CREDIT_RULE },
+    });
 }
 
 /** The views and findings of the exam's application version, in their catalogue order. */

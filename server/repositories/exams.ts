@@ -169,13 +169,29 @@ export async function examContext(db: Q, programId: string, examId: string) {
   const e = await db("exams as e")
     .join("applications as a", "a.id", "e.application_id")
     .where({ "e.id": examId, "e.program_id": programId })
-    .first("e.id", "e.program_id", "e.sonographer_id", "e.setting", "e.code", "e.double_read", "e.status", "e.application_id", "a.code as application_code");
+    .first(
+      "e.id",
+      "e.program_id",
+      "e.sonographer_id",
+      "e.setting",
+      "e.code",
+      "e.double_read",
+      "e.status",
+      "e.application_id",
+      "a.code as application_code",
+      "a.credit_require_complete as require_complete",
+    );
   if (!e) return undefined;
-  const [findingKeys, sonographerReads] = await Promise.all([
-    db("application_findings").where("application_id", e.application_id).orderBy("position").pluck("key"),
+  const [findings, sonographerReads, requiredViews, clipViews] = await Promise.all([
+    db("application_findings").where("application_id", e.application_id).orderBy("position").select<{ key: string; label: string }[]>("key", "label"),
     db("exam_findings").where("exam_id", examId).select("finding_key as key", "read"),
+    db("application_views")
+      .where({ application_id: e.application_id, required: true })
+      .orderBy("position")
+      .select<{ key: string; label: string }[]>("key", "label"),
+    db("clips").where({ exam_id: examId, state: "ready" }).whereNotNull("view_key").distinct().pluck("view_key"),
   ]);
-  return { ...e, findingKeys, sonographerReads } as {
+  return { ...e, findingKeys: findings.map((f) => f.key), findingLabels: findings, sonographerReads, requiredViews, clipViews } as {
     id: string;
     program_id: string;
     sonographer_id: string;
@@ -186,7 +202,13 @@ export async function examContext(db: Q, programId: string, examId: string) {
     application_id: string;
     application_code: string;
     findingKeys: string[];
+    findingLabels: { key: string; label: string }[];
     sonographerReads: { key: string; read: FindingRead }[];
+    /** Whether the application version's credit rule asks for every required view. */
+    require_complete: boolean;
+    requiredViews: { key: string; label: string }[];
+    /** The views of the exam's ready clips. */
+    clipViews: string[];
   };
 }
 

@@ -25,6 +25,8 @@ export interface ReviewedExamRow {
   app_cautions: string[];
   scores: Scores;
   credit: boolean;
+  credit_reasons: string[];
+  limited: boolean;
   source: "single_read" | "double_read_agreed" | "adjudicated";
   decided_at: Date;
   rubric_id: string;
@@ -56,6 +58,8 @@ export function reviewedExams(db: Q, programId: string, sonographerId: string, p
     "ap.cautions as app_cautions",
     "r.scores",
     "r.credit",
+    "r.credit_reasons",
+    "r.limited",
     "r.source",
     "r.decided_at",
     "r.rubric_id",

@@ -23,6 +23,10 @@ export interface ProgressExamRow {
   performed_at: Date;
   submitted_at: Date;
   credit: boolean | null;
+  setting: "clinical" | "educational" | "simulated";
+  limited: boolean | null;
+  /** The final read has a positive finding. */
+  positive: boolean | null;
   scores: Scores | null;
   rubric_id: string | null;
   acknowledged: boolean;
@@ -50,11 +54,22 @@ export function peopleByIds(db: Q, userIds: string[]): Promise<{ id: string; nam
 }
 
 /** The published version of each of the program's applications in catalogue order, inactive ones included. */
-export function programApplications(db: Q, programId: string): Promise<{ id: string; code: string; name: string; active: boolean }[]> {
+export function programApplications(db: Q, programId: string): Promise<ProgressApplicationRow[]> {
   return db("applications")
     .where({ program_id: programId, status: "published" })
     .orderBy([{ column: "position" }, { column: "name" }])
-    .select("id", "code", "name", "active");
+    .select("id", "code", "name", "active", "credit_threshold", "credit_non_clinical_cap", "credit_min_positive", "credit_require_complete");
+}
+
+export interface ProgressApplicationRow {
+  id: string;
+  code: string;
+  name: string;
+  active: boolean;
+  credit_threshold: number | null;
+  credit_non_clinical_cap: number | null;
+  credit_min_positive: number;
+  credit_require_complete: boolean;
 }
 
 /**
@@ -78,6 +93,9 @@ export function progressExams(db: Q, programId: string, userIds: string[], { fro
       "e.performed_at",
       "e.submitted_at",
       "r.credit",
+      "e.setting",
+      "r.limited",
+      db.raw(`EXISTS (SELECT 1 FROM jsonb_array_elements(r.reads) x WHERE x->>'read' = 'positive') AS positive`),
       "r.scores",
       "r.rubric_id",
       db.raw("e.feedback_acknowledged_at IS NOT NULL as acknowledged"),

@@ -20,6 +20,7 @@ export interface ReviewRecord {
   reads: Read[];
   feedback: string;
   time_spent_seconds: number;
+  limited: boolean;
   credit: boolean;
   significant_disagreement: boolean;
   submitted_at: Date;
@@ -63,6 +64,7 @@ export async function insertReview(
     reads: Read[];
     feedback: string;
     timeSpentSeconds: number;
+    limited: boolean;
     credit: boolean;
     significantDisagreement: boolean;
     at?: Date;
@@ -79,6 +81,7 @@ export async function insertReview(
       reads: JSON.stringify(r.reads),
       feedback: r.feedback,
       time_spent_seconds: r.timeSpentSeconds,
+      limited: r.limited,
       credit: r.credit,
       significant_disagreement: r.significantDisagreement,
       ...(r.at ? { submitted_at: r.at } : {}),
@@ -103,7 +106,7 @@ export function doubleReadsWithReviewers(db: Q, examIds: string[]) {
     .join("users as u", "u.id", "r.reviewer_id")
     .whereIn("r.exam_id", examIds)
     .whereIn("a.kind", ["primary", "second"])
-    .select("r.exam_id", "a.kind", "u.name as reviewer", "u.id as reviewer_id", "r.scores", "r.reads", "r.feedback", "r.submitted_at") as Promise<
+    .select("r.exam_id", "a.kind", "u.name as reviewer", "u.id as reviewer_id", "r.scores", "r.reads", "r.feedback", "r.limited", "r.submitted_at") as Promise<
     {
       exam_id: string;
       kind: "primary" | "second";
@@ -112,6 +115,7 @@ export function doubleReadsWithReviewers(db: Q, examIds: string[]) {
       scores: Scores;
       reads: Read[];
       feedback: string;
+      limited: boolean;
       submitted_at: Date;
     }[]
   >;
@@ -141,6 +145,9 @@ export async function writeFinalResult(
     source: "single_read" | "double_read_agreed" | "adjudicated";
     decidedBy: string | null;
     credit: boolean;
+    /** Why it earned no credit, as decided (empty when it did). */
+    reasons: string[];
+    limited: boolean;
     note: string;
     at?: Date;
   },
@@ -155,6 +162,8 @@ export async function writeFinalResult(
       source: r.source,
       decided_by: r.decidedBy,
       credit: r.credit,
+      credit_reasons: r.reasons,
+      limited: r.limited,
       note: r.note,
       decided_at: r.at ?? trx.fn.now(),
     })

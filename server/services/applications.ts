@@ -48,6 +48,7 @@ const contentOf = (input: Input): ApplicationContent => ({
   cautions: input.cautions,
   views: input.views,
   findings: input.findings,
+  creditRule: input.creditRule,
 });
 
 const sameContent = (app: Application, content: ApplicationContent) => {

@@ -48,8 +48,18 @@ async function feedbackItems(db: Db, viewer: AuthUser, rows: ReviewedExamRow[], 
     const rubric = rubrics.find((r) => r?.id === row.rubric_id);
     const findings = of(outcomes, row.id).map(({ exam_id: _, ...o }) => o);
     const criteria = rubric ? criteriaFor(rubric.criteria, row.app_code) : [];
-    const significant = row.setting === "clinical" && findings.some((o) => o.outcome === "FP" || o.outcome === "FN");
-    const creditReasons = rubric ? creditFor(rubric.criteria, row.app_code, row.scores, significant, { minQuality: settings.minQualityForCredit }).reasons : [];
+    // The reasons kept with the result when it was decided; results decided before they were kept are worked out again.
+    const misreads = findings.filter((o) => o.outcome === "FP" || o.outcome === "FN").map((o) => o.label);
+    const creditReasons =
+      row.credit || row.credit_reasons.length > 0 || !rubric
+        ? row.credit_reasons
+        : creditFor(
+            rubric.criteria,
+            row.app_code,
+            row.scores,
+            { misreads, missingViews: [], limited: row.limited },
+            { minQuality: settings.minQualityForCredit },
+          ).reasons;
     const scored = criteria.map((c) => {
       const value = row.scores[c.key];
       const level = c.levels.find((l) => l.value === String(value));

@@ -23,7 +23,16 @@ import { unreadFeedbackOf } from "../repositories/notifications";
 import { criterionSnippets } from "../repositories/feedback";
 import { criteriaFor } from "../../shared/rubric/logic";
 import type { Criterion, Rubric } from "../../shared/rubric/types";
-import { accuracyFrom, countOutcomes, criterionAttainment, rate, rollingMean, type OutcomeCounts } from "../../shared/progress";
+import {
+  accuracyFrom,
+  countOutcomes,
+  countTowardThreshold,
+  criterionAttainment,
+  describeThresholdRule,
+  rate,
+  rollingMean,
+  type OutcomeCounts,
+} from "../../shared/progress";
 import { cusum } from "../../shared/stats/cusum";
 import type {
   ApplicationProgress,
@@ -101,10 +110,22 @@ export async function computeProgress(db: Q, programId: string, userIds: string[
       // Inactive applications are listed only when the learner has exams in them.
       if (!app.active && appExams.length === 0) continue;
       const reviewed = appExams.filter((e) => reviewedExamIds.has(e.id));
-      const credited = reviewed.filter((e) => e.credit).length;
+      // A study marked technically limited by patient factors is neither a success nor a failure of technique.
+      const judged = reviewed.filter((e) => !e.limited);
+      const rule = {
+        threshold: app.credit_threshold ?? settings.credentialingThreshold,
+        nonClinicalCap: app.credit_non_clinical_cap,
+        minPositive: app.credit_min_positive,
+        requireComplete: app.credit_require_complete,
+      };
+      const count = countTowardThreshold(
+        reviewed.map((e) => ({ setting: e.setting, credit: !!e.credit, limited: !!e.limited, positive: !!e.positive })),
+        rule,
+      );
+      const credited = count.credited;
 
       const path = cusum(
-        reviewed.map((e) => !e.credit),
+        judged.map((e) => !e.credit),
         cusumOptions,
       );
       const cusumView: CusumView = {
@@ -112,10 +133,10 @@ export async function computeProgress(db: Q, programId: string, userIds: string[
         s: path.s,
         h0: path.h0,
         h1: path.h1,
-        points: reviewed.map((e, i) => ({ n: i + 1, examId: e.id, performedAt: e.performed_at.toISOString(), failed: !e.credit, value: path.path[i] })),
+        points: judged.map((e, i) => ({ n: i + 1, examId: e.id, performedAt: e.performed_at.toISOString(), failed: !e.credit, value: path.path[i] })),
         signal: path.signal,
         signalAtAttempt: path.signalAt === null ? null : path.signalAt + 1,
-        signalAtDate: path.signalAt === null ? null : reviewed[path.signalAt].performed_at.toISOString(),
+        signalAtDate: path.signalAt === null ? null : judged[path.signalAt].performed_at.toISOString(),
       };
 
       const qualityDistribution: Record<string, number> = {};
@@ -156,10 +177,17 @@ export async function computeProgress(db: Q, programId: string, userIds: string[
         submitted: appExams.length,
         reviewed: reviewed.length,
         credited,
-        threshold: settings.credentialingThreshold,
-        remaining: Math.max(0, settings.credentialingThreshold - credited),
-        met: credited >= settings.credentialingThreshold,
-        creditRate: rate(credited, reviewed.length),
+        creditedBySetting: count.creditedBySetting,
+        counted: count.counted,
+        positives: count.positives,
+        limited: count.limited,
+        threshold: rule.threshold,
+        creditRule: rule,
+        creditRuleText: describeThresholdRule(rule, settings.minQualityForCredit),
+        remaining: count.remaining,
+        met: count.met,
+        indeterminateRate: rate(vsReviewer.indeterminate, vsReviewer.tp + vsReviewer.fp + vsReviewer.tn + vsReviewer.fn + vsReviewer.indeterminate),
+        creditRate: rate(credited, judged.length),
         qualityDistribution,
         cusum: cusumView,
         accuracyVsReviewer: accuracyFrom(vsReviewer),

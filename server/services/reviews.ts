@@ -13,7 +13,7 @@ import { examContext } from "../repositories/exams";
 import { getRubric } from "../repositories/rubrics";
 import { getSettings } from "../repositories/settings";
 import type { Rubric, Scores } from "../../shared/rubric/types";
-import { creditFor, disagreements, outcome, scoreIssues, significantDisagreement } from "../../shared/rubric/logic";
+import { creditFor, disagreements, misreadFindings, outcome, scoreIssues, significantDisagreement, type CreditFacts } from "../../shared/rubric/logic";
 import type { FindingRead } from "../../shared/catalogue";
 import { audit, auditAs } from "../repositories/audit";
 import { findAssignment, markSubmitted, openAdjudication, undecidedAdjudication } from "../repositories/assignments";
@@ -33,7 +33,11 @@ export interface ExamContext {
   application_code: string;
   double_read: boolean;
   findingKeys: string[];
+  findingLabels: { key: string; label: string }[];
   sonographerReads: Read[];
+  require_complete: boolean;
+  requiredViews: { key: string; label: string }[];
+  clipViews: string[];
 }
 
 /** 400 with every problem named, or nothing. */
@@ -49,10 +53,24 @@ export function assertValidReview(rubric: Rubric, exam: ExamContext, scores: Sco
   if (issues.length) throw new HttpError(400, "validation_failed", `${issues[0].path}: ${issues[0].message}`, issues);
 }
 
-/** Credit and disagreement of one read (the reviewer's reads are the reference). */
-export function assessRead(rubric: Rubric, exam: ExamContext, scores: Scores, reads: Read[], settings: ProgramSettings) {
+/** What the exam contributes to a read's credit: its misread findings and missing required views, by label. */
+export function creditFactsOf(exam: ExamContext, reads: Read[], limited: boolean): CreditFacts {
+  const label = new Map(exam.findingLabels.map((f) => [f.key, f.label]));
+  const misreads = misreadFindings(exam.sonographerReads, reads).map((k) => label.get(k) ?? k);
+  const have = new Set(exam.clipViews);
+  const missingViews = exam.require_complete ? exam.requiredViews.filter((v) => !have.has(v.key)).map((v) => v.label) : [];
+  return { misreads, missingViews, limited };
+}
+
+/**
+ * Credit of one read (the reviewer's reads are the reference) and the clinical exam's
+ * significant disagreements, which open a patient follow-up.
+ */
+export function assessRead(rubric: Rubric, exam: ExamContext, scores: Scores, reads: Read[], settings: ProgramSettings, limited = false) {
   const significant = significantDisagreement(exam.setting, exam.sonographerReads, reads);
-  const { credit, reasons } = creditFor(rubric.criteria, exam.application_code, scores, significant.length > 0, { minQuality: settings.minQualityForCredit });
+  const { credit, reasons } = creditFor(rubric.criteria, exam.application_code, scores, creditFactsOf(exam, reads, limited), {
+    minQuality: settings.minQualityForCredit,
+  });
   return { credit, reasons, significant };
 }
 
@@ -70,10 +88,13 @@ export async function settleExam(
     reviewId?: string | null;
     /** When the result became final (the last read's time); now by default. */
     at?: Date;
+    /** The deciding read marked the study technically limited by patient factors. */
+    limited?: boolean;
   },
   settings: ProgramSettings,
 ) {
-  const { credit, significant } = assessRead(rubric, exam, final.scores, final.reads, settings);
+  const limited = final.limited ?? false;
+  const { credit, reasons, significant } = assessRead(rubric, exam, final.scores, final.reads, settings, limited);
   await writeFinalResult(trx, {
     examId: exam.id,
     programId: exam.program_id,
@@ -83,6 +104,8 @@ export async function settleExam(
     source: final.source,
     decidedBy: final.decidedBy,
     credit,
+    reasons,
+    limited,
     note: final.note ?? "",
     at: final.at,
   });
@@ -99,7 +122,7 @@ export async function settleExam(
       programId: exam.program_id,
       examId: exam.id,
       reviewId: final.reviewId ?? null,
-      reason: `Clinically significant disagreement on a clinical exam: ${significant.join(", ")} (the sonographer's read differs from the ${final.source === "adjudicated" ? "adjudicated" : "reviewer's"} read). Consider whether the patient needs a callback.`,
+      reason: `Clinically significant disagreement on a clinical exam: ${significant.map((k) => exam.findingLabels.find((f) => f.key === k)?.label ?? k).join(", ")} (the clinician's read differs from the ${final.source === "adjudicated" ? "adjudicated" : "reviewer's"} read). Consider whether the patient needs a callback.`,
     });
   }
   await markExamReviewed(trx, exam.id);
@@ -132,7 +155,7 @@ export async function resolveAfterRead(
       trx,
       rubric,
       exam,
-      { scores: r.scores, reads: r.reads, source: "single_read", decidedBy: null, reviewId: r.id, at: r.submitted_at },
+      { scores: r.scores, reads: r.reads, source: "single_read", decidedBy: null, reviewId: r.id, at: r.submitted_at, limited: r.limited },
       settings,
     );
     return "final";
@@ -154,6 +177,7 @@ export async function resolveAfterRead(
         decidedBy: null,
         reviewId: primary.id,
         at: new Date(Math.max(primary.submitted_at.getTime(), second.submitted_at.getTime())),
+        limited: primary.limited,
       },
       settings,
     );
@@ -180,13 +204,13 @@ export async function recordReview(
     assignment: { id: string; kind: string };
     exam: ExamContext;
     rubric: Rubric;
-    body: { scores: Scores; reads: Read[]; feedback: string; timeSpentSeconds: number };
+    body: { scores: Scores; reads: Read[]; feedback: string; timeSpentSeconds: number; limited?: boolean };
     settings: ProgramSettings;
     ip?: string | null;
     at?: Date;
   },
 ) {
-  const { credit, significant } = assessRead(r.rubric, r.exam, r.body.scores, r.body.reads, r.settings);
+  const { credit, significant } = assessRead(r.rubric, r.exam, r.body.scores, r.body.reads, r.settings, r.body.limited ?? false);
   const review = await insertReview(trx, {
     programId: r.exam.program_id,
     assignmentId: r.assignment.id,
@@ -197,6 +221,7 @@ export async function recordReview(
     reads: r.body.reads,
     feedback: r.body.feedback,
     timeSpentSeconds: r.body.timeSpentSeconds,
+    limited: r.body.limited ?? false,
     credit,
     significantDisagreement: significant.length > 0,
     at: r.at,
@@ -302,7 +327,7 @@ export async function adjudicate(db: Db, appUrl: string, actor: Actor & { roles:
           trx,
           rubric,
           exam,
-          { scores: body.scores, reads: body.reads, source: "adjudicated", decidedBy: actor.userId, note: body.note },
+          { scores: body.scores, reads: body.reads, source: "adjudicated", decidedBy: actor.userId, note: body.note, limited: body.limited },
           settings,
         );
         await auditAs(trx, actor, { action: "exam.adjudicated", entityType: "exam", entityId: exam.id, details: { scores: body.scores, note: body.note } });

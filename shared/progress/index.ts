@@ -86,3 +86,73 @@ export function countOutcomes(pairs: Iterable<{ read: Read; reference: Read }>):
   for (const p of pairs) counts[classify(p.read, p.reference)] += 1;
   return counts;
 }
+
+/** One reviewed exam as the credit rule counts it. */
+export interface CountedExam {
+  setting: "clinical" | "educational" | "simulated";
+  credit: boolean;
+  /** Marked technically limited by patient factors: no credit, and not a failure. */
+  limited: boolean;
+  /** The final read has at least one positive finding. */
+  positive: boolean;
+}
+
+export interface ThresholdRule {
+  /** Credited exams needed. */
+  threshold: number;
+  /** The most educational and simulated credited exams that count toward it (null: no cap). */
+  nonClinicalCap: number | null;
+  /** Credited exams with a positive finding needed. */
+  minPositive: number;
+}
+
+export interface ThresholdCount {
+  credited: number;
+  creditedBySetting: Record<CountedExam["setting"], number>;
+  /** Credited exams that count toward the threshold: every clinical one, and educational and simulated ones up to the cap. */
+  counted: number;
+  /** Credited exams with a positive finding. */
+  positives: number;
+  limited: number;
+  remaining: number;
+  met: boolean;
+}
+
+/**
+ * The credit rule of an application over a clinician's reviewed exams. Clinical credited exams
+ * all count; educational and simulated ones together count up to the cap. The threshold is
+ * met when enough exams count and at least `minPositive` credited exams had a positive finding.
+ */
+export function countTowardThreshold(exams: readonly CountedExam[], rule: ThresholdRule): ThresholdCount {
+  const credited = exams.filter((e) => e.credit);
+  const creditedBySetting = { clinical: 0, educational: 0, simulated: 0 };
+  for (const e of credited) creditedBySetting[e.setting] += 1;
+  const nonClinical = creditedBySetting.educational + creditedBySetting.simulated;
+  const counted = creditedBySetting.clinical + (rule.nonClinicalCap === null ? nonClinical : Math.min(rule.nonClinicalCap, nonClinical));
+  const positives = credited.filter((e) => e.positive).length;
+  return {
+    credited: credited.length,
+    creditedBySetting,
+    counted,
+    positives,
+    limited: exams.filter((e) => e.limited).length,
+    remaining: Math.max(0, rule.threshold - counted),
+    met: counted >= rule.threshold && positives >= rule.minPositive,
+  };
+}
+
+/** The rule in words, as reports state it. */
+export function describeThresholdRule(rule: ThresholdRule & { requireComplete: boolean }, minQuality: number): string {
+  const parts = [`${rule.threshold} credited exams`];
+  parts.push(
+    rule.nonClinicalCap === null ? "educational and simulated exams count without a cap" : `at most ${rule.nonClinicalCap} of them educational or simulated`,
+  );
+  if (rule.minPositive > 0) parts.push(`at least ${rule.minPositive} with a positive finding`);
+  const credit = [
+    `overall image quality at least ${minQuality}`,
+    "no critical criterion failing",
+    "no misread finding (any setting)",
+    ...(rule.requireComplete ? ["a clip of every required view"] : []),
+  ];
+  return `${parts.join("; ")}. An exam earns credit with ${credit.join(", ")}; a study marked technically limited by patient factors earns none and is not a failure.`;
+}

@@ -106,24 +106,52 @@ export interface CreditRule {
 export const DEFAULT_CREDIT_RULE: CreditRule = { minQuality: 3 };
 
 /**
- * Credentialing credit (README "Review rules", derived results; the default): quality at or above the minimum, no
- * critical criterion at a failing level, and no clinically significant disagreement.
+ * The findings the clinician read definitely the other way from the reference (false positives
+ * and negatives), on any setting: a misread blocks credit on every setting, while the patient
+ * callback (significantDisagreement) stays for clinical exams only.
+ */
+export function misreadFindings(sonographerReads: { key: string; read: FindingRead }[], referenceReads: { key: string; read: FindingRead }[]): string[] {
+  return significantDisagreement("clinical", sonographerReads, referenceReads);
+}
+
+/** What the exam itself contributes to its credit beyond the scores. */
+export interface CreditFacts {
+  /** Labels of the findings misread (any setting). */
+  misreads: string[];
+  /** Labels of the required views with no clip, when the application's rule asks for a complete study. */
+  missingViews: string[];
+  /** The deciding read marked the study technically limited by patient factors. */
+  limited: boolean;
+}
+
+export const NO_CREDIT_FACTS: CreditFacts = { misreads: [], missingViews: [], limited: false };
+
+/** The reason a limited study gives (it earns no credit and is not counted as a failure of technique). */
+export const LIMITED_REASON = "Technically limited by patient factors: not counted toward credit, and not a failure of technique";
+
+/**
+ * Credentialing credit (README "Review rules", derived results): quality at or above the
+ * minimum, no critical criterion at a failing level, no misread finding, every required view
+ * when the application asks for a complete study, and not marked technically limited.
  */
 export function creditFor(
   criteria: Criterion[],
   applicationCode: string,
   scores: Scores,
-  hasSignificantDisagreement: boolean,
+  facts: CreditFacts,
   rule: CreditRule = DEFAULT_CREDIT_RULE,
 ): { credit: boolean; reasons: string[] } {
   const reasons: string[] = [];
+  if (facts.limited) reasons.push(LIMITED_REASON);
   const applicable = criteriaFor(criteria, applicationCode);
   const quality = applicable.find((c) => c.key === "quality");
-  if (quality && !(Number(scores.quality) >= rule.minQuality)) reasons.push(`Image quality below ${rule.minQuality}`);
+  // A limited study's image quality is the patient's, not the clinician's technique.
+  if (quality && !facts.limited && !(Number(scores.quality) >= rule.minQuality)) reasons.push(`Image quality below ${rule.minQuality}`);
   for (const c of applicable.filter((x) => x.critical)) {
     const level = c.levels.find((l) => l.value === String(scores[c.key]));
     if (level?.fails) reasons.push(`${c.label}: ${level.label}`);
   }
-  if (hasSignificantDisagreement) reasons.push("Clinically significant disagreement in the interpretation");
+  if (facts.misreads.length) reasons.push(`Misread: ${facts.misreads.join(", ")}`);
+  if (facts.missingViews.length) reasons.push(`Incomplete study: no clip of ${facts.missingViews.join(", ")}`);
   return { credit: reasons.length === 0, reasons };
 }

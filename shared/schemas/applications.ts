@@ -21,6 +21,20 @@ export const applicationGuideSchema = z.object({
 });
 export type ApplicationGuide = z.infer<typeof applicationGuideSchema>;
 
+/**
+ * How an application's credited exams reach its threshold: the threshold (null: the
+ * program's), the most educational and simulated credited exams that count toward it (null:
+ * no cap), the credited exams with a positive finding it needs, and whether credit needs
+ * every required view.
+ */
+export const creditRuleSchema = z.object({
+  threshold: z.number().int().nullable(),
+  nonClinicalCap: z.number().int().nullable(),
+  minPositive: z.number().int(),
+  requireComplete: z.boolean(),
+});
+export type CreditRuleOfApplication = z.infer<typeof creditRuleSchema>;
+
 export const applicationViewSchema = z.object({ key: z.string(), label: z.string(), required: z.boolean(), hint: z.string() });
 export const applicationFindingSchema = z.object({ key: z.string(), label: z.string(), hint: z.string() });
 
@@ -38,6 +52,7 @@ export const applicationSchema = z.object({
   cautions: z.array(z.string()),
   views: z.array(applicationViewSchema),
   findings: z.array(applicationFindingSchema),
+  creditRule: creditRuleSchema,
   publishedAt: z.string(),
 });
 export type Application = z.infer<typeof applicationSchema>;
@@ -119,6 +134,26 @@ const applicationFields = z.object({
     .array(z.object({ key: keySchema("finding"), label: labelSchema("finding"), hint: hintSchema }))
     .max(40, "At most 40 findings")
     .superRefine(uniqueKeys("finding")),
+  creditRule: z
+    .object({
+      threshold: z
+        .number({ error: "Enter the number of credited exams, or leave it empty for the program's" })
+        .int("Enter a whole number")
+        .min(1, "At least 1")
+        .max(1000, "At most 1000")
+        .nullable()
+        .default(null),
+      nonClinicalCap: z
+        .number({ error: "Enter a whole number, or leave it empty for no cap" })
+        .int("Enter a whole number")
+        .min(0, "0 or more")
+        .max(1000, "At most 1000")
+        .nullable()
+        .default(null),
+      minPositive: z.number({ error: "Enter a whole number" }).int("Enter a whole number").min(0, "0 or more").max(1000, "At most 1000").default(0),
+      requireComplete: z.boolean().default(false),
+    })
+    .default({ threshold: null, nonClinicalCap: null, minPositive: 0, requireComplete: false }),
 });
 
 function depthInOrder(a: { typicalDepthCm: [number, number] }, ctx: z.RefinementCtx) {

@@ -108,10 +108,23 @@ export const applicationProgressSchema = z.object({
   submitted: z.number(),
   reviewed: z.number(),
   credited: z.number(),
+  creditedBySetting: z.object({ clinical: z.number(), educational: z.number(), simulated: z.number() }),
+  /** Credited exams that count toward the threshold (educational and simulated ones up to the cap). */
+  counted: z.number(),
+  /** Credited exams with a positive finding. */
+  positives: z.number(),
+  /** Reviewed exams marked technically limited by patient factors (no credit, not failures). */
+  limited: z.number(),
   threshold: z.number(),
-  /** Credited exams still needed (0 once met). */
+  /** The application's credit rule as applied (threshold resolved from the program's when the application sets none). */
+  creditRule: z.object({ threshold: z.number(), nonClinicalCap: z.number().nullable(), minPositive: z.number(), requireComplete: z.boolean() }),
+  /** The rule in words, as reports state it. */
+  creditRuleText: z.string(),
+  /** Counted exams still needed (0 once enough count). */
   remaining: z.number(),
   met: z.boolean(),
+  /** Share of the clinician's finding reads (on reviewed exams) that were indeterminate. */
+  indeterminateRate: rateSchema,
   /** Share of reviewed exams credited. */
   creditRate: rateSchema,
   /** Counts of final overall image quality levels (value → exams). */

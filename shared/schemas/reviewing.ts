@@ -74,6 +74,7 @@ export const workspaceDraftSchema = z.object({
   reads: z.array(readSchema),
   feedback: z.string(),
   timeSpentSeconds: z.number().int(),
+  limited: z.boolean(),
   savedAt: z.string(),
 });
 export type ReviewDraft = z.infer<typeof workspaceDraftSchema>;
@@ -111,6 +112,8 @@ export const reviewerReadSchema = z.object({
   scores: z.record(z.string(), scoreValueSchema),
   reads: z.array(readSchema),
   feedback: z.string(),
+  /** Marked technically limited by patient factors. */
+  limited: z.boolean(),
   submittedAt: z.string(),
 });
 

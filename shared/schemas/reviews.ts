@@ -18,9 +18,12 @@ export const submitReviewSchema = z.object({
     .min(0)
     .max(24 * 3600)
     .default(0),
+  /** The study is technically limited by patient factors (habitus, air, a patient who cannot move): no credit, and not a failure of technique. */
+  limited: z.boolean().default(false),
 });
 
 export const reviewDraftSchema = z.object({
+  limited: z.boolean().default(false),
   scores: z.record(z.string().max(40), scoreValueSchema).default({}),
   reads: z.array(readSchema).max(50).default([]),
   feedback: z.string().max(5000).default(""),
@@ -40,6 +43,7 @@ export const adjudicateSchema = z.object({
   scores: z.record(z.string().max(40), scoreValueSchema),
   reads: z.array(readSchema).max(50).default([]),
   note: z.string().max(2000).default(""),
+  limited: z.boolean().default(false),
 });
 
 export const snippetInputSchema = z.object({

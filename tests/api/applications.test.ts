@@ -4,8 +4,7 @@
 // invalid catalogue that name the field. Expected labels come from the built-in catalogue
 // (shared/catalogue.ts) and the default rubric (shared/rubric/default-rubric.ts).
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import request from "supertest";
-import { makeExam, makeKit, makeMember, makeProgram, tokenFor, type TestKit, type TestMember } from "./helpers";
+import { callAs, makeExam, makeKit, makeMember, makeProgram, type TestKit, type TestMember } from "./helpers";
 import { queueSubmittedExam } from "../../server/services/queue";
 import { DEFAULT_CATALOGUE } from "../../shared/catalogue";
 
@@ -34,14 +33,7 @@ async function setup(): Promise<Setup> {
   };
 }
 
-const call = async (m: TestMember, method: "get" | "post" | "put", path: string, body?: object) => {
-  const agent = request(kit.app);
-  const req = (method === "get" ? agent.get(path) : method === "post" ? agent.post(path) : agent.put(path)).set(
-    "Authorization",
-    `Bearer ${await tokenFor(kit, m)}`,
-  );
-  return body ? req.send(body) : req;
-};
+const call = (m: TestMember, method: "get" | "post" | "put", path: string, body?: object) => callAs(kit, m, method, path, body);
 
 type Wire = {
   id: string;

@@ -113,6 +113,16 @@ export async function tokenFor(kit: TestKit, m: { id: string; programId: string 
   return signSessionToken(kit.config.jwtSecret, { sub: m.id, sid, pid: m.programId }, 600);
 }
 
+/** A request as a member, with their Bearer token (and the body, when given). */
+export async function callAs(kit: TestKit, m: { id: string; programId: string }, method: "get" | "post" | "put", path: string, body?: object) {
+  const agent = request(kit.app);
+  const req = (method === "get" ? agent.get(path) : method === "post" ? agent.post(path) : agent.put(path)).set(
+    "Authorization",
+    `Bearer ${await tokenFor(kit, m)}`,
+  );
+  return body ? req.send(body) : req;
+}
+
 export async function login(kit: TestKit, email: string, password = TEST_PASSWORD) {
   return request(kit.app).post("/api/auth/login").send({ email, password });
 }
@@ -153,7 +163,7 @@ export const linkToken = (mail: Mail) => {
 /** A draft exam row for a sonographer (no clips). */
 export async function makeExam(db: Db, programId: string, sonographerId: string, opts: { application?: string; status?: "draft" | "submitted" } = {}) {
   const app = await db("applications")
-    .where({ program_id: programId, code: opts.application ?? "efast" })
+    .where({ program_id: programId, code: opts.application ?? "efast", status: "published" })
     .first("id");
   const submitted = opts.status === "submitted";
   const [exam] = await db("exams")

@@ -54,7 +54,8 @@ const post = async (m: TestMember, path: string, body: object) =>
 async function reviewedExam(s: Setup) {
   const exam = await makeExam(kit.db, s.programId, s.sonographer.id, { status: "submitted" });
   await kit.db("exams").where("id", exam.id).update({ setting: "educational" });
-  await kit.db("exam_findings").insert(EFAST_FINDINGS.map((key) => ({ exam_id: exam.id, finding_key: key, read: "negative" })));
+  // The clinician's reads match the reviewer's (a misread would block credit on any setting).
+  await kit.db("exam_findings").insert(READS.map((r) => ({ exam_id: exam.id, finding_key: r.key, read: r.read })));
   await kit.db.transaction((trx) => queueSubmittedExam(trx, { id: exam.id, program_id: s.programId, setting: "educational" }, 0));
   const claim = await post(s.reader, "/api/queue/next", {});
   expect(claim.status, JSON.stringify(claim.body)).toBe(200);

@@ -214,7 +214,7 @@ describe("scoring and results", () => {
     expect(fb.status).toBe(200);
     expect(fb.body.criteria.find((c: { key: string }) => c.key === "quality").level.anchor).toMatch(/Good, with minor flaws/);
     expect(fb.body.comments[0]).toMatchObject({ text: "Well fanned views.", reviewer: s.reviewers[0].name });
-    expect(fb.body.creditReasons).toEqual(["Clinically significant disagreement in the interpretation"]);
+    expect(fb.body.creditReasons).toEqual(["Misread: Free fluid, right upper quadrant"]);
   });
 
   it("gives credit by the program's rule: quality at least 3, no failing critical level", async () => {

@@ -148,7 +148,8 @@ test("a disagreeing double read is adjudicated, followed up and its feedback ack
     await expect(page.getByRole("heading", { level: 1, name: "Follow-ups" })).toBeVisible();
     const followUp = page.getByRole("row").filter({ has: page.getByRole("link", { name: exam.code }) });
     await expect(followUp).toContainText("Open");
-    await expect(followUp).toContainText(POSITIVE_FINDING);
+    // The reason names the finding by its label (shared/catalogue.ts), not its key.
+    await expect(followUp).toContainText("Free fluid, right upper quadrant");
     await followUp.getByRole("button", { name: `Update follow-up on ${exam.code}` }).click();
     const dialog = page.getByRole("dialog", { name: `Follow-up on ${exam.code}` });
     await dialog.getByRole("radio", { name: "In progress" }).check();

@@ -34,6 +34,12 @@ export interface ApplicationFormValues {
   cautions: string;
   views: { key: string; label: string; required: boolean; hint: string }[];
   findings: { key: string; label: string; hint: string }[];
+  /** Empty: the program's threshold. */
+  creditThreshold: string;
+  /** Empty: no cap. */
+  nonClinicalCap: string;
+  minPositive: string;
+  requireComplete: boolean;
 }
 
 export function formValuesOf(app: Application | null): ApplicationFormValues {
@@ -50,6 +56,10 @@ export function formValuesOf(app: Application | null): ApplicationFormValues {
       cautions: "",
       views: [{ key: "", label: "", required: true, hint: "" }],
       findings: [],
+      creditThreshold: "",
+      nonClinicalCap: "",
+      minPositive: "0",
+      requireComplete: false,
     };
   return {
     code: app.code,
@@ -63,6 +73,10 @@ export function formValuesOf(app: Application | null): ApplicationFormValues {
     cautions: app.cautions.join("\n"),
     views: app.views.map((v) => ({ ...v })),
     findings: app.findings.map((f) => ({ ...f })),
+    creditThreshold: app.creditRule.threshold === null ? "" : String(app.creditRule.threshold),
+    nonClinicalCap: app.creditRule.nonClinicalCap === null ? "" : String(app.creditRule.nonClinicalCap),
+    minPositive: String(app.creditRule.minPositive),
+    requireComplete: app.creditRule.requireComplete,
   };
 }
 
@@ -88,6 +102,12 @@ export function bodyOf(values: ApplicationFormValues, isNew: boolean): Applicati
     cautions: lines(values.cautions),
     views: values.views,
     findings: values.findings,
+    creditRule: {
+      threshold: values.creditThreshold.trim() === "" ? null : number(values.creditThreshold),
+      nonClinicalCap: values.nonClinicalCap.trim() === "" ? null : number(values.nonClinicalCap),
+      minPositive: values.minPositive.trim() === "" ? 0 : number(values.minPositive),
+      requireComplete: values.requireComplete,
+    },
   };
   return isNew ? { ...body, code: values.code } : body;
 }
@@ -96,6 +116,9 @@ export function bodyOf(values: ApplicationFormValues, isNew: boolean): Applicati
 export function fieldOf(path: string): FieldPath<ApplicationFormValues> | "root" {
   if (path === "typicalDepthCm" || path === "typicalDepthCm.0") return "depthMin";
   if (path === "typicalDepthCm.1") return "depthMax";
+  if (path === "creditRule.threshold") return "creditThreshold";
+  if (path === "creditRule.nonClinicalCap") return "nonClinicalCap";
+  if (path === "creditRule.minPositive") return "minPositive";
   const top = path.split(".")[0];
   if (top === "presets" || top === "cautions" || top === "usualTransducers") return top;
   if (/^(views|findings)\.\d+\.(key|label|hint)$/.test(path)) return path as FieldPath<ApplicationFormValues>;
@@ -341,6 +364,42 @@ export function ApplicationForm({ application, readOnly, busy, error, onSubmit, 
             <Plus aria-hidden="true" className="size-4" />
             Add finding
           </Button>
+        </section>
+        <section aria-labelledby="app-credit" className="space-y-4 rounded-lg border border-slate-200 bg-white p-5">
+          <h2 id="app-credit" className="text-lg font-semibold text-ink-950">
+            Credit rule
+          </h2>
+          <p className="text-sm text-slate-600">
+            How credited exams of this application count toward credentialing. Reports state this rule beside every count. A misread finding and a critical
+            criterion at a failing level block credit on every setting.
+          </p>
+          <div className="grid gap-4 sm:grid-cols-3">
+            <TextField
+              label="Credited exams needed"
+              hint="Empty: the program's threshold."
+              inputMode="numeric"
+              error={errors.creditThreshold?.message}
+              {...form.register("creditThreshold")}
+            />
+            <TextField
+              label="Educational and simulated exams counted, at most"
+              hint="Empty: no cap."
+              inputMode="numeric"
+              error={errors.nonClinicalCap?.message}
+              {...form.register("nonClinicalCap")}
+            />
+            <TextField
+              label="Credited exams with a positive finding, at least"
+              hint="0: no minimum."
+              inputMode="numeric"
+              error={errors.minPositive?.message}
+              {...form.register("minPositive")}
+            />
+          </div>
+          <label className="inline-flex items-center gap-2 text-sm text-ink-900">
+            <input type="checkbox" className="size-4 accent-sea-600" {...form.register("requireComplete")} />
+            Credit needs a clip of every required view
+          </label>
         </section>
       </fieldset>
       <FormMessage message={errors.root?.message ?? (error ? error.message : null)} />

@@ -56,7 +56,7 @@ function useOversightMutation<TVars, TResult>(fn: (vars: TVars) => Promise<TResu
 }
 
 /** What a QA lead decides: the final scores, the final finding reads and a note (as the server reads it). */
-export type AdjudicateBody = z.output<typeof adjudicateSchema>;
+export type AdjudicateBody = z.input<typeof adjudicateSchema>;
 
 export function useAdjudicate() {
   return useOversightMutation(({ examId, body }: { examId: string; body: AdjudicateBody }) =>

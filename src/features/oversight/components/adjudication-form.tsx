@@ -15,7 +15,7 @@ import { errorMessage, fieldErrors } from "../../../lib/api-errors";
 import { READ_LABELS } from "../../../lib/catalogue";
 import type { AdjudicateBody, Adjudication } from "../api/oversight";
 
-type FormValues = { scores: Record<string, string>; reads: Record<string, FindingRead | "">; note: string };
+type FormValues = { scores: Record<string, string>; reads: Record<string, FindingRead | "">; note: string; limited: boolean };
 
 const th = "px-3 py-2 font-semibold";
 const td = "px-3 py-2 align-top";
@@ -76,6 +76,7 @@ export function AdjudicationForm({ item, findings, sonographerReads, busy, error
       scores: Object.fromEntries(criteria.map((c) => [c.key, primary?.scores[c.key] !== undefined ? String(primary.scores[c.key]) : ""])),
       reads: Object.fromEntries(findings.map((f) => [f.key, readOf(primary, f.key) ?? ""])),
       note: "",
+      limited: primary?.limited ?? false,
     },
   });
   const errors = form.formState.errors;
@@ -103,7 +104,7 @@ export function AdjudicationForm({ item, findings, sonographerReads, busy, error
       } else reads.push({ key: f.key, read: r });
     }
     if (!first) return;
-    onSubmit({ scores, reads, note: values.note.trim() });
+    onSubmit({ scores, reads, note: values.note.trim(), limited: values.limited });
   });
 
   const differs = new Set(item.disagreements);
@@ -259,6 +260,13 @@ export function AdjudicationForm({ item, findings, sonographerReads, busy, error
           className="mt-1 block w-full rounded-md border border-slate-400 bg-white px-3 py-2 text-base focus-visible:outline-2 focus-visible:outline-offset-1 focus-visible:outline-sea-600"
           {...form.register("note")}
         />
+        <label className="mt-3 flex items-start gap-2 text-sm text-ink-900">
+          <input type="checkbox" className="mt-0.5 size-4 accent-sea-600" {...form.register("limited")} />
+          <span>
+            <span className="font-semibold">Technically limited by patient factors</span>
+            <span className="block text-slate-600">No credit, and not counted as poor technique.</span>
+          </span>
+        </label>
         <div className="mt-3">
           <FormMessage message={error ? errorMessage(error, "The final result was not saved; try again.") : null} />
         </div>

@@ -4,7 +4,7 @@
 // Presentational: the learner's Progress screen and the QA lead's page of a sonographer
 // both pass in what GET …/progress answered.
 import { CircleCheck, Hourglass } from "lucide-react";
-import type { Progress } from "../../../../shared/schemas/progress";
+import type { ApplicationProgress, Progress } from "../../../../shared/schemas/progress";
 import { tableClasses as t } from "../../../components/ui/report-section";
 import { EmptyState } from "../../../components/ui/states";
 import { formatDate } from "../../../lib/format";
@@ -22,7 +22,10 @@ function Figure({ label, value, detail }: { label: string; value: string; detail
 }
 
 /** Met, or how many credited exams are still needed, as an icon with words. */
-export function ThresholdStatus({ met, remaining }: { met: boolean; remaining: number }) {
+/** Met, or what is still missing: counted exams, or credited exams with a positive finding. */
+export function ThresholdStatus({ app }: { app: Pick<ApplicationProgress, "met" | "remaining" | "positives" | "creditRule"> }) {
+  const { met, remaining } = app;
+  const positivesMissing = Math.max(0, app.creditRule.minPositive - app.positives);
   return met ? (
     <span className="inline-flex items-center gap-1 font-semibold text-sea-800">
       <CircleCheck aria-hidden="true" className="size-4" />
@@ -31,7 +34,9 @@ export function ThresholdStatus({ met, remaining }: { met: boolean; remaining: n
   ) : (
     <span className="inline-flex items-center gap-1 text-slate-700">
       <Hourglass aria-hidden="true" className="size-4" />
-      {remaining} more needed
+      {remaining > 0 ? `${remaining} more needed` : null}
+      {remaining > 0 && positivesMissing > 0 ? "; " : null}
+      {positivesMissing > 0 ? `${positivesMissing} more with a positive finding` : null}
     </span>
   );
 }
@@ -92,15 +97,15 @@ export function ProgressSummary({ progress }: { progress: Progress }) {
                     {a.application.name}
                   </th>
                   <td className="px-3 py-2">
-                    <ThresholdBar credited={a.credited} threshold={a.threshold} label={`${a.application.name}: credited exams toward the threshold`} />
+                    <ThresholdBar credited={a.counted} threshold={a.threshold} label={`${a.application.name}: credited exams counted toward the threshold`} />
                     <span className="sr-only">
-                      {a.credited} of {a.threshold}
+                      {a.counted} of {a.threshold}
                     </span>
                   </td>
                   <td className={t.tdNum}>{a.reviewed}</td>
                   <td className={t.tdNum}>{a.submitted}</td>
                   <td className="px-3 py-2 text-sm">
-                    <ThresholdStatus met={a.met} remaining={a.remaining} />
+                    <ThresholdStatus app={a} />
                   </td>
                 </tr>
               ))}

@@ -24,6 +24,7 @@ import { TextField } from "../../../components/ui/text-field";
 import { isIsoDay } from "../../../lib/date-range";
 import { useReportDownload } from "../api/credentialing-report";
 import { myProgressQuery } from "../api/progress";
+import { rateText } from "../../../lib/stat-format";
 
 const WINDOWS = [5, 10, 20] as const;
 
@@ -100,6 +101,23 @@ function ApplicationDetail({ app, progress }: { app: ApplicationProgress; progre
         <AccuracyTable application={app} />
       </ReportSection>
     </>
+  );
+}
+
+/** The application's credit rule as applied, and the counts it decides on. */
+function CreditRuleNote({ app }: { app: ApplicationProgress }) {
+  const s = app.creditedBySetting;
+  return (
+    <div className="mb-6 space-y-1 text-sm text-slate-700">
+      <p>
+        <span className="font-semibold text-ink-900">Credit rule: </span>
+        {app.creditRuleText}
+      </p>
+      <p className="tabular-nums">
+        Credited: {s.clinical} clinical, {s.educational} educational, {s.simulated} simulated · {app.positives} with a positive finding · {app.limited}{" "}
+        technically limited · indeterminate reads {rateText(app.indeterminateRate)}
+      </p>
+    </div>
   );
 }
 
@@ -228,12 +246,13 @@ export default function ProgressPage() {
                 <h2 className="text-xl font-semibold text-ink-950">{app.application.name}</h2>
                 <p className="flex flex-wrap items-center gap-x-4 gap-y-1 text-sm tabular-nums text-slate-700">
                   <span>
-                    {app.credited} of {app.threshold} credited
+                    {app.counted} of {app.threshold} counted
                   </span>
-                  <ThresholdStatus met={app.met} remaining={app.remaining} />
+                  <ThresholdStatus app={app} />
                   <span>{cusumSentence(app.cusum)}</span>
                 </p>
               </div>
+              <CreditRuleNote app={app} />
               <ApplicationDetail app={app} progress={progress} />
             </div>
           ) : null}

@@ -16,6 +16,8 @@ export interface DraftBody {
   reads: { key: string; read: FindingRead }[];
   feedback: string;
   timeSpentSeconds: number;
+  /** Technically limited by patient factors: no credit, and not a failure of technique. */
+  limited: boolean;
 }
 
 export interface SubmitBody extends DraftBody {

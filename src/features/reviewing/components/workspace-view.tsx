@@ -60,6 +60,7 @@ export function WorkspaceView({ workspace, application, notice }: { workspace: W
   );
   const [reads, setReads] = useState<Record<string, FindingRead>>(() => Object.fromEntries((draft?.reads ?? []).map((r) => [r.key, r.read])));
   const [feedback, setFeedback] = useState(draft?.feedback ?? "");
+  const [limited, setLimited] = useState(draft?.limited ?? false);
   const [version, setVersion] = useState(0);
   const [issues, setIssues] = useState<Record<string, string>>({});
   const [focusedCriterion, setFocusedCriterion] = useState<string | null>(null);
@@ -93,6 +94,7 @@ export function WorkspaceView({ workspace, application, notice }: { workspace: W
     reads: exam.findings.filter((f) => reads[f.key]).map((f) => ({ key: f.key, read: reads[f.key] })),
     feedback,
     timeSpentSeconds: seconds.current,
+    limited,
   });
   const autosave = useDraftAutosave(assignment.id, body, version, draft?.savedAt ?? null);
   const leaseExpiresAt = autosave.state.kind === "saved" ? autosave.state.leaseExpiresAt : assignment.leaseExpiresAt;
@@ -316,6 +318,24 @@ export function WorkspaceView({ workspace, application, notice }: { workspace: W
             focusedCriterion={focusedCriterion}
             error={issues.feedback}
           />
+
+          <label className="flex items-start gap-2 rounded-md border border-slate-200 bg-white px-2.5 py-2 text-sm text-ink-900">
+            <input
+              type="checkbox"
+              checked={limited}
+              onChange={(e) => {
+                setLimited(e.target.checked);
+                changed();
+              }}
+              className="mt-0.5 size-4 accent-sea-600"
+            />
+            <span>
+              <span className="font-semibold">Technically limited by patient factors</span>
+              <span className="block text-xs text-slate-600">
+                Body habitus, bowel gas, subcutaneous air, a patient who cannot be positioned: the exam earns no credit and is not counted as poor technique.
+              </span>
+            </span>
+          </label>
 
           <div className="sticky bottom-0 space-y-2 border-t border-slate-200 bg-paper pt-2 pb-2">
             <FormMessage
