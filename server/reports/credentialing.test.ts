@@ -110,7 +110,7 @@ describe("credentialing report PDF, one sonographer", () => {
     // alpha 0.05, beta 0.2 → s = ln(4/3)/ln(8/3) = 0.2933, h0 = −ln(4.75)/ln(8/3) = −1.589,
     // h1 = ln(16)/ln(8/3) = 2.827. Failures at attempts 2, 5, 9 and 14, so after k ≥ 14
     // attempts the path is 4 − 0.2933k, which first reaches −1.589 at k = 20 (2026-09-20).
-    expect(text).toMatch(row("Trauma (FAST / eFAST)", "competent signalled at attempt 20 (2026-09-20)", "0.2", "0.4", "0.05", "0.2", "−1.59 / 2.83"));
+    expect(text).toMatch(row("Trauma (FAST / eFAST)", "acceptable rate reached at attempt 20 (2026-09-20)", "0.2", "0.4", "0.05", "0.2", "−1.59 / 2.83"));
     // Cardiac: p0 0.1, p1 0.2, alpha = beta = 0.1 → 1 − s = 0.8548, h1 = ln 9 / ln 2.25 = 2.710;
     // four failures in a row: 2.564 after three, 3.419 after four.
     expect(text).toMatch(row("Focused cardiac", "unacceptable signalled at attempt 4 (2026-09-04)", "0.1", "0.2", "0.1", "0.1", "−2.71 / 2.71"));

@@ -46,14 +46,14 @@ export function formatRate(r: Rate): string {
   return `${percent(r.successes, r.n)}% (${Math.round(lo * 100)}–${Math.round(hi * 100)}%, n = ${r.n})`;
 }
 
-/** The learning-curve result as a sentence fragment ("competent signalled at attempt 18 (2026-10-02)"). */
+/** The learning-curve result as a sentence fragment ("acceptable rate reached at attempt 18 (2026-10-02)"); a statistical signal, not a certification. */
 export function cusumSentence(c: CusumView): string {
   if (c.signal === "none" || c.signalAtAttempt === null) {
     const n = c.points.length;
     return `no signal yet after ${n} ${n === 1 ? "attempt" : "attempts"}`;
   }
   const date = c.signalAtDate ? ` (${c.signalAtDate.slice(0, 10)})` : "";
-  return `${c.signal} signalled at attempt ${c.signalAtAttempt}${date}`;
+  return `${c.signal === "competent" ? "acceptable rate reached" : "unacceptable signalled"} at attempt ${c.signalAtAttempt}${date}`;
 }
 
 /** "all dates", "2026-01-01 to 2026-06-30", "from 2026-01-01" or "up to 2026-06-30". */
@@ -350,10 +350,7 @@ function sonographerSection(pg: Pager, data: CredentialingReportData, p: Progres
     ["E-mail", p.sonographer.email],
     ["Dates", formatRange(data.range)],
     ["Generated", formatGenerated(data.generatedAt)],
-    [
-      "Credit rule",
-      `per application, as stated under the counts (program default ${s.threshold} credited exams); credit needs overall image quality of at least ${s.minQualityForCredit}, no critical criterion failing and no misread finding`,
-    ],
+    ["Credit rule", `per application, stated under the counts (program default: ${s.threshold} credited exams)`],
   ]);
 
   pg.sectionTitle("Exams per application");
@@ -406,7 +403,7 @@ function programSummary(pg: Pager, data: CredentialingReportData) {
       { header: "Reviewed", width: 48, align: "right" },
       { header: "Credited", width: 45, align: "right" },
       { header: "Applications met", width: 56, align: "right" },
-      { header: "Competence signalled", width: 55, align: "right" },
+      { header: "Acceptable rate reached", width: 55, align: "right" },
     ];
     const signalled = (p: Progress) => p.applications.filter((a) => a.cusum.signal === "competent").length;
     pg.table(

@@ -46,6 +46,13 @@ export const SETTING_LABELS: Record<ExamSetting, string> = {
   simulated: "Simulated",
 };
 
+/** What each setting means, where the clinician chooses it. */
+export const SETTING_HINTS: Record<ExamSetting, string> = {
+  clinical: "a patient in your care, scanned to decide their care; a misread may need a patient callback.",
+  educational: "a scan for learning (a volunteer, a teaching session, or a patient scanned only for practice); it does not guide care.",
+  simulated: "a simulator or phantom; no patient.",
+};
+
 export const READ_LABELS: Record<FindingRead, string> = {
   positive: "Positive",
   negative: "Negative",

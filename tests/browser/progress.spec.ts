@@ -232,9 +232,9 @@ test("a learner sees threshold, learning curve, trends and accuracy, and a confi
       (iso) => new Intl.DateTimeFormat(undefined, { dateStyle: "medium" }).format(new Date(iso)),
       performed[2].toISOString(),
     );
-    await expect(main.getByTestId("cusum-sentence")).toHaveText(`Competence signalled at attempt ${signalAt} (${signalDate}).`);
+    await expect(main.getByTestId("cusum-sentence")).toHaveText(`Acceptable failure rate reached at attempt ${signalAt} (${signalDate}).`);
     await expect(main.getByRole("img", { name: /^Learning curve for Lung \/ thoracic: 4 reviewed exams, 1 without credit\./ })).toBeVisible();
-    await expect(main.getByText(`Competence limit h0 = ${signed(limits.h0)}`)).toBeVisible();
+    await expect(main.getByText(`Acceptable-rate limit h0 = ${signed(limits.h0)}`)).toBeVisible();
     await expect(main.getByText(`Unacceptable limit h1 = ${signed(limits.h1)}`)).toBeVisible();
     await expect(main.getByText("Acceptable failure rate (p0)").locator("..")).toContainText("10%");
     await expect(main.getByText("Unacceptable failure rate (p1)").locator("..")).toContainText("50%");

@@ -7,7 +7,7 @@ import { FINDING_READS, SETTINGS, TRANSDUCERS, type FindingRead } from "../../..
 import type { ExamFieldsInput } from "../../../../shared/schemas/exams";
 import { SelectField } from "../../../components/ui/select-field";
 import { FieldError, TextField } from "../../../components/ui/text-field";
-import { READ_LABELS, SETTING_LABELS, TRANSDUCER_LABELS } from "../../../lib/catalogue";
+import { READ_LABELS, SETTING_HINTS, SETTING_LABELS, TRANSDUCER_LABELS } from "../../../lib/catalogue";
 import { isoToLocalInput, localInputToIso } from "../../../lib/datetime-local";
 
 export type ExamForm = UseFormReturn<ExamFieldsInput, unknown, unknown>;
@@ -126,8 +126,15 @@ export function ExamDetailsFields({ form, applications }: { form: ExamForm; appl
         />
       </div>
 
-      <fieldset>
+      <fieldset aria-describedby="setting-hint setting-error">
         <legend className={legend}>Setting</legend>
+        <ul id="setting-hint" className="mt-0.5 space-y-0.5 text-sm text-slate-600">
+          {SETTINGS.map((s) => (
+            <li key={s}>
+              <span className="font-semibold text-slate-700">{SETTING_LABELS[s]}:</span> {SETTING_HINTS[s]}
+            </li>
+          ))}
+        </ul>
         <div className="mt-1 flex flex-wrap gap-1.5">
           {SETTINGS.map((s) => (
             <label key={s} className={radioRow}>

@@ -10,7 +10,7 @@ export type ProgressViewer = "learner" | "lead";
 /** The learning curve's result as one plain sentence. */
 export function cusumSentence(c: CusumView, viewer: ProgressViewer = "learner"): string {
   if (c.signal === "competent" && c.signalAtAttempt !== null)
-    return `Competence signalled at attempt ${c.signalAtAttempt}${c.signalAtDate ? ` (${formatDate(c.signalAtDate)})` : ""}`;
+    return `Acceptable failure rate reached at attempt ${c.signalAtAttempt}${c.signalAtDate ? ` (${formatDate(c.signalAtDate)})` : ""}`;
   if (c.signal === "unacceptable" && c.signalAtAttempt !== null)
     return `Unacceptable failure rate signalled at attempt ${c.signalAtAttempt}${c.signalAtDate ? ` (${formatDate(c.signalAtDate)})` : ""} — ${viewer === "learner" ? "talk to your QA lead" : "worth a conversation with the sonographer"}`;
   const n = c.points.length;
@@ -23,7 +23,11 @@ export function cusumParameters(c: Pick<CusumView, "p0" | "p1" | "alpha" | "beta
     { key: "p0", words: "Acceptable failure rate (p0)", value: percent(c.p0, c.p0 * 100 < 1 ? 1 : 0) },
     { key: "p1", words: "Unacceptable failure rate (p1)", value: percent(c.p1, c.p1 * 100 < 1 ? 1 : 0) },
     { key: "alpha", words: "Risk of signalling “unacceptable” when the rate is acceptable (α)", value: percent(c.alpha, c.alpha * 100 < 1 ? 1 : 0) },
-    { key: "beta", words: "Risk of signalling competence when the rate is unacceptable (β)", value: percent(c.beta, c.beta * 100 < 1 ? 1 : 0) },
+    {
+      key: "beta",
+      words: "Risk of signalling the acceptable rate reached when the rate is unacceptable (β)",
+      value: percent(c.beta, c.beta * 100 < 1 ? 1 : 0),
+    },
   ];
 }
 

@@ -15,7 +15,7 @@ import { FAILURE_MEANING, cusumParameters, cusumSentence, type ProgressViewer } 
 
 const PATH = "#0072B2"; // Okabe–Ito blue
 const UPPER = "#D55E00"; // Okabe–Ito vermillion: the unacceptable limit
-const LOWER = "#009E73"; // Okabe–Ito bluish green: the competence limit
+const LOWER = "#009E73"; // Okabe–Ito bluish green: the acceptable-rate limit
 
 type Datum = { n: number; value: number; failed: boolean | null };
 
@@ -58,7 +58,7 @@ export function LearningCurve({ application, viewer = "learner" }: { application
       ) : (
         <figure className="rounded-lg border border-slate-200 bg-white p-3">
           <ChartImage
-            label={`Learning curve for ${name}: ${c.points.length} reviewed exams, ${failures} without credit. ${sentence}. Competence limit ${signed(c.h0)}, unacceptable limit ${signed(c.h1)}.`}
+            label={`Learning curve for ${name}: ${c.points.length} reviewed exams, ${failures} without credit. ${sentence}. Acceptable-rate limit ${signed(c.h0)}, unacceptable limit ${signed(c.h1)}.`}
           >
             <ComposedChart
               responsive
@@ -106,7 +106,7 @@ export function LearningCurve({ application, viewer = "learner" }: { application
                 stroke={LOWER}
                 strokeWidth={1.5}
                 strokeDasharray="2 3"
-                label={{ value: `Competence limit h0 = ${signed(c.h0)}`, position: "insideBottomLeft", fontSize: 11, fill: AXIS.ink }}
+                label={{ value: `Acceptable-rate limit h0 = ${signed(c.h0)}`, position: "insideBottomLeft", fontSize: 11, fill: AXIS.ink }}
               />
               <Line dataKey="value" type="stepAfter" stroke={PATH} strokeWidth={1.75} dot={AttemptDot} activeDot={false} isAnimationActive={false} />
               {c.signalAtAttempt !== null && sigValue !== null ? (
@@ -142,7 +142,10 @@ export function LearningCurve({ application, viewer = "learner" }: { application
               </svg>
               Exam without credit: the line steps up by {(1 - c.s).toFixed(3)}
             </span>
-            <span>Crossing the lower limit signals competence; crossing the upper limit signals an unacceptable failure rate.</span>
+            <span>
+              Crossing the lower limit signals the acceptable failure rate reached (a statistical signal, not a certification); crossing the upper limit signals
+              an unacceptable failure rate.
+            </span>
           </figcaption>
         </figure>
       )}

@@ -45,13 +45,13 @@ export function FlagTag({ flag }: { flag: RosterFlag }) {
 
 /** The learning-curve signal in a word or two. */
 export const SIGNAL_WORDS: Record<CusumView["signal"], string> = {
-  competent: "Competent",
+  competent: "Acceptable rate reached",
   unacceptable: "Unacceptable",
   none: "No signal yet",
 };
 
 const SIGNAL_TITLES: Record<CusumView["signal"], string> = {
-  competent: "The learning curve has signalled competence",
+  competent: "The learning curve shows the acceptable failure rate reached (a statistical signal, not a certification)",
   unacceptable: "The learning curve has signalled an unacceptable failure rate",
   none: "The learning curve has not crossed a decision limit yet",
 };

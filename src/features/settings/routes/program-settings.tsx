@@ -191,7 +191,7 @@ function SettingsForm({ settings }: { settings: ProgramSettings }) {
           min: 0.1,
           max: 99.9,
           step: 0.1,
-          hint: "The share of exams without credit that is still fine for a competent sonographer. The curve signals competence when a learner performs at or below it. Default 10%.",
+          hint: "The share of exams without credit that is still fine for a clinician performing acceptably. The curve signals the acceptable rate reached when a learner performs at or below it. Default 10%.",
         })}
         {numberField("cusumUnacceptablePercent", {
           label: "Unacceptable failure rate (%)",
@@ -212,7 +212,7 @@ function SettingsForm({ settings }: { settings: ProgramSettings }) {
           min: 0.1,
           max: 49.9,
           step: 0.1,
-          hint: "How often the curve may wrongly signal competence for a sonographer who is in fact at the unacceptable rate. Lower means more exams before competence is signalled. Default 10% (0.10).",
+          hint: "How often the curve may wrongly signal the acceptable rate reached for a clinician who is in fact at the unacceptable rate. Lower means more exams before that signal is signalled. Default 10% (0.10).",
         })}
       </fieldset>
       <FormMessage message={unplacedError} />
