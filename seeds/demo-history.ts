@@ -30,7 +30,7 @@ export interface Learner {
 
 export const DEMO_LEARNERS: Learner[] = [
   { email: "sonographer@cedarhollow.example", exams: 28, failures: [2, 5, 9, 16, 24], slips: [0.55, 0.12] },
-  { email: "tobias.ferrand@cedarhollow.example", exams: 22, failures: [], slips: [0.25, 0.05] },
+  { email: "tobias.varga@cedarhollow.example", exams: 22, failures: [], slips: [0.25, 0.05] },
 ];
 const DAYS = 180;
 const COMMENTS = [

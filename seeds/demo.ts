@@ -22,10 +22,10 @@ export const DEMO_PROGRAMS: { name: string; slug: string; users: DemoUser[] }[] 
     slug: "cedar-hollow-em",
     users: [
       { email: "sonographer@cedarhollow.example", name: "Noa Hartwell", roles: ["sonographer"] },
-      { email: "reviewer@cedarhollow.example", name: "Imani Castellane", roles: ["reviewer"] },
+      { email: "reviewer@cedarhollow.example", name: "Imani Lindqvist", roles: ["reviewer"] },
       { email: "lead@cedarhollow.example", name: "Harriet Quillon", roles: ["qa_lead", "reviewer"] },
-      { email: "admin@cedarhollow.example", name: "Owen Tallisker", roles: ["admin"] },
-      { email: "tobias.ferrand@cedarhollow.example", name: "Tobias Ferrand", roles: ["sonographer"] },
+      { email: "admin@cedarhollow.example", name: "Owen Pendlebury", roles: ["admin"] },
+      { email: "tobias.varga@cedarhollow.example", name: "Tobias Varga", roles: ["sonographer"] },
       { email: "lena.sorvik@cedarhollow.example", name: "Lena Sorvik", roles: ["sonographer"] },
       { email: "amara.dunleavy@cedarhollow.example", name: "Amara Dunleavy", roles: ["sonographer", "reviewer"] },
       { email: "elias.brunnhold@cedarhollow.example", name: "Elias Brunnhold", roles: ["reviewer"] },

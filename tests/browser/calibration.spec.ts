@@ -14,7 +14,7 @@ import { apiAs, PASSWORD, shot } from "./support";
 
 const LEAD = "lead@cedarhollow.example";
 const SONOGRAPHER = "sonographer@cedarhollow.example";
-const REVIEWER_A = { email: "reviewer@cedarhollow.example", name: "Imani Castellane" };
+const REVIEWER_A = { email: "reviewer@cedarhollow.example", name: "Imani Lindqvist" };
 const REVIEWER_B = { email: "elias.brunnhold@cedarhollow.example", name: "Elias Brunnhold" };
 // Active reviewers of the demo program left out of this set.
 const NOT_IN_SET = ["Harriet Quillon", "Amara Dunleavy"];

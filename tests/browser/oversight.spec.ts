@@ -121,7 +121,7 @@ test("a disagreeing double read is adjudicated, followed up and its feedback ack
     await page.getByRole("link", { name: exam.code }).click();
     await expect(page.getByRole("heading", { level: 1, name: `Exam ${exam.code}` })).toBeVisible();
     // Which read is the primary depends on who claimed first; both readers are named.
-    await expect(page.getByRole("columnheader", { name: /^(Primary|Second) · Imani Castellane$/ })).toBeVisible();
+    await expect(page.getByRole("columnheader", { name: /^(Primary|Second) · Imani Lindqvist$/ })).toBeVisible();
     await expect(page.getByRole("columnheader", { name: /^(Primary|Second) · Elias Brunnhold$/ })).toBeVisible();
     const qualityRow = page.getByRole("row").filter({ has: page.getByRole("rowheader", { name: /Overall image quality/ }) });
     await expect(qualityRow).toContainText("Differs");

@@ -19,9 +19,9 @@ import { apiAs, PASSWORD, scores, shot } from "./support";
 
 const LEAD = "lead@cedarhollow.example";
 const LEARNER = { email: "lena.sorvik@cedarhollow.example", name: "Lena Sorvik" };
-const REVIEWER = { email: "reviewer@cedarhollow.example", name: "Imani Castellane" };
+const REVIEWER = { email: "reviewer@cedarhollow.example", name: "Imani Lindqvist" };
 // The demo program's sonographers (seeds/demo.ts): everyone holding the sonographer role.
-const DEMO_SONOGRAPHERS = ["Noa Hartwell", "Tobias Ferrand", "Lena Sorvik", "Amara Dunleavy"];
+const DEMO_SONOGRAPHERS = ["Noa Hartwell", "Tobias Varga", "Lena Sorvik", "Amara Dunleavy"];
 // Overall image quality per exam: the default credit rule needs 3 or more (shared/rubric/default-rubric.ts).
 const QUALITY = ["4", "2", "5"];
 const COMMENT = (i: number) => `Aorta practice scan ${i + 1}: sweep from the diaphragm to the bifurcation.`;
