@@ -195,13 +195,7 @@ export async function viewsAndFindingsOfExam(db: Q, examId: string) {
   return { views, findings };
 }
 
-/** The findings of an application version (or of an exam's version), in their catalogue order. */
-export function findingsOfApplication(db: Q, id: string, of: "application" | "exam" = "application") {
-  if (of === "application")
-    return db("application_findings").where("application_id", id).orderBy("position").select<{ key: string; label: string }[]>("key", "label");
-  return db("application_findings as f")
-    .join("exams as e", "e.application_id", "f.application_id")
-    .where("e.id", id)
-    .orderBy("f.position")
-    .select<{ key: string; label: string }[]>("f.key", "f.label");
+/** The findings of an application version, in their catalogue order. */
+export function findingsOfApplication(db: Q, applicationId: string) {
+  return db("application_findings").where("application_id", applicationId).orderBy("position").select<{ key: string; label: string }[]>("key", "label");
 }
