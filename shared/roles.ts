@@ -4,7 +4,7 @@ export type Role = (typeof ROLES)[number];
 
 /** Plain-language label for a role, as shown on screens. */
 export const ROLE_LABELS: Record<Role, string> = {
-  sonographer: "Sonographer",
+  sonographer: "Clinician",
   reviewer: "Reviewer",
   qa_lead: "QA lead",
   admin: "Administrator",

@@ -33,7 +33,7 @@ export function feedbackReadyMail(p: { to: string; name: string; application: st
 }
 
 export function replyMail(p: { to: string; name: string; code: string; body: string; link: string }): MailMessage {
-  const text = `Hello ${p.name},\n\nThe sonographer of exam ${p.code} replied to your feedback:\n\n${p.body}\n\nAnswer here:\n${p.link}\n\n${footer}`;
+  const text = `Hello ${p.name},\n\nThe clinician who performed exam ${p.code} replied to your feedback:\n\n${p.body}\n\nAnswer here:\n${p.link}\n\n${footer}`;
   return { to: p.to, subject: `A question about exam ${p.code}`, text, html: htmlOf(text) };
 }
 

@@ -80,7 +80,7 @@ export async function assertCanView<T extends ExamRow>(
 export function assertCanEdit<T extends ExamRow>(user: AuthUser, exam: T | undefined): asserts exam is T {
   if (!exam || exam.program_id !== user.programId) throw notFound("Exam");
   if (exam.sonographer_id !== user.id) {
-    if (user.roles.includes("qa_lead")) throw new HttpError(403, "forbidden", "Only the sonographer who performed the exam can change it");
+    if (user.roles.includes("qa_lead")) throw new HttpError(403, "forbidden", "Only the clinician who performed the exam can change it");
     throw notFound("Exam");
   }
   if (exam.status !== "draft") throw new HttpError(409, "exam_not_draft", "This exam has been submitted and can no longer be changed");

@@ -9,7 +9,7 @@ import { isProgramSonographer } from "../repositories/progress";
 
 /** 404 unless the user is a sonographer of the program (active or not: history stays readable). */
 export async function assertProgramSonographer(db: Knex | Knex.Transaction, programId: string, userId: string): Promise<void> {
-  if (!(await isProgramSonographer(db, programId, userId))) throw notFound("Sonographer");
+  if (!(await isProgramSonographer(db, programId, userId))) throw notFound("Clinician");
 }
 
 /**
@@ -18,7 +18,7 @@ export async function assertProgramSonographer(db: Knex | Knex.Transaction, prog
  */
 export async function credentialingReportSubject(db: Knex | Knex.Transaction, user: AuthUser, userId: string | undefined): Promise<string | null> {
   if (!user.roles.includes("qa_lead")) {
-    if (userId && userId !== user.id) throw forbidden("A sonographer may export only their own report");
+    if (userId && userId !== user.id) throw forbidden("A clinician may export only their own report");
     return user.id;
   }
   if (!userId) return null;

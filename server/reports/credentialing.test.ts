@@ -175,7 +175,7 @@ describe("credentialing report PDF, whole program", () => {
     // Per application across the program: Lung 3 + 7 submitted, 2 + 6 reviewed and credited.
     expect(pages[0]).toMatch(row("Lung", "10", "8", "8", "0 of 2"));
     expect(pages[0]).toContain("Program director signature");
-    const starts = (name: string) => pages.findIndex((p) => new RegExp(`^\\s*Credentialing report[\\s\\S]*${row("Sonographer", name).source}`).test(p));
+    const starts = (name: string) => pages.findIndex((p) => new RegExp(`^\\s*Credentialing report[\\s\\S]*${row("Clinician", name).source}`).test(p));
     expect(starts("Zdenka Hořejší")).toBe(1);
     expect(starts("Ansel Marchetti-Oyelaran")).toBeGreaterThan(1);
     expect(pages[starts("Ansel Marchetti-Oyelaran")]).toMatch(row("Lung", "7", "6", "6 / 25", "Not met, 19 to go", expectedRate(6, 6)));
@@ -196,7 +196,7 @@ describe("credentialing report PDF, whole program", () => {
     const pages = pdfText(writePdf(pdf))
       .split("\f")
       .filter((p) => p.trim());
-    expect(pages.filter((p) => /^\s*Credentialing report/.test(p) && /Sonographer\s+Learner \d+ Testperson/.test(p))).toHaveLength(60);
+    expect(pages.filter((p) => /^\s*Credentialing report/.test(p) && /Clinician\s+Learner \d+ Testperson/.test(p))).toHaveLength(60);
   });
 });
 
@@ -212,7 +212,7 @@ describe("credentialing report CSV", () => {
     ];
     expect(header).toEqual([
       "program",
-      "sonographer",
+      "clinician",
       "email",
       "application_code",
       "application",
@@ -259,7 +259,7 @@ describe("credentialing report CSV", () => {
     expect(csv.startsWith("\ufeff")).toBe(true);
     expect(csv).toContain("\r\n");
 
-    const efast = rows.find((r) => r.sonographer === "Zdenka Hořejší" && r.application_code === "efast")!;
+    const efast = rows.find((r) => r.clinician === "Zdenka Hořejší" && r.application_code === "efast")!;
     const [lo, hi] = wilsonInterval(22, 26);
     expect(efast).toMatchObject({
       program: PROGRAM,
@@ -300,11 +300,11 @@ describe("credentialing report CSV", () => {
     });
 
     // Newcombe (1998) Stat Med 17:857, Table I, method 3, 81/263: 0.2553–0.3662 (from memory).
-    const procedure = rows.find((r) => r.sonographer === "Zdenka Hořejší" && r.application_code === "procedure")!;
+    const procedure = rows.find((r) => r.clinician === "Zdenka Hořejší" && r.application_code === "procedure")!;
     expect(procedure).toMatchObject({ credit_rate: "0.3080", credit_rate_ci_low: "0.2553", credit_rate_ci_high: "0.3662", met: "yes" });
 
     // Nothing to count: empty rate cells, n = 0, no signal.
-    const ocular = rows.find((r) => r.sonographer === "Zdenka Hořejší" && r.application_code === "ocular")!;
+    const ocular = rows.find((r) => r.clinician === "Zdenka Hořejší" && r.application_code === "ocular")!;
     expect(ocular).toMatchObject({
       credit_rate: "",
       credit_rate_ci_low: "",
@@ -315,7 +315,7 @@ describe("credentialing report CSV", () => {
       cusum_signal_attempt: "",
       cusum_attempts: "0",
     });
-    const cardiac = rows.find((r) => r.sonographer === "Zdenka Hořejší" && r.application_code === "cardiac")!;
+    const cardiac = rows.find((r) => r.clinician === "Zdenka Hořejší" && r.application_code === "cardiac")!;
     expect(cardiac).toMatchObject({ cusum_signal: "unacceptable", cusum_signal_attempt: "4", cusum_signal_date: "2026-09-04" });
 
     // Plain decimals: proportions 0–1 with four decimals, counts as integers.
@@ -347,10 +347,10 @@ describe("credentialing report CSV", () => {
         named('Quinn "Q" O\'Hara, Jr.'),
       ],
     });
-    const names = [...new Set(read(csv).map((r) => r.sonographer))];
+    const names = [...new Set(read(csv).map((r) => r.clinician))];
     expect(names).toEqual(['\'=HYPERLINK("http://evil.example")', "'+Ada Plus", "'-Dana Minus", "'@Ira At", 'Quinn "Q" O\'Hara, Jr.']);
     expect(read(csv).every((r) => r.program === "'=Program")).toBe(true);
-    expect(read(csv).find((r) => r.sonographer === "'@Ira At")!.email).toBe("'@odd@cedarhollow.example");
+    expect(read(csv).find((r) => r.clinician === "'@Ira At")!.email).toBe("'@odd@cedarhollow.example");
     // No raw field anywhere starts with a formula character.
     for (const fields of parse(csv, { bom: true }) as string[][]) for (const f of fields) expect(f).not.toMatch(/^[=+\-@]/);
   });

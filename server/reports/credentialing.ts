@@ -140,7 +140,7 @@ function accuracyCells(a: Accuracy): string[] {
 /** Column names of the credentialing CSV, in order. */
 export const CREDENTIALING_CSV_COLUMNS: readonly string[] = [
   "program",
-  "sonographer",
+  "clinician",
   "email",
   "application_code",
   "application",
@@ -346,7 +346,7 @@ function sonographerSection(pg: Pager, data: CredentialingReportData, p: Progres
   pg.continuation = `Credentialing report · ${data.programName} · ${p.sonographer.name} (continued)`;
   const s = p.settings;
   pg.titleBlock(data.programName, [
-    ["Sonographer", p.sonographer.name],
+    ["Clinician", p.sonographer.name],
     ["E-mail", p.sonographer.email],
     ["Dates", formatRange(data.range)],
     ["Generated", formatGenerated(data.generatedAt)],
@@ -388,16 +388,16 @@ function programSummary(pg: Pager, data: CredentialingReportData) {
   pg.continuation = `Credentialing report · ${data.programName} · program summary (continued)`;
   pg.titleBlock(data.programName, [
     ["Program", data.programName],
-    ["Sonographers", String(data.sonographers.length)],
+    ["Clinicians", String(data.sonographers.length)],
     ["Dates", formatRange(data.range)],
     ["Generated", formatGenerated(data.generatedAt)],
   ]);
   pg.sectionTitle("Program summary");
   if (data.sonographers.length === 0) {
-    pg.paragraph("No sonographers in this program.", { size: 8.5, color: COLOUR.muted });
+    pg.paragraph("No clinicians in this program.", { size: 8.5, color: COLOUR.muted });
   } else {
     const columns: Column[] = [
-      { header: "Sonographer", width: 112 },
+      { header: "Clinician", width: 112 },
       { header: "E-mail", width: 129 },
       { header: "Submitted", width: 50, align: "right" },
       { header: "Reviewed", width: 48, align: "right" },
@@ -445,7 +445,7 @@ function programSummary(pg: Pager, data: CredentialingReportData) {
         { header: "Submitted", width: 60, align: "right" },
         { header: "Reviewed", width: 60, align: "right" },
         { header: "Credited", width: 60, align: "right" },
-        { header: "Sonographers at threshold", width: 85, align: "right" },
+        { header: "Clinicians at threshold", width: 85, align: "right" },
         { header: "Unacceptable signalled", width: CONTENT_WIDTH - 150 - 60 * 3 - 85, align: "right" },
       ],
       [...byCode.values()].map((r) => ({
@@ -453,7 +453,7 @@ function programSummary(pg: Pager, data: CredentialingReportData) {
       })),
     );
   }
-  pg.signatureBlock(`I have reviewed this summary of ${data.programName} (${formatRange(data.range)}); each sonographer's record follows on its own pages.`);
+  pg.signatureBlock(`I have reviewed this summary of ${data.programName} (${formatRange(data.range)}); each clinician's record follows on its own pages.`);
 }
 
 /** The report as a PDF: a program summary first (scope "program"), then a section per sonographer, each on new pages. */
@@ -497,7 +497,7 @@ export function renderCredentialingPdf(data: CredentialingReportData): Promise<B
         ["Dates", formatRange(data.range)],
         ["Generated", formatGenerated(data.generatedAt)],
       ]);
-      pg.paragraph("No sonographer to report on.", { size: 9, color: COLOUR.muted });
+      pg.paragraph("No clinician to report on.", { size: 9, color: COLOUR.muted });
     }
     pg.footers(CREDENTIALING_CAUTION);
     doc.end();

@@ -58,14 +58,14 @@ async function reviewerSection(db: Db, pid: string, uid: string): Promise<Sectio
       },
       ...(handed ? [{ key: "adjudications_handed", label: "Adjudications handed to you", count: handed, href: "/oversight/adjudication", hint: null }] : []),
       ...(questions
-        ? [{ key: "questions_waiting", label: "Questions from sonographers awaiting your answer", count: questions, href: "/reviews/questions", hint: null }]
+        ? [{ key: "questions_waiting", label: "Questions from clinicians awaiting your answer", count: questions, href: "/reviews/questions", hint: null }]
         : []),
     ],
   };
 }
 
 async function leadSection(db: Db, pid: string): Promise<Section> {
-  const [reviewers, sonographers, adjudications, followUps, backlog] = await Promise.all([
+  const [reviewers, clinicians, adjudications, followUps, backlog] = await Promise.all([
     countActiveWithRole(db, pid, "reviewer"),
     countActiveWithRole(db, pid, "sonographer"),
     countUndecidedAdjudications(db, pid),
@@ -86,7 +86,7 @@ async function leadSection(db: Db, pid: string): Promise<Section> {
       },
       { key: "backlog", label: "Exams waiting for their final result", count: backlog, href: null, hint: null },
       { key: "reviewers", label: "Active reviewers", count: reviewers, href: "/setup/people", hint: null },
-      { key: "sonographers", label: "Active sonographers", count: sonographers, href: "/setup/people", hint: null },
+      { key: "sonographers", label: "Active clinicians", count: clinicians, href: "/setup/people", hint: null },
     ],
   };
 }

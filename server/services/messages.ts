@@ -25,7 +25,7 @@ export async function messageThread(db: Db, user: AuthUser, examId: string): Pro
       ? "you"
       : r.author_id === exam!.sonographer_id
         ? access === "reviewer" && settings.blindSonographer
-          ? "Sonographer"
+          ? "Clinician"
           : r.name
         : access === "owner" && !settings.showReviewerName
           ? "Reviewer"

@@ -212,7 +212,7 @@ describe("GET /api/reviews/questions", () => {
     const exam = await reviewedExam(s);
     await ask(s, exam.id, "Could the free fluid have been a fat pad?");
     const thread = await get(s.reader, `/api/exams/${exam.id}/messages`);
-    expect(thread.body.items.map((m: { author: string }) => m.author)).toEqual(["Sonographer"]);
+    expect(thread.body.items.map((m: { author: string }) => m.author)).toEqual(["Clinician"]);
 
     const answer = await post(s.reader, `/api/exams/${exam.id}/messages`, { body: "Fluid is anechoic and layers; a fat pad is echogenic." });
     expect(answer.status).toBe(201);

@@ -401,7 +401,7 @@ describe("drafts, replies and digests", () => {
     const thread = await request(kit.app)
       .get(`/api/exams/${exam.id}/messages`)
       .set("Authorization", await auth(s.reviewers[0]));
-    expect(thread.body.items).toEqual([{ id: expect.any(String), body: "Which depth would you use here?", at: expect.any(String), author: "Sonographer" }]);
+    expect(thread.body.items).toEqual([{ id: expect.any(String), body: "Which depth would you use here?", at: expect.any(String), author: "Clinician" }]);
     const answer = await request(kit.app)
       .post(`/api/exams/${exam.id}/messages`)
       .set("Authorization", await auth(s.reviewers[0]))

@@ -15,7 +15,7 @@ type DemoRole = {
 };
 
 const DEMO: DemoRole[] = [
-  { role: "sonographer", email: "sonographer@cedarhollow.example", roleLabel: "Sonographer", seesPeople: false, seesAudit: false },
+  { role: "sonographer", email: "sonographer@cedarhollow.example", roleLabel: "Clinician", seesPeople: false, seesAudit: false },
   { role: "reviewer", email: "reviewer@cedarhollow.example", roleLabel: "Reviewer", seesPeople: false, seesAudit: false },
   { role: "qa_lead", email: "lead@cedarhollow.example", roleLabel: "QA lead", seesPeople: true, seesAudit: false },
   { role: "admin", email: "admin@cedarhollow.example", roleLabel: "Administrator", seesPeople: true, seesAudit: true },

@@ -274,7 +274,7 @@ test("a learner sees threshold, learning curve, trends and accuracy, and a confi
     await confirmations.getByText("Enter confirmatory results").click();
     const firstGroup = confirmations.getByRole("group", { name: first_.label });
     const secondGroup = confirmations.getByRole("group", { name: second_.label });
-    await expect(firstGroup).toContainText("Sonographer’s read: Positive");
+    await expect(firstGroup).toContainText("Clinician’s read: Positive");
     await firstGroup.getByLabel("Confirmed by").selectOption("ct");
     // A method without a result is refused next to the field.
     await secondGroup.getByLabel("Confirmed by").selectOption("formal_echo");

@@ -99,7 +99,7 @@ test("a reviewer reads a sonographer's question from the bell and answers it wit
     await expect(myReview.getByText("Retinal detachment")).toBeVisible();
     const thread = page.getByRole("list", { name: "Messages, oldest first" });
     await expect(thread.getByRole("listitem")).toHaveCount(1);
-    await expect(thread.getByRole("listitem").first()).toContainText("Sonographer");
+    await expect(thread.getByRole("listitem").first()).toContainText("Clinician");
     await expect(thread.getByRole("listitem").first()).toContainText(QUESTION);
 
     // The answer, by keyboard: focus the box, type, Ctrl+Enter. An empty box is named next to the

@@ -143,8 +143,8 @@ test("the QA lead follows a sonographer from the roster to her page and download
     // --- Reports: her report as PDF, then as CSV, for all dates.
     await nav.getByRole("link", { name: "Reports" }).click();
     await expect(page.getByRole("heading", { level: 1, name: "Reports" })).toBeVisible();
-    await page.getByLabel("One sonographer").check();
-    await page.getByLabel("Sonographer", { exact: true }).selectOption({ label: LEARNER.name });
+    await page.getByLabel("One clinician").check();
+    await page.getByLabel("Clinician", { exact: true }).selectOption({ label: LEARNER.name });
     await page.getByRole("button", { name: "All dates" }).click();
     await page.getByLabel("PDF", { exact: true }).check();
 
@@ -174,8 +174,7 @@ test("the QA lead follows a sonographer from the roster to her page and download
     // csv-parse (RFC 4180) with the byte-order mark stripped, as a spreadsheet would read it.
     const records = parse(fs.readFileSync(csvPath), { bom: true }) as string[][];
     const [header, ...rows] = records;
-    for (const column of ["sonographer", "email", "application_code", "submitted", "reviewed", "credited", "threshold", "met"])
-      expect(header).toContain(column);
+    for (const column of ["clinician", "email", "application_code", "submitted", "reviewed", "credited", "threshold", "met"]) expect(header).toContain(column);
     const at = (r: string[], column: string) => r[header.indexOf(column)];
     const aortaRow = rows.find((r) => at(r, "sonographer") === LEARNER.name && at(r, "application_code") === "aorta");
     expect(aortaRow, "the CSV row of her aorta exams").toBeTruthy();
@@ -253,11 +252,11 @@ test("a refused report download shows the server's own message", async ({ browse
     // A well-formed id that names nobody in the program: GET /api/reports/credentialing answers
     // 404 with a JSON error body instead of a file.
     await page.goto("/oversight/reports?userId=00000000-0000-4000-8000-000000000000&from=&to=");
-    await expect(page.getByLabel("One sonographer")).toBeChecked();
+    await expect(page.getByLabel("One clinician")).toBeChecked();
     let downloaded = false;
     page.on("download", () => (downloaded = true));
     await page.getByRole("button", { name: "Download", exact: true }).click();
-    await expect(page.getByRole("alert")).toContainText("Sonographer not found");
+    await expect(page.getByRole("alert")).toContainText("Clinician not found");
     expect(downloaded).toBe(false);
   } finally {
     await page.context().close();

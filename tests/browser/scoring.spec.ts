@@ -111,7 +111,7 @@ test("a reviewer scores an exam with the keyboard alone and the sonographer read
       await expect(findings.nth(i).getByRole("radio", { name: i === 0 ? "Positive" : "Negative" })).toBeChecked();
       await page.keyboard.press("Tab");
     }
-    await expect(page.getByRole("textbox", { name: "Feedback to the sonographer" })).toBeFocused();
+    await expect(page.getByRole("textbox", { name: "Feedback to the clinician" })).toBeFocused();
     await page.keyboard.type(FEEDBACK);
     await expect(page.getByRole("status").filter({ hasText: /^Saved \d/ })).toBeVisible({ timeout: 10_000 });
     await page.evaluate(() => window.scrollTo(0, 0));

@@ -22,7 +22,7 @@ export function registerConfirmationRoutes(kit: RouteKit, { db }: Pick<RouteCont
     method: "put",
     path: "/exams/:id/confirmations",
     summary:
-      "Record what confirmatory tests later showed (the exam's sonographer or a QA lead); replaces the listed findings' entries, and method null clears one",
+      "Record what confirmatory tests later showed (the exam's clinician or a QA lead); replaces the listed findings' entries, and method null clears one",
     tag: "progress",
     access: ["sonographer", "qa_lead"],
     params: idParamsSchema,

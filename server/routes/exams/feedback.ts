@@ -22,7 +22,7 @@ export function registerExamFeedbackRoutes(kit: RouteKit, { db, config }: Pick<R
   defineRoute(kit, {
     method: "post",
     path: "/exams/:id/messages",
-    summary: "Ask (sonographer) or answer (a reviewer of the exam, a QA lead) a question about the feedback",
+    summary: "Ask (clinician) or answer (a reviewer of the exam, a QA lead) a question about the feedback",
     tag: "feedback",
     access: "signed_in",
     params: idParamsSchema,
@@ -38,7 +38,7 @@ export function registerExamFeedbackRoutes(kit: RouteKit, { db, config }: Pick<R
   defineRoute(kit, {
     method: "get",
     path: "/exams/:id/messages",
-    summary: "The questions and answers about an exam's feedback (its sonographer, its reviewers, QA leads)",
+    summary: "The questions and answers about an exam's feedback (its clinician, its reviewers, QA leads)",
     tag: "feedback",
     access: "signed_in",
     params: idParamsSchema,

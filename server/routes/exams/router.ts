@@ -25,7 +25,7 @@ export function registerExamRoutes(kit: RouteKit, ctx: RouteContext) {
   defineRoute(kit, {
     method: "post",
     path: "/exams",
-    summary: "Create an exam (a draft) with the sonographer's own read of each finding",
+    summary: "Create an exam (a draft) with the clinician's own read of each finding",
     tag: "exams",
     access: ["sonographer"],
     body: examCreateSchema,

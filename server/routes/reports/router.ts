@@ -33,14 +33,14 @@ export function registerReportRoutes(kit: RouteKit, { db }: RouteContext) {
   defineRoute(kit, {
     method: "get",
     path: "/reports/credentialing",
-    summary: "The credentialing report (PDF or CSV) for one sonographer or, for a QA lead without userId, the whole program",
+    summary: "The credentialing report (PDF or CSV) for one clinician or, for a QA lead without userId, the whole program",
     tag: "progress",
     access: ["qa_lead", "sonographer"],
     query: credentialingReportQuerySchema,
     responses: {
       200: { description: "The report as an attachment", file: "application/pdf, text/csv" },
-      403: { description: "A sonographer asked for someone else's report" },
-      404: { description: "Not a sonographer of this program" },
+      403: { description: "A clinician asked for someone else's report" },
+      404: { description: "Not a clinician of this program" },
     },
     handler: async ({ req, res, user, query }) => {
       const file = await exportCredentialingReport(db, user, actorOf(req, user), query);

@@ -10,7 +10,7 @@ export function registerRosterRoutes(kit: RouteKit, { db }: RouteContext) {
   defineRoute(kit, {
     method: "get",
     path: "/roster",
-    summary: "Every sonographer of the program with progress per application, last activity and flags",
+    summary: "Every clinician of the program with progress per application, last activity and flags",
     tag: "progress",
     access: ["qa_lead"],
     responses: { 200: { description: "Roster", schema: rosterSchema } },
@@ -20,23 +20,23 @@ export function registerRosterRoutes(kit: RouteKit, { db }: RouteContext) {
   defineRoute(kit, {
     method: "get",
     path: "/roster/:id/progress",
-    summary: "One sonographer's progress (QA lead)",
+    summary: "One clinician's progress (QA lead)",
     tag: "progress",
     access: ["qa_lead"],
     params: idParamsSchema,
     query: progressQuerySchema,
-    responses: { 200: { description: "Progress", schema: progressSchema }, 404: { description: "Not a sonographer of this program" } },
+    responses: { 200: { description: "Progress", schema: progressSchema }, 404: { description: "Not a clinician of this program" } },
     handler: ({ user, params, query }) => sonographerProgress(db, user.programId, params.id, query),
   });
 
   defineRoute(kit, {
     method: "get",
     path: "/roster/:id/feedback",
-    summary: "A sonographer's reviewed exams with their feedback and the reviewers' names (QA lead)",
+    summary: "A clinician's reviewed exams with their feedback and the reviewers' names (QA lead)",
     tag: "progress",
     access: ["qa_lead"],
     params: idParamsSchema,
-    responses: { 200: { description: "Feedback", schema: feedbackListSchema }, 404: { description: "Not a sonographer of this program" } },
+    responses: { 200: { description: "Feedback", schema: feedbackListSchema }, 404: { description: "Not a clinician of this program" } },
     handler: ({ user, params }) => sonographerFeedback(db, user, params.id),
   });
 }

@@ -31,7 +31,7 @@ export function ReviewerPicker({
   return (
     <fieldset aria-describedby={error ? errorId : undefined}>
       <legend className="text-sm font-semibold text-ink-900">Reviewers</legend>
-      <p className="text-sm text-slate-600">Every active reviewer by default. A reviewer is never sent their own exam as a sonographer.</p>
+      <p className="text-sm text-slate-600">Every active reviewer by default. A reviewer is never sent their own exam as a clinician.</p>
       {members.isPending ? (
         <LoadingState label="Loading reviewers…" />
       ) : members.isError ? (

@@ -187,15 +187,15 @@ export function AdjudicationForm({ item, findings, sonographerReads, busy, error
           Interpretation
         </h2>
         <p className="px-4 text-sm text-slate-600">
-          The final read of each finding becomes the reference for the sonographer&apos;s true and false positives and negatives.
+          The final read of each finding becomes the reference for the clinician&apos;s true and false positives and negatives.
         </p>
         {findings.length === 0 ? (
           <p className="px-4 py-3 text-sm text-slate-600">This application asks about no findings.</p>
         ) : (
           <div className="mt-3 overflow-x-auto">
             <table className="w-full text-left text-sm">
-              <caption className="sr-only">The sonographer&apos;s read, both reviewers&apos; reads and the final read of each finding</caption>
-              <ComparisonHead columns={["Finding", "Sonographer", "Primary", "Second"]} />
+              <caption className="sr-only">The clinician&apos;s read, both reviewers&apos; reads and the final read of each finding</caption>
+              <ComparisonHead columns={["Finding", "Clinician", "Primary", "Second"]} />
               <tbody className="divide-y divide-slate-100">
                 {findings.map((f) => {
                   const d = differs.has(`read.${f.key}`);
@@ -250,7 +250,7 @@ export function AdjudicationForm({ item, findings, sonographerReads, busy, error
           Adjudication note
         </label>
         <p id="adjudication-note-hint" className="text-sm text-slate-600">
-          Why the final result is what it is. The sonographer sees this note with the feedback.
+          Why the final result is what it is. The clinician sees this note with the feedback.
         </p>
         <textarea
           id="adjudication-note"

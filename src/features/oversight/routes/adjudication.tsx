@@ -79,10 +79,10 @@ export default function AdjudicationPage() {
             <span className="text-sm text-ink-900">{item.disagreements.map((d) => disagreementLabel(d, item, findingLabels)).join(", ")}</span>
           </div>
           {exam.isError ? (
-            <p className="text-sm text-slate-600">The sonographer&apos;s own reads could not be loaded; the reviewers&apos; reads are shown.</p>
+            <p className="text-sm text-slate-600">The clinician&apos;s own reads could not be loaded; the reviewers&apos; reads are shown.</p>
           ) : null}
           {exam.isPending ? (
-            <LoadingState label="Loading the sonographer's reads…" />
+            <LoadingState label="Loading the clinician's reads…" />
           ) : (
             <AdjudicationForm
               item={item}

@@ -28,7 +28,7 @@ export default function FollowUpsPage() {
       <PageHeader
         eyebrow="Oversight"
         title="Follow-ups"
-        description="Clinical exams where the sonographer's interpretation and the final read point opposite ways. Decide whether the patient needs a callback, and record what was done."
+        description="Clinical exams where the clinician's interpretation and the final read point opposite ways. Decide whether the patient needs a callback, and record what was done."
       />
       <form
         role="search"
@@ -55,7 +55,7 @@ export default function FollowUpsPage() {
         <ErrorState error={list.error} onRetry={() => void list.refetch()} retrying={list.isFetching} />
       ) : list.data.items.length === 0 ? (
         <EmptyState title={status === "all" ? "No follow-ups" : `No ${FOLLOW_UP_WORDS[status as FollowUpStatus].toLowerCase()} follow-ups`}>
-          A follow-up appears when a final read on a clinical exam disagrees with the sonographer&apos;s interpretation.
+          A follow-up appears when a final read on a clinical exam disagrees with the clinician&apos;s interpretation.
         </EmptyState>
       ) : (
         <div className="overflow-x-auto rounded-lg border border-slate-200 bg-white">
@@ -63,7 +63,7 @@ export default function FollowUpsPage() {
             <caption className="sr-only">Follow-ups of clinically significant disagreements</caption>
             <thead className="border-b border-slate-200 bg-paper-200 text-xs uppercase tracking-wide text-slate-700">
               <tr>
-                {["Exam", "Sonographer", "Performed", "Reason", "Status", "Note", ""].map((h, i) => (
+                {["Exam", "Clinician", "Performed", "Reason", "Status", "Note", ""].map((h, i) => (
                   <th key={i} scope="col" className="px-3 py-2 font-semibold">
                     {h || <span className="sr-only">Actions</span>}
                   </th>

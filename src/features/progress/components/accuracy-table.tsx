@@ -118,7 +118,7 @@ export function AccuracyTable({ application }: { application: ApplicationProgres
           title="Against confirmatory results"
           accuracy={conf}
           empty="No confirmatory results entered yet. Add them on an exam’s page once CT, a formal echo, surgery or follow-up has shown the answer."
-          note="The result of the later test is taken as the reference for the finding; it is compared with the sonographer’s own read."
+          note="The result of the later test is taken as the reference for the finding; it is compared with the clinician’s own read."
         />
         <p className="text-sm text-slate-700">
           <span className="font-semibold">Confirmed by method:</span> {methods.length ? byMethod : "none yet"}

@@ -62,7 +62,7 @@ function FindingRow({
     <fieldset className="rounded-md border border-slate-200 bg-paper-50 p-3" aria-describedby={`${id}-read`}>
       <legend className="px-1 font-semibold text-ink-950">{c.label}</legend>
       <p id={`${id}-read`} className="mb-2 text-sm text-slate-700">
-        Sonographer’s read: <span className="font-semibold text-ink-900">{READ_WORDS[c.sonographerRead]}</span>
+        Clinician’s read: <span className="font-semibold text-ink-900">{READ_WORDS[c.sonographerRead]}</span>
         {c.enteredAt ? (
           <span className="text-slate-600">
             {" "}

@@ -12,7 +12,7 @@ export function cusumSentence(c: CusumView, viewer: ProgressViewer = "learner"):
   if (c.signal === "competent" && c.signalAtAttempt !== null)
     return `Acceptable failure rate reached at attempt ${c.signalAtAttempt}${c.signalAtDate ? ` (${formatDate(c.signalAtDate)})` : ""}`;
   if (c.signal === "unacceptable" && c.signalAtAttempt !== null)
-    return `Unacceptable failure rate signalled at attempt ${c.signalAtAttempt}${c.signalAtDate ? ` (${formatDate(c.signalAtDate)})` : ""} — ${viewer === "learner" ? "talk to your QA lead" : "worth a conversation with the sonographer"}`;
+    return `Unacceptable failure rate signalled at attempt ${c.signalAtAttempt}${c.signalAtDate ? ` (${formatDate(c.signalAtDate)})` : ""} — ${viewer === "learner" ? "talk to your QA lead" : "worth a conversation with the clinician"}`;
   const n = c.points.length;
   return n === 0 ? "No reviewed exams yet" : `No signal yet after ${n} reviewed ${n === 1 ? "exam" : "exams"}`;
 }

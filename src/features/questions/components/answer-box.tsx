@@ -34,7 +34,7 @@ export function AnswerBox({ examId }: { examId: string }) {
         Your answer
       </label>
       <p id="answer-hint" className="text-sm text-slate-600">
-        The sonographer is told and reads it with their feedback. <Kbd>Ctrl</Kbd> + <Kbd>Enter</Kbd> sends.
+        The clinician is told and reads it with their feedback. <Kbd>Ctrl</Kbd> + <Kbd>Enter</Kbd> sends.
       </p>
       <textarea
         id="answer-body"

@@ -117,7 +117,7 @@ function MyReview({ review }: { review: NonNullable<ReviewedExam["myReview"]> })
 
 function Messages({ messages }: { messages: ThreadMessage[] }) {
   if (messages.length === 0)
-    return <EmptyState title="No questions yet">When the sonographer asks about this exam's feedback, the question appears here.</EmptyState>;
+    return <EmptyState title="No questions yet">When the clinician asks about this exam's feedback, the question appears here.</EmptyState>;
   return (
     <ol className="space-y-3" aria-label="Messages, oldest first">
       {messages.map((m) => {
@@ -183,7 +183,7 @@ export default function QuestionPage() {
         <div className="space-y-6">
           <p className="inline-flex items-center gap-2 text-sm text-slate-700">
             <EyeOff aria-hidden="true" className="size-4" />
-            Blinded: the sonographer appears as &ldquo;Sonographer&rdquo;.
+            Blinded: the clinician appears as &ldquo;Clinician&rdquo;.
           </p>
           <Section id="exam-heading" title="Exam">
             <ExamSummary data={data} />

@@ -32,7 +32,7 @@ export default function QuestionsPage() {
     <div>
       <PageHeader
         title="Questions"
-        description="Sonographers' questions about the feedback on exams you reviewed, newest message first. Open one to read it and answer."
+        description="Clinicians' questions about the feedback on exams you reviewed, newest message first. Open one to read it and answer."
       />
       {list.isPending ? (
         <LoadingState label="Loading the questions…" />
@@ -40,7 +40,7 @@ export default function QuestionsPage() {
         <ErrorState error={list.error} onRetry={() => void list.refetch()} retrying={list.isFetching} />
       ) : items.length === 0 ? (
         <EmptyState title="No questions yet">
-          When a sonographer asks about the feedback on an exam you reviewed, it appears here and you get a notification.
+          When a clinician asks about the feedback on an exam you reviewed, it appears here and you get a notification.
         </EmptyState>
       ) : (
         <>

@@ -25,7 +25,7 @@ export function ExamFacts({ exam, leaseExpiresAt }: { exam: BlindedExam; leaseEx
           </div>
         ))}
         <div className="flex gap-1">
-          <dt className="text-slate-600">Sonographer</dt>
+          <dt className="text-slate-600">Clinician</dt>
           <dd className="font-semibold text-ink-900">
             {exam.sonographer ? (
               `${exam.sonographer.name} (blinding is off in this program)`

@@ -51,7 +51,7 @@ export function FeedbackBox({ value, onChange, snippets, criteria, focusedCriter
     <div className="space-y-2">
       <div className="flex items-baseline justify-between gap-2">
         <h2 className="text-sm font-semibold uppercase tracking-wide text-slate-700">
-          <label htmlFor={FEEDBACK_STOP_ID}>Feedback to the sonographer</label>
+          <label htmlFor={FEEDBACK_STOP_ID}>Feedback to the clinician</label>
         </h2>
         <span className="text-xs tabular-nums text-slate-600">
           {value.length} / {MAX}
@@ -80,7 +80,7 @@ export function FeedbackBox({ value, onChange, snippets, criteria, focusedCriter
         </p>
       ) : (
         <p id={`${id}-hint`} className="sr-only">
-          The sonographer reads this with the scores.
+          The clinician reads this with the scores.
         </p>
       )}
 

@@ -129,7 +129,7 @@ export default function QueuePage() {
               <EmptyState title="Nothing is waiting for you">
                 {filter
                   ? `No ${filterName} exams wait for a read. Choose another application or all of them.`
-                  : "New exams appear here as soon as sonographers submit them."}
+                  : "New exams appear here as soon as clinicians submit them."}
               </EmptyState>
             ) : (
               <WaitingTable groups={waiting} />

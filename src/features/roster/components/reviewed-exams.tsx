@@ -27,7 +27,7 @@ const SOURCE_WORDS: Record<FeedbackDetail["source"], string> = {
 
 const PAGE = 10;
 
-function ExamFeedback({ fb, sonographer }: { fb: FeedbackDetail; sonographer: string }) {
+function ExamFeedback({ fb, clinician }: { fb: FeedbackDetail; clinician: string }) {
   const [confirmOpen, setConfirmOpen] = useState(false);
   const offLevel = fb.criteria.filter((c) => c.level && !c.level.ideal);
   const reviewers = [...new Set(fb.comments.map((c) => c.reviewer).filter((r): r is string => !!r))];
@@ -134,7 +134,7 @@ function ExamFeedback({ fb, sonographer }: { fb: FeedbackDetail; sonographer: st
           <ul className="mt-1 space-y-1 text-sm">
             {fb.messages.map((m) => (
               <li key={m.id}>
-                <span className="font-semibold">{m.author === "you" ? sonographer : m.author}</span>
+                <span className="font-semibold">{m.author === "you" ? clinician : m.author}</span>
                 <span className="text-xs text-slate-600"> · {formatDateTime(m.at)}</span>
                 <p className="whitespace-pre-wrap text-ink-900">{m.body}</p>
               </li>
@@ -157,7 +157,7 @@ function ExamFeedback({ fb, sonographer }: { fb: FeedbackDetail; sonographer: st
 }
 
 /** The list with an application filter, newest first, shown ten at a time. */
-export function ReviewedExams({ items, sonographer }: { items: FeedbackDetail[]; sonographer: string }) {
+export function ReviewedExams({ items, clinician }: { items: FeedbackDetail[]; clinician: string }) {
   const [app, setApp] = useState("");
   const [shown, setShown] = useState(PAGE);
   const apps = [...new Map(items.map((i) => [i.application.code, i.application.name])).entries()].sort((a, b) => a[1].localeCompare(b[1]));
@@ -188,7 +188,7 @@ export function ReviewedExams({ items, sonographer }: { items: FeedbackDetail[];
       </div>
       <div className="space-y-3">
         {list.slice(0, shown).map((fb) => (
-          <ExamFeedback key={fb.examId} fb={fb} sonographer={sonographer} />
+          <ExamFeedback key={fb.examId} fb={fb} clinician={clinician} />
         ))}
       </div>
       {list.length > shown ? (

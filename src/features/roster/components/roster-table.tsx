@@ -18,7 +18,7 @@ const active = (r: RosterRow) => r.applications.filter((a) => a.reviewed > 0 || 
 const col = createColumnHelper<RosterRow>();
 const columns = [
   col.accessor("name", {
-    header: "Sonographer",
+    header: "Clinician",
     meta: { numeric: false },
     sortingFn: (a, b) => a.original.name.localeCompare(b.original.name),
     cell: (c) => (
@@ -163,7 +163,7 @@ export function RosterTable({ rows, filename }: { rows: RosterRow[]; filename: s
     <div>
       <div className="mb-2 flex flex-wrap items-center justify-between gap-3">
         <p role="status" className="text-sm text-slate-600">
-          {rows.length === 1 ? "1 sonographer" : `${rows.length} sonographers`}
+          {rows.length === 1 ? "1 clinician" : `${rows.length} clinicians`}
         </p>
         <ExportCsvButton
           what="the roster"
@@ -189,7 +189,7 @@ export function RosterTable({ rows, filename }: { rows: RosterRow[]; filename: s
       </div>
       <div className={t.wrap}>
         <table className={t.table}>
-          <caption className="sr-only">Sonographers with their progress toward credentialing; column headers sort the table</caption>
+          <caption className="sr-only">Clinicians with their progress toward credentialing; column headers sort the table</caption>
           <thead className={t.thead}>
             {table.getHeaderGroups().map((hg) => (
               <tr key={hg.id}>

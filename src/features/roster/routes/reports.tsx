@@ -106,7 +106,7 @@ export default function ReportsPage() {
   };
 
   const rangeProblem = from && to && from > to ? "The start of the range is after its end." : null;
-  const scopeProblem = scope === "sonographer" && !userId ? "Choose a sonographer." : null;
+  const scopeProblem = scope === "sonographer" && !userId ? "Choose a clinician." : null;
   const people = roster.data ? [...roster.data].sort((a, b) => a.name.localeCompare(b.name)) : [];
   const chosen = people.find((p) => p.id === userId);
   // Problems show after a first try to download, and each goes away once fixed.
@@ -137,32 +137,27 @@ export default function ReportsPage() {
             checked={scope === "program"}
             onChange={() => set({ scope: "program" })}
             label="Whole program"
-            hint="A summary of the program, then a section for each sonographer."
+            hint="A summary of the program, then a section for each clinician."
           />
           <Choice
             name="scope"
             value="sonographer"
             checked={scope === "sonographer"}
             onChange={() => set({ scope: "sonographer" })}
-            label="One sonographer"
-            hint="The sonographer's own section, to file with a request for privileges."
+            label="One clinician"
+            hint="The clinician's own section, to file with a request for privileges."
           />
           {scope === "sonographer" ? (
             roster.isError ? (
-              <ErrorState
-                title="The sonographers could not be loaded"
-                error={roster.error}
-                onRetry={() => void roster.refetch()}
-                retrying={roster.isFetching}
-              />
+              <ErrorState title="The clinicians could not be loaded" error={roster.error} onRetry={() => void roster.refetch()} retrying={roster.isFetching} />
             ) : (
               <SelectField
-                label="Sonographer"
+                label="Clinician"
                 className="max-w-sm pl-6"
                 value={userId}
                 disabled={!roster.data}
                 error={showProblems && scopeProblem ? scopeProblem : undefined}
-                hint={!roster.data ? "Loading the sonographers…" : people.length === 0 ? "No sonographer in this program yet." : undefined}
+                hint={!roster.data ? "Loading the clinicians…" : people.length === 0 ? "No clinician in this program yet." : undefined}
                 onChange={(e) => set({ userId: e.target.value })}
               >
                 <option value="">Choose…</option>
@@ -171,7 +166,7 @@ export default function ReportsPage() {
                     {p.name}
                   </option>
                 ))}
-                {userId && roster.data && !chosen ? <option value={userId}>Unknown sonographer</option> : null}
+                {userId && roster.data && !chosen ? <option value={userId}>Unknown clinician</option> : null}
               </SelectField>
             )
           ) : null}
@@ -213,7 +208,7 @@ export default function ReportsPage() {
             checked={format === "csv"}
             onChange={() => set({ format: "csv" })}
             label="CSV"
-            hint="One row per sonographer and application, for spreadsheets; proportions from 0 to 1."
+            hint="One row per clinician and application, for spreadsheets; proportions from 0 to 1."
           />
         </fieldset>
 

@@ -42,7 +42,7 @@ export default function RosterPage() {
       <PageHeader
         eyebrow="Oversight"
         title="Roster"
-        description="Every sonographer's progress toward credentialing: credited exams against each application's threshold, the learning-curve signal, and flags that may need a word from you."
+        description="Every clinician's progress toward credentialing: credited exams against each application's threshold, the learning-curve signal, and flags that may need a word from you."
         actions={
           <Link to="/oversight/reports" className={buttonClasses("secondary", "sm")}>
             Credentialing reports
@@ -73,19 +73,17 @@ export default function RosterPage() {
       ) : !roster.data ? (
         <LoadingState label="Loading the roster…" />
       ) : roster.data.length === 0 ? (
-        <EmptyState title="No sonographer in this program yet">
-          People with the sonographer role appear here once they are added under Setup → People.
-        </EmptyState>
+        <EmptyState title="No clinician in this program yet">People with the clinician role appear here once they are added under Setup → People.</EmptyState>
       ) : rows.length === 0 ? (
         <EmptyState
-          title="No sonographer matches these filters"
+          title="No clinician matches these filters"
           action={
             <button type="button" className={buttonClasses("secondary", "sm")} onClick={() => update({ q: null, flag: null })}>
               Clear the filters
             </button>
           }
         >
-          {roster.data.length} sonographer{roster.data.length === 1 ? "" : "s"} in all.
+          {roster.data.length} clinician{roster.data.length === 1 ? "" : "s"} in all.
         </EmptyState>
       ) : (
         <RosterTable rows={rows} filename={`roster_${isoDay(new Date())}.csv`} />

@@ -71,7 +71,7 @@ function ApplicationDetail({ progress, code, window, onPick }: { progress: Progr
       </ReportSection>
       <ReportSection
         title={`Accuracy: ${app.application.name}`}
-        description="The sonographer's reads against the reviewer's and against confirmatory results, with Wilson 95% intervals."
+        description="The clinician's reads against the reviewer's and against confirmatory results, with Wilson 95% intervals."
       >
         <AccuracyTable application={app} />
       </ReportSection>
@@ -87,14 +87,14 @@ export default function SonographerPage() {
   const feedback = useQuery(sonographerFeedbackQuery(userId));
   const data = progress.data;
   const rangeInvalid = !!from && !!to && from > to;
-  const name = data?.sonographer.name ?? "Sonographer";
+  const name = data?.sonographer.name ?? "Clinician";
 
   if (progress.isError && isApiError(progress.error, 404))
     return (
       <div>
-        <PageHeader eyebrow="Roster" title="Sonographer not found" />
+        <PageHeader eyebrow="Roster" title="Clinician not found" />
         <EmptyState
-          title="No sonographer of this program has this address"
+          title="No clinician of this program has this address"
           action={
             <Link to="/oversight/roster" className={buttonClasses("secondary", "sm")}>
               Back to the roster
@@ -162,7 +162,7 @@ export default function SonographerPage() {
 
       <ReportSection
         title="Credentialing report"
-        description={`This sonographer's report for ${from || to ? "the range above" : "all dates"}, with a signature line for the program director.`}
+        description={`This clinician's report for ${from || to ? "the range above" : "all dates"}, with a signature line for the program director.`}
       >
         <ReportButtons request={{ userId, from: from || undefined, to: to || undefined }} disabled={rangeInvalid} />
       </ReportSection>
@@ -170,7 +170,7 @@ export default function SonographerPage() {
       {rangeInvalid ? null : progress.isError ? (
         <ErrorState error={progress.error} onRetry={() => void progress.refetch()} retrying={progress.isFetching} />
       ) : !data ? (
-        <LoadingState label="Loading the sonographer's progress…" />
+        <LoadingState label="Loading the clinician's progress…" />
       ) : (
         <>
           <ReportSection title="Progress toward credentialing" description={`Threshold: ${data.settings.threshold} credited exams per application.`}>
@@ -183,7 +183,7 @@ export default function SonographerPage() {
         </>
       )}
 
-      <ReportSection title="Reviewed exams" description="What the sonographer was told about each exam, with the reviewers named; newest first.">
+      <ReportSection title="Reviewed exams" description="What the clinician was told about each exam, with the reviewers named; newest first.">
         {feedback.isError ? (
           <ErrorState error={feedback.error} onRetry={() => void feedback.refetch()} retrying={feedback.isFetching} />
         ) : !feedback.data ? (
@@ -191,7 +191,7 @@ export default function SonographerPage() {
         ) : feedback.data.length === 0 ? (
           <EmptyState title="No reviewed exam yet">Exams appear here once their final review is in.</EmptyState>
         ) : (
-          <ReviewedExams items={feedback.data} sonographer={name} />
+          <ReviewedExams items={feedback.data} clinician={name} />
         )}
       </ReportSection>
     </div>

@@ -154,14 +154,14 @@ function SettingsForm({ settings }: { settings: ProgramSettings }) {
         <legend className="px-1 text-lg font-semibold text-ink-950">Blinding</legend>
         <Toggle
           id="blind-sonographer"
-          label="Hide the sonographer from reviewers"
-          hint="Reviewers see an exam code instead of the sonographer's name. Recommended, so scores are not swayed by who scanned."
+          label="Hide the clinician from reviewers"
+          hint="Reviewers see an exam code instead of the clinician's name. Recommended, so scores are not swayed by who scanned."
           {...form.register("blindSonographer")}
         />
         <Toggle
           id="show-reviewer-name"
-          label="Show reviewers' names to sonographers"
-          hint='When off, sonographers see "Reviewer" on comments and answers instead of a name.'
+          label="Show reviewers' names to clinicians"
+          hint='When off, clinicians see "Reviewer" on comments and answers instead of a name.'
           {...form.register("showReviewerName")}
         />
       </fieldset>
@@ -176,13 +176,13 @@ function SettingsForm({ settings }: { settings: ProgramSettings }) {
         {numberField("credentialingThreshold", {
           label: "Credited exams needed per application",
           min: 1,
-          hint: "How many credited exams of one application a sonographer needs before they can be put forward for privileges in it.",
+          hint: "How many credited exams of one application a clinician needs before they can be put forward for privileges in it.",
         })}
       </fieldset>
       <fieldset className="space-y-4 rounded-lg border border-slate-200 bg-white p-5" aria-describedby="cusum-about">
         <legend className="px-1 text-lg font-semibold text-ink-950">Learning curve</legend>
         <p id="cusum-about" className="max-w-prose text-sm text-slate-600">
-          Each application&apos;s learning curve is a CUSUM over the sonographer&apos;s reviewed exams in the order performed; an exam without credentialing
+          Each application&apos;s learning curve is a CUSUM over the clinician&apos;s reviewed exams in the order performed; an exam without credentialing
           credit counts as a failure. The defaults (acceptable 10%, unacceptable 20%, false alarm 10% and missed signal 10%, that is α = β = 0.10) are common
           practice in published learning-curve CUSUMs for procedures; set your own if your program&apos;s policy differs.
         </p>
@@ -205,7 +205,7 @@ function SettingsForm({ settings }: { settings: ProgramSettings }) {
           min: 0.1,
           max: 49.9,
           step: 0.1,
-          hint: "How often the curve may wrongly signal an unacceptable rate for a sonographer who is in fact at the acceptable rate. Lower means more exams before any signal. Default 10% (0.10).",
+          hint: "How often the curve may wrongly signal an unacceptable rate for a clinician who is in fact at the acceptable rate. Lower means more exams before any signal. Default 10% (0.10).",
         })}
         {numberField("cusumBetaPercent", {
           label: "Missed signal chance, beta (%)",

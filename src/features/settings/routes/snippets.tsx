@@ -90,7 +90,7 @@ export default function SnippetsPage() {
       <PageHeader
         eyebrow="Setup"
         title="Snippets"
-        description="Reusable feedback sentences. Reviewers insert them while scoring, and a criterion's snippets are offered to the sonographer as next steps when that criterion misses its target."
+        description="Reusable feedback sentences. Reviewers insert them while scoring, and a criterion's snippets are offered to the clinician as next steps when that criterion misses its target."
       />
       <AddSnippetForm criteria={known} />
       <section aria-labelledby="snippets-heading">
