@@ -1,268 +1,481 @@
-// Invented demo exams for Cedar Hollow: about forty exams across applications and demo
-// sonographers, drafts and submitted ones, one with a clip that fails processing. Clips come
-// from a small library generated once with ffmpeg (ultrasound-like noise in linear, curved
-// and narrow-sector footprints — no patient images) and go through the real pipeline.
+// Invented demo exams for both demo programs, each a case that makes clinical sense: an
+// indication that fits the application, a clip of every required view (seeds/demo-library.ts
+// draws fluid only where the case has a fluid finding or the anatomy is fluid-filled), the
+// clinician's read of every finding, and reviews through the same services the API uses.
+// Reviewers score around what the clips show, each with their own habits (one stricter on
+// overall quality, one more lenient, one less consistent), so double reads mostly agree, some
+// differ within tolerance and a few go to adjudication, as in a real program. A few cases stay
+// drafts or wait in the queue; one clip fails processing; each program gets a calibration set.
+// Every case, person and result is invented.
 import crypto from "node:crypto";
-import fs from "node:fs";
 import fsp from "node:fs/promises";
-import path from "node:path";
 import type { Db } from "../server/db/knex";
 import type { Storage } from "../server/storage/types";
 import type { ClipJob, JobQueue } from "../server/jobs/queue";
 import { addClip } from "../server/services/clips";
-import { generateDemoClip, generateDemoStill, type DemoClipOptions, type DemoImageOptions } from "./clips/generate";
 import { mulberry32 } from "../shared/stats/random";
 import type { FindingRead } from "../shared/catalogue";
 import { queueSubmittedExam } from "../server/services/queue";
 import { recordReview } from "../server/services/reviews";
+import { createCalibrationSet } from "../server/services/calibration";
 import { examContext } from "../server/repositories/exams";
 import { activeRubricFor } from "../server/repositories/rubrics";
 import { getSettings } from "../server/repositories/settings";
 import { criteriaFor } from "../shared/rubric/logic";
 import type { Rubric, Scores } from "../shared/rubric/types";
+import { brokenClip, ensureLibrary, PROTOCOLS, shotFile, shotFor, type Shot } from "./demo-library";
 
-interface LibraryItem {
-  name: string;
-  file: string;
-  kind: "video" | "still";
-  mime: string;
-  make: (out: string) => Promise<void>;
+type Setting = "clinical" | "educational" | "simulated";
+
+export interface DemoCase {
+  app: string;
+  indication: string;
+  setting: Setting;
+  /** Findings the clips show; every other finding of the application is absent. */
+  shows?: string[];
+  /** The clinician's own read where it differs from what the clips show. */
+  clinician?: Record<string, FindingRead>;
+  /** The second reviewer's read where it differs (a double read that needs adjudication). */
+  second?: Record<string, FindingRead>;
+  /** Overall image quality the clips deserve (1–5, default 4). */
+  quality?: number;
+  /** Criteria the clips miss, at the level a careful reviewer gives: { depth: "too_deep" }. */
+  slips?: Record<string, string>;
+  /** Optional views recorded as well (the right upper quadrant when ectopic pregnancy is suspected). */
+  extraViews?: string[];
+  /** Technically limited by patient factors. */
+  limited?: boolean;
+  /** "draft": not submitted yet; "waiting": submitted, in the queue; otherwise reviewed. */
+  stage?: "draft" | "waiting";
+  /** Read twice whatever the program's double-read share. */
+  double?: boolean;
+  /** Recorded as AVI (the pipeline transcodes it). */
+  avi?: boolean;
+  /** Part of the program's calibration set. */
+  calibrate?: boolean;
 }
 
-const clip = (name: string, o: Partial<DemoClipOptions> & Pick<DemoClipOptions, "footprint">, file = `${name}.mp4`): LibraryItem => ({
-  name,
-  file,
-  kind: "video",
-  mime: file.endsWith(".avi") ? "video/x-msvideo" : "video/mp4",
-  make: (out) => generateDemoClip(out, { width: 480, height: 360, seconds: 2, fps: 15, ...o }),
-});
-const still = (name: string, o: DemoImageOptions): LibraryItem => ({
-  name,
-  file: `${name}.png`,
-  kind: "still",
-  mime: "image/png",
-  make: (out) => generateDemoStill(out, o),
-});
+/** Cedar Hollow Emergency Medicine: the emergency-medicine spread of applications. */
+export const CEDAR_HOLLOW_CASES: DemoCase[] = [
+  {
+    app: "efast",
+    indication: "Motor vehicle collision, hypotensive on arrival",
+    setting: "clinical",
+    shows: ["free_fluid_ruq", "free_fluid_pelvis"],
+    double: true,
+    calibrate: true,
+  },
+  { app: "efast", indication: "Fall from standing height, left rib pain", setting: "clinical", calibrate: true },
+  {
+    app: "efast",
+    indication: "Assault, kicked in the left flank",
+    setting: "clinical",
+    shows: ["free_fluid_luq"],
+    clinician: { free_fluid_luq: "negative" },
+    quality: 3,
+  },
+  {
+    app: "efast",
+    indication: "Stab wound, right lower chest",
+    setting: "clinical",
+    shows: ["hemothorax_right"],
+    second: { hemothorax_right: "negative" },
+    quality: 3,
+    slips: { depth: "too_deep" },
+  },
+  { app: "efast", indication: "Teaching scan on a volunteer", setting: "educational", quality: 3, slips: { gain: "too_high" }, double: true },
+  { app: "efast", indication: "Simulation: trauma team drill", setting: "simulated", shows: ["free_fluid_ruq"] },
+  { app: "efast", indication: "Pedestrian struck by a car, abdominal pain", setting: "clinical", stage: "waiting" },
+  { app: "efast", indication: "Bicycle handlebar injury to the abdomen", setting: "clinical", stage: "draft" },
+  { app: "cardiac", indication: "Shortness of breath, known heart failure", setting: "clinical", double: true, calibrate: true },
+  {
+    app: "cardiac",
+    indication: "Chest pain and hypotension",
+    setting: "clinical",
+    shows: ["pericardial_effusion"],
+    clinician: { pericardial_effusion: "indeterminate" },
+    quality: 3,
+    double: true,
+    calibrate: true,
+  },
+  { app: "cardiac", indication: "Syncope while standing", setting: "clinical", quality: 3, slips: { depth: "too_deep" } },
+  { app: "cardiac", indication: "Teaching scan on a volunteer", setting: "educational", quality: 2, slips: { plane: "partly", labels: "incomplete" } },
+  { app: "cardiac", indication: "Palpitations and light-headedness", setting: "clinical", stage: "waiting" },
+  { app: "aorta", indication: "Abdominal pain radiating to the back, age 71", setting: "clinical", calibrate: true },
+  { app: "aorta", indication: "Flank pain and hypotension, age 68", setting: "clinical", quality: 3, slips: { depth: "too_deep" }, stage: "draft" },
+  { app: "biliary", indication: "Right upper quadrant pain after meals", setting: "clinical", shows: ["pericholecystic_fluid"], double: true },
+  { app: "biliary", indication: "Epigastric pain and vomiting", setting: "clinical", quality: 3, slips: { gain: "too_high" } },
+  { app: "biliary", indication: "Teaching scan on a volunteer", setting: "educational", stage: "waiting" },
+  { app: "renal", indication: "Right flank pain with hematuria", setting: "clinical", shows: ["hydronephrosis_right"], avi: true, calibrate: true },
+  { app: "renal", indication: "Unable to pass urine for 12 hours", setting: "clinical", shows: ["bladder_distended"], stage: "draft" },
+  { app: "lung", indication: "Shortness of breath and fever", setting: "clinical", shows: ["pleural_effusion_right"], double: true },
+  { app: "lung", indication: "Pleuritic chest pain after a long flight", setting: "clinical", quality: 3, slips: { labels: "incomplete" } },
+  { app: "lung", indication: "Simulation: the short-of-breath patient", setting: "simulated" },
+  { app: "lung", indication: "Wheeze and cough, worse over three days", setting: "clinical", stage: "draft" },
+  { app: "dvt", indication: "Left calf swelling for two days", setting: "clinical", double: true },
+  { app: "dvt", indication: "Right leg swelling after a long flight", setting: "clinical", quality: 3, slips: { labels: "incomplete" } },
+  { app: "dvt", indication: "Teaching scan on a volunteer", setting: "educational", stage: "waiting" },
+  { app: "dvt", indication: "Left thigh pain and swelling after knee surgery", setting: "clinical", stage: "draft" },
+  { app: "pelvic", indication: "Vaginal bleeding, seven weeks since the last period", setting: "clinical", shows: ["iup"], double: true },
+  {
+    app: "pelvic",
+    indication: "Pelvic pain with a positive pregnancy test, light-headed",
+    setting: "clinical",
+    shows: ["free_fluid_pelvis", "free_fluid_ruq"],
+    extraViews: ["ruq"],
+    quality: 3,
+  },
+  { app: "pelvic", indication: "Simulation: first-trimester bleeding", setting: "simulated", shows: ["iup"], stage: "waiting" },
+  { app: "ocular", indication: "Sudden painless loss of vision, right eye", setting: "clinical", limited: true, quality: 3 },
+  { app: "ocular", indication: "Blunt injury to the left eye, lid swelling", setting: "clinical", quality: 3, slips: { gain: "too_high" }, stage: "draft" },
+  { app: "soft_tissue", indication: "Red, painful swelling of the forearm", setting: "clinical", shows: ["abscess"], double: true },
+  { app: "soft_tissue", indication: "Spreading redness and warmth of the lower leg", setting: "clinical", quality: 3 },
+  { app: "soft_tissue", indication: "Knee swelling after a fall", setting: "clinical", shows: ["joint_effusion"], stage: "draft" },
+  { app: "vascular_access", indication: "Difficult peripheral intravenous access", setting: "clinical" },
+  {
+    app: "vascular_access",
+    indication: "Central venous catheter, internal jugular",
+    setting: "clinical",
+    quality: 3,
+    slips: { needle_tip: "lost" },
+    stage: "draft",
+  },
+  { app: "nerve_block", indication: "Hip fracture: fascia iliaca block", setting: "clinical", double: true },
+  { app: "nerve_block", indication: "Simulation: forearm block on a gel model", setting: "simulated", quality: 3, stage: "draft" },
+];
 
-/** The clip library, by application code. */
-const LIBRARY: Record<string, LibraryItem[]> = {
-  efast: [
-    clip("efast-ruq", { footprint: "curvilinear", seed: 1, label: "CEDAR HOLLOW  ABD  16cm" }),
-    clip("efast-pelvis", { footprint: "curvilinear", seed: 2, fluid: false, label: "CEDAR HOLLOW  ABD  14cm" }),
-  ],
-  cardiac: [clip("cardiac-plax", { footprint: "phased", seed: 3, label: "CEDAR HOLLOW  CARD  16cm" })],
-  aorta: [clip("aorta-deep", { footprint: "curvilinear", seed: 4, unusedDepth: 0.4, fluid: false, label: "CEDAR HOLLOW  ABD  24cm" })],
-  biliary: [clip("biliary-bright", { footprint: "curvilinear", seed: 5, gain: "high", label: "CEDAR HOLLOW  ABD  12cm" })],
-  renal: [clip("renal-dim", { footprint: "curvilinear", seed: 6, gain: "low", label: "CEDAR HOLLOW  ABD  14cm" }, "renal-dim.avi")],
-  lung: [clip("lung-linear", { footprint: "linear", seed: 7, fluid: false, label: "CEDAR HOLLOW  LUNG  5cm" })],
-  dvt: [clip("dvt-linear", { footprint: "linear", seed: 8, label: "CEDAR HOLLOW  VASC  4cm" })],
-  soft_tissue: [still("soft-tissue", { footprint: "linear", width: 480, height: 360, seed: 9, label: "CEDAR HOLLOW  MSK  3cm" })],
+/** Tamsin Ridge Critical Care: an intensive-care unit's applications. */
+export const TAMSIN_RIDGE_CASES: DemoCase[] = [
+  { app: "cardiac", indication: "Septic shock on norepinephrine", setting: "clinical", double: true, calibrate: true },
+  { app: "cardiac", indication: "Hypotension after cardiac surgery", setting: "clinical", shows: ["pericardial_effusion"], double: true, calibrate: true },
+  { app: "cardiac", indication: "Failed weaning from the ventilator", setting: "clinical", quality: 3, slips: { depth: "too_deep" } },
+  { app: "cardiac", indication: "Teaching scan on a volunteer", setting: "educational", quality: 2, slips: { plane: "partly" } },
+  { app: "lung", indication: "Worsening oxygenation on the ventilator", setting: "clinical", shows: ["pleural_effusion_left"], double: true, calibrate: true },
+  { app: "lung", indication: "After central line insertion, subclavian", setting: "clinical", calibrate: true },
+  { app: "lung", indication: "Simulation: the hypoxic ventilated patient", setting: "simulated", stage: "waiting" },
+  {
+    app: "shock",
+    indication: "Undifferentiated hypotension on admission",
+    setting: "clinical",
+    shows: ["free_fluid"],
+    quality: 3,
+    second: { free_fluid: "negative" },
+  },
+  { app: "shock", indication: "Hypotension after a fall at home", setting: "clinical", stage: "waiting" },
+  { app: "cardiac_arrest", indication: "In-hospital cardiac arrest, pulse check", setting: "clinical", shows: ["cardiac_activity"] },
+  { app: "vascular_access", indication: "Central venous catheter, internal jugular", setting: "clinical", calibrate: true },
+  { app: "vascular_access", indication: "Arterial line, radial", setting: "clinical", quality: 3, slips: { needle_tip: "lost" }, stage: "draft" },
+  { app: "cardiac", indication: "New atrial fibrillation with hypotension", setting: "clinical", stage: "draft" },
+];
+
+export const DEMO_CASES: Record<string, DemoCase[]> = { "cedar-hollow-em": CEDAR_HOLLOW_CASES, "tamsin-ridge-cc": TAMSIN_RIDGE_CASES };
+
+/** How each demo reviewer scores: how often they drift a step from what the clips show, and any lean on overall quality. */
+interface Habit {
+  noise: number;
+  lean?: { by: number; often: number };
+}
+const HABITS: Record<string, Habit> = {
+  "reviewer@cedarhollow.example": { noise: 0.08, lean: { by: 1, often: 0.2 } },
+  "lead@cedarhollow.example": { noise: 0.05 },
+  "elias.brunnhold@cedarhollow.example": { noise: 0.1, lean: { by: -1, often: 0.35 } },
+  "amara.dunleavy@cedarhollow.example": { noise: 0.18 },
+  "reviewer@tamsinridge.example": { noise: 0.07 },
+  "ines.falkenrath@tamsinridge.example": { noise: 0.12, lean: { by: -1, often: 0.25 } },
 };
-const APPS = Object.keys(LIBRARY);
+const DEFAULT_HABIT: Habit = { noise: 0.1 };
 
-async function buildLibrary(dir: string, apps: string[], log: (s: string) => void): Promise<Map<string, string>> {
-  await fsp.mkdir(dir, { recursive: true });
-  const files = new Map<string, string>();
-  const items = apps.flatMap((a) => LIBRARY[a]);
-  let made = 0;
-  // Two at a time: ffmpeg already uses both cores well.
-  for (let i = 0; i < items.length; i += 2) {
-    await Promise.all(
-      items.slice(i, i + 2).map(async (item) => {
-        const out = path.join(dir, item.file);
-        if (!fs.existsSync(out)) {
-          await item.make(out);
-          made++;
-        }
-        files.set(item.name, out);
-      }),
-    );
-  }
-  if (made) log(`Generated ${made} demo clips in ${dir}`);
-  // A file that starts like an MP4 but is cut short: the demo's one failed clip.
-  const broken = path.join(dir, "broken.mp4");
-  if (!fs.existsSync(broken)) {
-    const full = await fsp.readFile([...files.values()].find((f) => f.endsWith(".mp4"))!);
-    await fsp.writeFile(broken, full.subarray(0, Math.floor(full.length / 4)));
-  }
-  files.set("broken", broken);
-  return files;
-}
+/** What a reviewer tells the clinician about a missed criterion. */
+const ADVICE: Record<string, string> = {
+  "depth:too_deep": "Bring the depth up so the target fills the screen.",
+  "depth:too_shallow": "Add depth to see the structures behind the target.",
+  "gain:too_high": "The gain is high: fluid should be black. Turn it down until it is.",
+  "gain:too_low": "The gain is low and detail is lost; bring it up.",
+  "plane:partly": "Fan through to the standard plane before you record.",
+  "labels:incomplete": "Label every clip with its view and side.",
+  "marker:does_not": "The orientation marker is flipped; check it against the screen before recording.",
+  "needle_tip:lost": "Keep the tip on screen: walk it down out of plane, or bring the shaft back into the beam.",
+};
 
-/** Seeds the demo exams once (when Cedar Hollow has none); clips are processed by the queue. */
-export async function seedDemoExams(
-  deps: { db: Db; storage: Storage; jobs: Pick<JobQueue, "enqueueClip"> },
-  opts: { libraryDir: string; count?: number; programId?: string; apps?: string[]; log?: (s: string) => void },
-): Promise<number> {
-  const { db, storage, jobs } = deps;
-  const log = opts.log ?? (() => {});
-  const program = opts.programId ? { id: opts.programId } : await db("programs").where("slug", "cedar-hollow-em").first("id");
-  if (!program) return 0;
-  if (await db("exams").where("program_id", program.id).first("id")) return 0;
-  const appCodes = opts.apps ?? APPS;
-  if (!appCodes.some((a) => LIBRARY[a]?.some((it) => it.kind === "video"))) throw new Error("the demo needs at least one application with a video clip");
-  const library = await buildLibrary(opts.libraryDir, appCodes, log);
-  const sonographers = await db("memberships as m")
-    .join("users as u", "u.id", "m.user_id")
-    .where("m.program_id", program.id)
-    .whereRaw(`'sonographer' = ANY(m.roles)`)
-    .orderBy("u.email")
-    .select("u.id", "u.email");
-  const apps = await db("applications").where("program_id", program.id).whereIn("code", appCodes).orderBy("position").select("id", "code");
-  const findings = await db("application_findings")
-    .whereIn(
-      "application_id",
-      apps.map((a) => a.id),
-    )
-    .select("application_id", "key");
-  const rand = mulberry32(20261201);
-  const pick = <T>(xs: T[]) => xs[Math.floor(rand() * xs.length)];
-  const count = opts.count ?? 40;
-  const jobsToSend: { clipId: string; version: number }[] = [];
-
-  const submitted: { id: string; setting: string; performedAt: Date; sonographerId: string }[] = [];
-  await db.transaction(async (trx) => {
-    for (let i = 0; i < count; i++) {
-      const app = apps[i % apps.length];
-      const sono = sonographers[i % sonographers.length];
-      const daysAgo = Math.floor(rand() * 90) + (i < 8 ? 0 : 1);
-      const performedAt = new Date(Date.now() - daysAgo * 86400_000 - Math.floor(rand() * 10) * 3600_000);
-      // Most are submitted; the newest few of each person stay drafts.
-      const draft = i >= count - 10;
-      const [exam] = await trx("exams")
-        .insert({
-          program_id: program.id,
-          sonographer_id: sono.id,
-          application_id: app.id,
-          code: `EX-D${String(i).padStart(2, "0")}${crypto.randomBytes(2).toString("hex").toUpperCase().slice(0, 3)}`,
-          performed_at: performedAt,
-          setting: pick(["clinical", "clinical", "educational", "simulated"]),
-          transducer: app.code === "cardiac" ? "phased" : ["lung", "dvt", "soft_tissue"].includes(app.code) ? "linear" : "curvilinear",
-          preset: { cardiac: "Cardiac", lung: "Lung", dvt: "Vascular", soft_tissue: "MSK" }[app.code as string] ?? "Abdomen",
-          indication: pick(["Blunt trauma", "Hypotension", "Shortness of breath", "Abdominal pain", "Leg swelling", "Teaching scan", "Flank pain"]),
-          status: draft ? "draft" : "submitted",
-          submitted_at: draft ? null : new Date(performedAt.getTime() + 3 * 3600_000),
-          attested_at: draft ? null : new Date(performedAt.getTime() + 3 * 3600_000),
-          created_at: performedAt,
-          updated_at: performedAt,
-        })
-        .returning(["id", "setting"]);
-      if (!draft) submitted.push({ id: exam.id, setting: exam.setting, performedAt, sonographerId: sono.id });
-      const keys = findings.filter((f) => f.application_id === app.id).map((f) => f.key);
-      if (keys.length) {
-        await trx("exam_findings").insert(
-          keys.map((key) => ({
-            exam_id: exam.id,
-            finding_key: key,
-            read: (rand() < 0.2 ? "positive" : rand() < 0.1 ? "indeterminate" : "negative") as FindingRead,
-          })),
-        );
-      }
-      const items = LIBRARY[app.code];
-      const names = items.map((it) => it.name);
-      if (i === count - 1 && draft) names.push("broken");
-      // Through the same service as an upload; its jobs are sent once everything is committed.
-      const clipDeps = { db: trx, storage, jobs: { enqueueClip: async (j: ClipJob) => void jobsToSend.push(j) }, log: (e: unknown) => log(String(e)) };
-      for (const name of names) {
-        const item = items.find((it) => it.name === name);
-        await addClip(clipDeps, null, {
-          exam: { id: exam.id, programId: program.id },
-          path: library.get(name)!,
-          originalName: item?.file ?? "scan.mp4",
-          sizeBytes: (await fsp.stat(library.get(name)!)).size,
-          view: null,
-          media: { kind: item?.kind ?? "video", mime: item?.mime ?? "video/mp4" },
-          createdAt: performedAt,
-        });
-      }
-    }
-  });
-  const reviewed = await reviewSome(db, program.id, submitted, rand);
-  for (const j of jobsToSend) await jobs.enqueueClip(j);
-  log(`Seeded ${count} demo exams with ${jobsToSend.length} clips (processing in the background); ${reviewed} already reviewed.`);
-  return count;
-}
-
-/** Plausible invented scores: mostly at the ideal level, sometimes one step off. */
-function demoScores(rubric: Rubric, applicationCode: string, rand: () => number): Scores {
+/** The scores the clips deserve under the rubric: the case's quality and slips, every other criterion at its ideal level. */
+export function caseScores(rubric: Rubric, appCode: string, c: Pick<DemoCase, "quality" | "slips">): Scores {
   const scores: Scores = {};
-  for (const c of criteriaFor(rubric.criteria, applicationCode)) {
-    if (c.kind === "number") continue;
-    const ideal = c.levels.filter((l) => l.ideal);
-    const other = c.levels.filter((l) => !l.ideal && !l.fails);
-    const roll = rand();
-    const level =
-      roll < 0.7 || other.length === 0
-        ? ideal[Math.floor(rand() * ideal.length)]
-        : roll < 0.95
-          ? other[Math.floor(rand() * other.length)]
-          : c.levels[c.levels.length - 1];
-    scores[c.key] = (level ?? c.levels[0]).value;
+  for (const cr of criteriaFor(rubric.criteria, appCode)) {
+    if (cr.kind === "number") continue;
+    const ideal = cr.levels.find((l) => l.ideal) ?? cr.levels[0];
+    scores[cr.key] = cr.key === "quality" ? String(c.quality ?? 4) : (c.slips?.[cr.key] ?? ideal.value);
   }
   return scores;
 }
 
-const DEMO_COMMENTS = [
-  "Good windows. Bring the depth up so the target fills the screen.",
-  "Clear standard views. Label each clip with its view and side.",
-  "Gain is a little high: fluid should be black. Otherwise well done.",
-  "Solid study. Fan through the whole organ before recording.",
-  "Orientation marker flipped on one view; check the screen marker before recording.",
-];
+/** One reviewer's scores of a case: mostly the deserved ones, sometimes a neighbouring level, with their lean on overall quality. */
+export function reviewerScores(rubric: Rubric, appCode: string, deserved: Scores, habit: Habit, rand: () => number): Scores {
+  const out: Scores = { ...deserved };
+  for (const cr of criteriaFor(rubric.criteria, appCode)) {
+    if (cr.kind === "number" || cr.kind === "yes_no" || !(cr.key in deserved)) continue;
+    const values = cr.levels.map((l) => l.value);
+    const at = values.indexOf(String(deserved[cr.key]));
+    let to = at;
+    if (cr.key === "quality" && habit.lean && rand() < habit.lean.often) to = at + habit.lean.by;
+    else if (rand() < habit.noise) to = at + (rand() < 0.5 ? -1 : 1);
+    if (to >= 0 && to < values.length && !cr.levels[to].fails) out[cr.key] = values[to];
+  }
+  return out;
+}
+
+function feedbackOf(c: DemoCase, labels: Map<string, string>): string {
+  const parts = Object.entries(c.slips ?? {}).map(([k, v]) => ADVICE[`${k}:${v}`] ?? "");
+  const missed = Object.entries(c.clinician ?? {}).filter(([k]) => (c.shows ?? []).includes(k));
+  for (const [k] of missed) parts.push(`Look again at the ${(labels.get(k) ?? k).toLowerCase()}: the clip shows it.`);
+  if (c.limited) parts.push("A hard study through no fault of yours; the views you got are well taken.");
+  if (!parts.filter(Boolean).length) parts.push((c.shows ?? []).length ? "Well found, and every view recorded." : "A clean, complete study.");
+  return parts.filter(Boolean).join(" ");
+}
+
+interface Person {
+  id: string;
+  email: string;
+}
 
 /**
- * Queues every submitted demo exam and reviews the older half through the same services
- * the API uses, so the demo starts with feedback, a double read or two, and history.
+ * Seeds the demo exams of a program once (when it has none): Cedar Hollow and Tamsin Ridge
+ * by default, or the given program with `cases` (Cedar Hollow's by default), optionally only
+ * those of `apps`. Clips are processed by the queue. Returns how many exams were seeded.
  */
-async function reviewSome(
+export async function seedDemoExams(
+  deps: { db: Db; storage: Storage; jobs: Pick<JobQueue, "enqueueClip"> },
+  opts: { libraryDir: string; programId?: string; cases?: DemoCase[]; apps?: string[]; log?: (s: string) => void },
+): Promise<number> {
+  const targets: { id: string; cases: DemoCase[] }[] = [];
+  if (opts.programId) targets.push({ id: opts.programId, cases: opts.cases ?? CEDAR_HOLLOW_CASES });
+  else
+    for (const [slug, cases] of Object.entries(DEMO_CASES)) {
+      const p = await deps.db("programs").where("slug", slug).first("id");
+      if (p) targets.push({ id: p.id, cases });
+    }
+  let total = 0;
+  for (const t of targets)
+    total += await seedProgram(
+      deps,
+      t.id,
+      t.cases.filter((c) => !opts.apps || opts.apps.includes(c.app)),
+      opts,
+    );
+  return total;
+}
+
+async function seedProgram(
+  deps: { db: Db; storage: Storage; jobs: Pick<JobQueue, "enqueueClip"> },
+  programId: string,
+  cases: DemoCase[],
+  opts: { libraryDir: string; log?: (s: string) => void },
+): Promise<number> {
+  const { db, storage, jobs } = deps;
+  const log = opts.log ?? (() => {});
+  if (!cases.length || (await db("exams").where("program_id", programId).first("id"))) return 0;
+  const members = (role: string): Promise<Person[]> =>
+    db("memberships as m")
+      .join("users as u", "u.id", "m.user_id")
+      .where("m.program_id", programId)
+      .whereNull("m.deactivated_at")
+      .whereRaw(`? = ANY(m.roles)`, [role])
+      .orderBy("u.email")
+      .select("u.id", "u.email");
+  const clinicians = await members("sonographer");
+  const reviewers = await members("reviewer");
+  const leads = await members("qa_lead");
+  if (!clinicians.length) return 0;
+  const apps = await db("applications").where({ program_id: programId, status: "published" }).select("id", "code");
+  const appOf = new Map(apps.map((a) => [a.code as string, a.id as string]));
+  const missing = cases.find((c) => !appOf.has(c.app) || !PROTOCOLS[c.app]);
+  if (missing) throw new Error(`the demo case "${missing.indication}" needs the application "${missing.app}"`);
+  const views = await db("application_views")
+    .whereIn("application_id", [...appOf.values()])
+    .orderBy("position")
+    .select("application_id", "key", "required");
+  const findings = await db("application_findings")
+    .whereIn("application_id", [...appOf.values()])
+    .orderBy("position")
+    .select("application_id", "key", "label");
+  const labels = new Map(findings.map((f) => [f.key as string, f.label as string]));
+
+  // What each case records: every required view (and its extra ones), drawn the way the case looks.
+  const shotsOf = (c: DemoCase): Shot[] => {
+    const id = appOf.get(c.app)!;
+    const keys = views.filter((v) => v.application_id === id && (v.required || (c.extraViews ?? []).includes(v.key))).map((v) => v.key as string);
+    const look = {
+      gain: c.slips?.gain === "too_high" ? ("high" as const) : c.slips?.gain === "too_low" ? ("low" as const) : undefined,
+      deep: c.slips?.depth === "too_deep",
+      container: c.avi ? ("avi" as const) : undefined,
+    };
+    return keys.map((view) => shotFor(c.app, view, c.shows ?? [], look));
+  };
+  const library = await ensureLibrary(opts.libraryDir, cases.flatMap(shotsOf), log);
+  const broken = await brokenClip(opts.libraryDir, [...library.values()].find((f) => f.kind === "video")?.path ?? [...library.values()][0].path);
+  const lastDraft = cases.map((c) => c.stage).lastIndexOf("draft");
+
+  const rand = mulberry32(20261201);
+  const clipJobs: ClipJob[] = [];
+  const made: { c: DemoCase; id: string; clinician: Person; performedAt: Date; truth: { key: string; read: FindingRead }[] }[] = [];
+  await db.transaction(async (trx) => {
+    const reviewedCount = cases.filter((c) => !c.stage).length;
+    let older = 0;
+    for (const [i, c] of cases.entries()) {
+      const clinician = clinicians[i % clinicians.length];
+      // Reviewed cases spread over the last three months; waiting ones this week; drafts the last two days.
+      const daysAgo = c.stage === "draft" ? rand() * 2 : c.stage === "waiting" ? 1 + rand() * 5 : 8 + (82 * (reviewedCount - older++)) / reviewedCount;
+      const performedAt = new Date(Date.now() - Math.round(daysAgo * 24) * 3600_000 - Math.floor(rand() * 50) * 60_000);
+      const sent = c.stage !== "draft";
+      const at = new Date(performedAt.getTime() + (1 + Math.floor(rand() * 3)) * 3600_000);
+      const p = PROTOCOLS[c.app];
+      const [exam] = await trx("exams")
+        .insert({
+          program_id: programId,
+          sonographer_id: clinician.id,
+          application_id: appOf.get(c.app),
+          code: `EX-D${String(i).padStart(2, "0")}${crypto.randomBytes(2).toString("hex").toUpperCase().slice(0, 3)}`,
+          performed_at: performedAt,
+          setting: c.setting,
+          transducer: p.transducer,
+          preset: p.preset,
+          indication: c.indication,
+          status: sent ? "submitted" : "draft",
+          submitted_at: sent ? at : null,
+          attested_at: sent ? at : null,
+          created_at: performedAt,
+          updated_at: sent ? at : performedAt,
+        })
+        .returning(["id"]);
+      const keys = findings.filter((f) => f.application_id === appOf.get(c.app)).map((f) => f.key as string);
+      const truth = keys.map((key) => ({ key, read: ((c.shows ?? []).includes(key) ? "positive" : "negative") as FindingRead }));
+      if (keys.length) await trx("exam_findings").insert(truth.map((t) => ({ exam_id: exam.id, finding_key: t.key, read: c.clinician?.[t.key] ?? t.read })));
+      // Through the same service as an upload; its jobs are sent once everything is committed.
+      const clipDeps = { db: trx, storage, jobs: { enqueueClip: async (j: ClipJob) => void clipJobs.push(j) }, log: (e: unknown) => log(String(e)) };
+      const files = shotsOf(c).map((s) => ({ view: s.view as string | null, file: library.get(shotFile(s))! }));
+      if (i === lastDraft) files.push({ view: null, file: broken });
+      for (const { view, file } of files)
+        await addClip(clipDeps, null, {
+          exam: { id: exam.id, programId },
+          path: file.path,
+          originalName: file.name,
+          sizeBytes: (await fsp.stat(file.path)).size,
+          view,
+          media: { kind: file.kind, mime: file.mime },
+          createdAt: performedAt,
+        });
+      if (sent) made.push({ c, id: exam.id, clinician, performedAt: at, truth });
+    }
+    await reviewCases(trx, programId, made, reviewers, labels, rand);
+  });
+  if (leads.length && reviewers.length >= 2) await seedCalibration(db, programId, leads[0], reviewers, made, rand);
+  for (const j of clipJobs) await jobs.enqueueClip(j);
+  log(`Seeded ${cases.length} demo exams with ${clipJobs.length} clips (processing in the background).`);
+  return cases.length;
+}
+
+/** Queues every submitted case and reviews the ones not left waiting, through the services the API uses. */
+async function reviewCases(
+  trx: Parameters<typeof recordReview>[0],
+  programId: string,
+  made: { c: DemoCase; id: string; clinician: Person; performedAt: Date; truth: { key: string; read: FindingRead }[] }[],
+  reviewers: Person[],
+  labels: Map<string, string>,
+  rand: () => number,
+) {
+  const settings = await getSettings(trx, programId);
+  const rubric = (await activeRubricFor(trx, programId))!;
+  for (const [i, m] of made.entries()) {
+    const double = m.c.double || m.c.second !== undefined;
+    await queueSubmittedExam(trx, { id: m.id, program_id: programId, setting: m.c.setting }, double ? 1 : 0);
+    const eligible = reviewers.filter((r) => r.id !== m.clinician.id);
+    if (m.c.stage === "waiting" || eligible.length < (double ? 2 : 1)) continue;
+    const exam = (await examContext(trx, programId, m.id))!;
+    const assignments = await trx("assignments").where("exam_id", m.id).whereIn("kind", ["primary", "second"]).orderBy("kind").select("id", "kind");
+    const deserved = caseScores(rubric, exam.application_code, m.c);
+    for (const [k, a] of assignments.entries()) {
+      const reviewer = eligible[(i + k) % eligible.length];
+      const reads = m.truth.map((t) => ({ key: t.key, read: (a.kind === "second" ? m.c.second?.[t.key] : undefined) ?? t.read }));
+      const at = new Date(Math.min(Date.now() - 3600_000, m.performedAt.getTime() + (1 + k + rand() * 2) * 86400_000));
+      await trx("assignments").where("id", a.id).update({ rubric_id: rubric.id });
+      await recordReview(trx, {
+        reviewerId: reviewer.id,
+        assignment: a,
+        exam,
+        rubric,
+        body: {
+          scores: reviewerScores(rubric, exam.application_code, deserved, HABITS[reviewer.email] ?? DEFAULT_HABIT, rand),
+          reads,
+          feedback: feedbackOf(m.c, labels),
+          timeSpentSeconds: 60 + Math.floor(rand() * 240),
+          limited: m.c.limited ?? false,
+        },
+        settings,
+        at,
+      });
+    }
+    if (i % 2 === 0) await trx("exams").where("id", m.id).where("status", "reviewed").update({ feedback_acknowledged_at: trx.fn.now() });
+  }
+}
+
+/** The program's calibration set: its calibrate cases, sent to every reviewer; all reads in but one. */
+async function seedCalibration(
   db: Db,
   programId: string,
-  submitted: { id: string; setting: string; performedAt: Date; sonographerId: string }[],
+  lead: Person,
+  reviewers: Person[],
+  made: { c: DemoCase; id: string; truth: { key: string; read: FindingRead }[] }[],
   rand: () => number,
-): Promise<number> {
-  const reviewers = await db("memberships as m")
-    .join("users as u", "u.id", "m.user_id")
-    .where("m.program_id", programId)
-    .whereRaw(`'reviewer' = ANY(m.roles)`)
-    .orderBy("u.email")
-    .select("u.id");
-  let reviewed = 0;
+) {
+  const chosen = made.filter((m) => m.c.calibrate);
+  if (chosen.length < 2) return;
+  const rubric = (await activeRubricFor(db, programId))!;
+  const apps = new Map<string, string>(
+    (
+      await db("exams as e")
+        .join("applications as a", "a.id", "e.application_id")
+        .whereIn(
+          "e.id",
+          chosen.map((m) => m.id),
+        )
+        .select("e.id", "a.code")
+    ).map((r) => [r.id, r.code]),
+  );
+  const setId = await createCalibrationSet(
+    db,
+    { programId, userId: lead.id, ip: null },
+    {
+      name: "Quarterly calibration",
+      // The QA lead's reference answer on the first half: what the clips show.
+      exams: chosen.map((m, i) => ({
+        examId: m.id,
+        reference: i < Math.ceil(chosen.length / 2) ? { scores: caseScores(rubric, apps.get(m.id)!, m.c), reads: m.truth } : undefined,
+      })),
+    },
+  );
   await db.transaction(async (trx) => {
     const settings = await getSettings(trx, programId);
-    const rubric = (await activeRubricFor(trx, programId))!;
-    const byAge = [...submitted].sort((a, b) => a.performedAt.getTime() - b.performedAt.getTime());
-    for (const [i, s] of byAge.entries()) {
-      await queueSubmittedExam(trx, { id: s.id, program_id: programId, setting: s.setting }, settings.doubleReadShare);
-      if (i >= Math.ceil(byAge.length * 0.6)) continue;
-      const exam = (await examContext(trx, programId, s.id))!;
-      const assignments = await trx("assignments").where("exam_id", s.id).orderBy("kind", "desc").select("id", "kind");
-      const eligible = reviewers.filter((r) => r.id !== s.sonographerId);
-      if (eligible.length < assignments.length) continue;
-      for (const [k, a] of assignments.entries()) {
-        const reviewerId = eligible[(i + k) % eligible.length].id;
-        const reads = exam.sonographerReads.map((r) => ({
-          key: r.key,
-          read: (rand() < 0.9 ? r.read : r.read === "positive" ? "negative" : "positive") as FindingRead,
-        }));
-        const at = new Date(Math.min(Date.now() - 3600_000, s.performedAt.getTime() + (1 + k + rand() * 2) * 86400_000));
-        await trx("assignments").where("id", a.id).update({ rubric_id: rubric.id });
-        await recordReview(trx, {
-          reviewerId,
-          assignment: a,
-          exam,
-          rubric,
-          body: {
-            scores: demoScores(rubric, exam.application_code, rand),
-            reads,
-            feedback: DEMO_COMMENTS[(i + k) % DEMO_COMMENTS.length],
-            timeSpentSeconds: 60 + Math.floor(rand() * 240),
-          },
-          settings,
-          at,
-        });
-      }
-      reviewed++;
+    const reads = await trx("assignments")
+      .where("calibration_set_id", setId)
+      .orderBy(["assigned_to", "exam_id"])
+      .select("id", "kind", "exam_id", "assigned_to");
+    for (const [i, a] of reads.entries()) {
+      if (i === reads.length - 1) break; // one read still out
+      const m = chosen.find((x) => x.id === a.exam_id)!;
+      const exam = (await examContext(trx, programId, a.exam_id))!;
+      const reviewer = reviewers.find((r) => r.id === a.assigned_to)!;
+      await recordReview(trx, {
+        reviewerId: reviewer.id,
+        assignment: a,
+        exam,
+        rubric,
+        body: {
+          scores: reviewerScores(rubric, exam.application_code, caseScores(rubric, exam.application_code, m.c), HABITS[reviewer.email] ?? DEFAULT_HABIT, rand),
+          reads: m.truth,
+          feedback: "",
+          timeSpentSeconds: 90 + Math.floor(rand() * 200),
+        },
+        settings,
+      });
     }
   });
-  return reviewed;
 }

@@ -1,11 +1,12 @@
 // Invented learning histories for the demo, so Progress and the Roster have something to
 // show: one learner well on the way in eFAST (about thirty reviewed exams over six months,
-// improving, no learning-curve signal yet) and one whose clean run signals competence. Each
-// exam has one clip from the demo library and is reviewed through the same services the API
-// uses; a few carry confirmatory results. All people and results are invented.
+// improving, no learning-curve signal yet) and one whose clean run reaches the acceptable
+// failure rate. Each exam records every required eFAST view from the demo library (fluid drawn
+// where the exam's truth has free fluid) and is reviewed through the same services the API
+// uses; second reads differ from the first now and then within the rubric's tolerance; a few
+// exams carry confirmatory results. All people and results are invented.
 import crypto from "node:crypto";
 import fsp from "node:fs/promises";
-import path from "node:path";
 import type { Db } from "../server/db/knex";
 import type { Storage } from "../server/storage/types";
 import type { ClipJob, JobQueue } from "../server/jobs/queue";
@@ -18,6 +19,7 @@ import { recordReview } from "../server/services/reviews";
 import { examContext } from "../server/repositories/exams";
 import { activeRubricFor } from "../server/repositories/rubrics";
 import { getSettings } from "../server/repositories/settings";
+import { ensureLibrary, shotFile, shotFor } from "./demo-library";
 
 export interface Learner {
   email: string;
@@ -41,6 +43,16 @@ const COMMENTS = [
   "Hold the probe still for the full clip; the view drifts at the end.",
 ];
 const OFF: Record<string, string[]> = { depth: ["too_deep", "too_shallow"], gain: ["too_high", "too_low"], plane: ["partly"], labels: ["incomplete"] };
+const FLUID_FINDINGS = ["free_fluid_ruq", "free_fluid_pelvis", "free_fluid_luq"];
+
+/** A second reviewer's scores: a step away on scan plane, labeling or a good quality now and then, never across the credit line. */
+function withinTolerance(scores: Scores, rand: () => number): Scores {
+  const out = { ...scores };
+  if (rand() < 0.2) out.plane = out.plane === "standard" ? "partly" : "standard";
+  if (rand() < 0.15) out.labels = out.labels === "complete" ? "incomplete" : "complete";
+  if (Number(out.quality) >= 4 && rand() < 0.3) out.quality = out.quality === "4" ? "5" : "4";
+  return out;
+}
 
 export async function seedLearningHistory(
   deps: { db: Db; storage: Storage; jobs: Pick<JobQueue, "enqueueClip"> },
@@ -49,10 +61,17 @@ export async function seedLearningHistory(
   const { db, storage, jobs } = deps;
   const program = opts.programId ? { id: opts.programId } : await db("programs").where("slug", "cedar-hollow-em").first("id");
   if (!program) return 0;
-  const app = await db("applications").where({ program_id: program.id, code: "efast" }).first("id");
-  const clipFile = path.join(opts.libraryDir, "efast-ruq.mp4");
-  const clipBytes = (await fsp.stat(clipFile)).size;
+  const app = await db("applications").where({ program_id: program.id, code: "efast", status: "published" }).first("id");
+  if (!app) return 0;
   const findingKeys: string[] = await db("application_findings").where("application_id", app.id).orderBy("position").pluck("key");
+  const viewKeys: string[] = await db("application_views").where({ application_id: app.id, required: true }).orderBy("position").pluck("key");
+  // The free-fluid findings a history exam may show, one at a time.
+  const fluidKeys = FLUID_FINDINGS.filter((k) => findingKeys.includes(k));
+  const library = await ensureLibrary(
+    opts.libraryDir,
+    [[], ...fluidKeys.map((k) => [k])].flatMap((positives) => viewKeys.map((v) => shotFor("efast", v, positives))),
+    opts.log,
+  );
   const reviewers = await db("memberships as m")
     .join("users as u", "u.id", "m.user_id")
     .where("m.program_id", program.id)
@@ -75,7 +94,8 @@ export async function seedLearningHistory(
         // Spread over the last six months, oldest first, a few days apart.
         const performedAt = new Date(Date.now() - Math.round((DAYS * (learner.exams - k + 1)) / (learner.exams + 1)) * 86400_000 - (9 + k) * 3600_000);
         const setting = k % 3 === 0 ? "clinical" : "educational";
-        const reads: { key: string; read: FindingRead }[] = findingKeys.map((key) => ({ key, read: rand() < 0.18 ? "positive" : "negative" }));
+        const shows = rand() < 0.2 && fluidKeys.length ? [fluidKeys[Math.floor(rand() * fluidKeys.length)]] : [];
+        const reads: { key: string; read: FindingRead }[] = findingKeys.map((key) => ({ key, read: shows.includes(key) ? "positive" : "negative" }));
         const at = new Date(performedAt.getTime() + 2 * 3600_000);
         const [exam] = await trx("exams")
           .insert({
@@ -97,19 +117,22 @@ export async function seedLearningHistory(
           .returning(["id"]);
         await trx("exam_findings").insert(reads.map((r) => ({ exam_id: exam.id, finding_key: r.key, read: r.read })));
         // Through the same service as an upload; its jobs are sent once everything is committed.
-        await addClip(
-          { db: trx, storage, jobs: { enqueueClip: async (j: ClipJob) => void clipJobs.push(j) }, log: (e: unknown) => opts.log?.(String(e)) },
-          null,
-          {
-            exam: { id: exam.id, programId: program.id },
-            path: clipFile,
-            originalName: "efast-ruq.mp4",
-            sizeBytes: clipBytes,
-            view: "ruq",
-            media: { kind: "video", mime: "video/mp4" },
-            createdAt: performedAt,
-          },
-        );
+        for (const view of viewKeys) {
+          const file = library.get(shotFile(shotFor("efast", view, shows)))!;
+          await addClip(
+            { db: trx, storage, jobs: { enqueueClip: async (j: ClipJob) => void clipJobs.push(j) }, log: (e: unknown) => opts.log?.(String(e)) },
+            null,
+            {
+              exam: { id: exam.id, programId: program.id },
+              path: file.path,
+              originalName: file.name,
+              sizeBytes: (await fsp.stat(file.path)).size,
+              view,
+              media: { kind: file.kind, mime: file.mime },
+              createdAt: performedAt,
+            },
+          );
+        }
 
         await queueSubmittedExam(trx, { id: exam.id, program_id: program.id, setting }, settings.doubleReadShare);
         const slip = learner.slips[0] + (learner.slips[1] - learner.slips[0]) * progress;
@@ -138,8 +161,14 @@ export async function seedLearningHistory(
             assignment: a,
             exam: ctx,
             rubric,
-            // Second reads repeat the first, so the demo history needs no adjudication.
-            body: { scores, reads: reviewerReads, feedback: COMMENTS[(k + i) % COMMENTS.length], timeSpentSeconds: 90 + Math.floor(rand() * 200) },
+            // The final result is the primary's when the reads agree; a second read differs only
+            // within tolerance, so the history needs no adjudication and its credit is as planned.
+            body: {
+              scores: a.kind === "second" ? withinTolerance(scores, rand) : scores,
+              reads: reviewerReads,
+              feedback: COMMENTS[(k + i) % COMMENTS.length],
+              timeSpentSeconds: 90 + Math.floor(rand() * 200),
+            },
             settings,
             at: new Date(at.getTime() + (1 + i) * 86400_000),
           });

@@ -1,5 +1,6 @@
 // The invented demo: program "Cedar Hollow Emergency Medicine" with people in every role,
-// and a second program, "Tamsin Ridge Critical Care", that exists to prove isolation.
+// and a second program, "Tamsin Ridge Critical Care", with its own people, exams, reviews and
+// calibration set (seeds/demo-exams.ts), which also proves that programs stay apart.
 // Every name and address here is made up. All demo passwords: DEMO_PASSWORD.
 import type { Db } from "../server/db/knex";
 import { hashPassword } from "../server/auth/passwords";
@@ -38,6 +39,8 @@ export const DEMO_PROGRAMS: { name: string; slug: string; users: DemoUser[] }[] 
       { email: "admin@tamsinridge.example", name: "Beatrix Oduya", roles: ["admin", "qa_lead"] },
       { email: "sonographer@tamsinridge.example", name: "Caspar Welliver", roles: ["sonographer"] },
       { email: "reviewer@tamsinridge.example", name: "Rosalind Achterberg", roles: ["reviewer"] },
+      { email: "ines.falkenrath@tamsinridge.example", name: "Ines Falkenrath", roles: ["reviewer"] },
+      { email: "joss.merriday@tamsinridge.example", name: "Joss Merriday", roles: ["sonographer"] },
     ],
   },
 ];
