@@ -13,6 +13,7 @@ import { closeServer, listen, localUrl } from "../server/listen";
 import { seedDemoIfEmpty, DEMO_PASSWORD, DEMO_PROGRAMS } from "../seeds/demo";
 import { seedDemoExams } from "../seeds/demo-exams";
 import { seedLearningHistory } from "../seeds/demo-history";
+import { ROLE_LABELS } from "../shared/roles";
 import { chooseClusterPort, clusterDir, freePort, portInUse, startCluster, type Cluster } from "./lib/postgres";
 import { startFakeMail, type FakeMail } from "./lib/mail-server";
 
@@ -129,7 +130,15 @@ try {
   cleanups.push({ name: "the HTTP server", stop: () => closeServer(server) });
   checkpoint();
 
-  const demo = DEMO_PROGRAMS.flatMap((p) => p.users.map((u) => `  ${u.email.padEnd(38)} ${u.roles.join(", ").padEnd(22)} ${p.name}`));
+  const demo = DEMO_PROGRAMS.flatMap((p) =>
+    p.users.map(
+      (u) =>
+        `  ${u.email.padEnd(38)} ${u.roles
+          .map((r) => ROLE_LABELS[r])
+          .join(", ")
+          .padEnd(26)} ${p.name}`,
+    ),
+  );
   console.log(`
 Soundings is running at ${localUrl(server)}${config.host === "127.0.0.1" ? "" : ` (HOST=${config.host})`}
 ${mail ? `Mail sent by the app: ${mail.webUrl} (fake mail server, SMTP on 127.0.0.1:${mail.smtpPort})\n` : ""}

@@ -28,7 +28,15 @@ export interface Config {
   uploads: { maxFileBytes: number; maxClipsPerExam: number; tempDir: string };
   /** What happens to an original upload once its exam is submitted. */
   originalRetention: "delete_on_submit" | "keep";
-  jobs: { schema: string; retryLimit: number; retryDelaySeconds: number; expireInSeconds: number; stuckAfterSeconds: number; runWorker: boolean };
+  jobs: {
+    schema: string;
+    retryLimit: number;
+    retryDelaySeconds: number;
+    expireInSeconds: number;
+    stuckAfterSeconds: number;
+    runWorker: boolean;
+    concurrency: number;
+  };
   /**
    * Limits of anonymous requests, each per window: `max` failed sign-ins per account and
    * client, `perAccount` failed sign-ins of one account from all clients, `perClient` failed
@@ -184,6 +192,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, opts: { dataDir
       expireInSeconds: int(env.JOB_EXPIRE_SECONDS, 15 * 60, "JOB_EXPIRE_SECONDS"),
       stuckAfterSeconds: int(env.JOB_STUCK_AFTER_SECONDS, 20 * 60, "JOB_STUCK_AFTER_SECONDS"),
       runWorker: env.RUN_WORKER !== "false",
+      // Clip jobs one worker process runs at once (ffmpeg runs are short and use a core each).
+      concurrency: Math.max(1, int(env.JOB_CONCURRENCY, 2, "JOB_CONCURRENCY")),
     },
     loginRateLimit: rateLimits(env),
     jsonBodyLimit: env.JSON_BODY_LIMIT ?? "1mb",

@@ -30,23 +30,29 @@ export async function startMediaWorker(deps: { db: Db; storage: Storage; config:
   await sweep();
   const timer = setInterval(() => void sweep().catch(log), Math.max(5, Math.min(60, config.jobs.stuckAfterSeconds)) * 1000);
   timer.unref();
-  const workerId = await queue.boss.work<ClipJob>(
-    CLIP_QUEUE,
-    { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 1 },
-    async (jobs: PgBoss.JobWithMetadata<ClipJob>[]) => {
-      for (const job of jobs) {
-        await processClipJob({ db, storage, log, originalRetention: config.originalRetention, heartbeatSeconds }, job.data, {
-          retryCount: job.retryCount,
-          retryLimit: job.retryLimit,
-        });
-      }
-    },
+  // pg-boss waits out the polling interval after each fetch, so one registration takes at most
+  // two jobs a second at the shortest interval: `concurrency` registrations side by side.
+  const workerIds = await Promise.all(
+    Array.from({ length: config.jobs.concurrency }, () =>
+      queue.boss.work<ClipJob>(
+        CLIP_QUEUE,
+        { includeMetadata: true, batchSize: 1, pollingIntervalSeconds: 0.5 },
+        async (jobs: PgBoss.JobWithMetadata<ClipJob>[]) => {
+          for (const job of jobs) {
+            await processClipJob({ db, storage, log, originalRetention: config.originalRetention, heartbeatSeconds }, job.data, {
+              retryCount: job.retryCount,
+              retryLimit: job.retryLimit,
+            });
+          }
+        },
+      ),
+    ),
   );
   return {
     sweep,
     async stop() {
       clearInterval(timer);
-      await queue.boss.offWork({ id: workerId } as never);
+      for (const id of workerIds) await queue.boss.offWork({ id } as never);
     },
   };
 }

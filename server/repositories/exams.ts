@@ -182,15 +182,18 @@ export async function examContext(db: Q, programId: string, examId: string) {
       "a.credit_require_complete as require_complete",
     );
   if (!e) return undefined;
-  const [findings, sonographerReads, requiredViews, clipViews] = await Promise.all([
-    db("application_findings").where("application_id", e.application_id).orderBy("position").select<{ key: string; label: string }[]>("key", "label"),
-    db("exam_findings").where("exam_id", examId).select("finding_key as key", "read"),
-    db("application_views")
-      .where({ application_id: e.application_id, required: true })
-      .orderBy("position")
-      .select<{ key: string; label: string }[]>("key", "label"),
-    db("clips").where({ exam_id: examId, state: "ready" }).whereNotNull("view_key").distinct().pluck("view_key"),
-  ]);
+  // One after another: inside a transaction they share one connection, where parallel queries
+  // only queue up (and pg warns that a later major version refuses them).
+  const findings = await db("application_findings")
+    .where("application_id", e.application_id)
+    .orderBy("position")
+    .select<{ key: string; label: string }[]>("key", "label");
+  const sonographerReads = await db("exam_findings").where("exam_id", examId).select("finding_key as key", "read");
+  const requiredViews = await db("application_views")
+    .where({ application_id: e.application_id, required: true })
+    .orderBy("position")
+    .select<{ key: string; label: string }[]>("key", "label");
+  const clipViews = await db("clips").where({ exam_id: examId, state: "ready" }).whereNotNull("view_key").distinct().pluck("view_key");
   return { ...e, findingKeys: findings.map((f) => f.key), findingLabels: findings, sonographerReads, requiredViews, clipViews } as {
     id: string;
     program_id: string;
