@@ -176,13 +176,13 @@ test("the QA lead follows a sonographer from the roster to her page and download
     const [header, ...rows] = records;
     for (const column of ["clinician", "email", "application_code", "submitted", "reviewed", "credited", "threshold", "met"]) expect(header).toContain(column);
     const at = (r: string[], column: string) => r[header.indexOf(column)];
-    const aortaRow = rows.find((r) => at(r, "sonographer") === LEARNER.name && at(r, "application_code") === "aorta");
+    const aortaRow = rows.find((r) => at(r, "clinician") === LEARNER.name && at(r, "application_code") === "aorta");
     expect(aortaRow, "the CSV row of her aorta exams").toBeTruthy();
     expect(Number(at(aortaRow!, "credited"))).toBe(apiAorta.credited);
     expect(Number(at(aortaRow!, "reviewed"))).toBe(apiAorta.reviewed);
     expect(
-      rows.every((r) => at(r, "sonographer") === LEARNER.name),
-      "a one-sonographer report holds only her rows",
+      rows.every((r) => at(r, "clinician") === LEARNER.name),
+      "a one-clinician report holds only her rows",
     ).toBeTruthy();
     await shot(page, testInfo, "reports");
     await context.close();
