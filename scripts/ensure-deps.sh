@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
-# Installs what Soundings needs and this machine lacks: Debian's packages (PostgreSQL and
-# ffmpeg to run; with --test also Chromium, poppler-utils and the Python reference
-# libraries the statistics tests compare against) and the npm packages from the lockfile.
+# Installs what Soundings needs and this machine lacks: Debian's packages (PostgreSQL, ffmpeg
+# and DCMTK to run; with --test also Chromium, poppler-utils, the Python reference libraries
+# the statistics tests compare against, and pydicom with its DICOM test files) and the npm
+# packages from the lockfile.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
@@ -9,11 +10,13 @@ missing=()
 want() { dpkg-query -W -f='${Status}' "$1" 2>/dev/null | grep -q "install ok installed" || missing+=("$1"); }
 want postgresql
 want ffmpeg
+want dcmtk
 if [ "${1:-}" = "--test" ]; then
   want chromium
   want poppler-utils
   want python3-statsmodels
   want python3-sklearn
+  want python3-pydicom
 fi
 if [ ${#missing[@]} -gt 0 ]; then
   echo "Installing Debian packages: ${missing[*]}"

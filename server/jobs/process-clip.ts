@@ -11,6 +11,7 @@ import type { ClipJob } from "./queue";
 import { processVideo } from "../media/video";
 import { processStill } from "../media/still";
 import { precheckFile } from "../media/precheck";
+import { prepareDicom } from "../media/dicom/process";
 import { MediaError } from "../media/exec";
 import type { RedactionBox } from "../../shared/schemas/exams";
 import { processedKey, type ProcessedName } from "../storage/keys";
@@ -83,8 +84,13 @@ export async function processClipJob(ctx: ClipJobContext, job: ClipJob, attempt:
       return key;
     };
     let update: Record<string, unknown>;
+    // A DICOM object is decoded to frames first (redacted there, and in its own pixels); the
+    // frames then take the same road as any upload, and the object is kept beside them.
+    const dicom = clip.mime === "application/dicom" ? await prepareDicom(input, work, { redactions }) : null;
+    const source = dicom?.media ?? input;
+    const boxes = dicom ? [] : redactions;
     if (clip.kind === "video") {
-      const out = await processVideo(input, work, { redactions });
+      const out = await processVideo(source, work, { redactions: boxes });
       const precheck = await precheckFile(out.videoPath).catch(() => null);
       update = {
         output_key: await put("video.mp4", out.videoPath, "video/mp4"),
@@ -100,7 +106,7 @@ export async function processClipJob(ctx: ClipJobContext, job: ClipJob, attempt:
         precheck: precheck ? JSON.stringify(precheck) : null,
       };
     } else {
-      const out = await processStill(input, work, { redactions });
+      const out = await processStill(source, work, { redactions: boxes });
       const isPng = out.imagePath.endsWith(".png");
       const precheck = await precheckFile(out.imagePath).catch(() => null);
       const imageKey = await put(isPng ? "image.png" : "image.jpg", out.imagePath, isPng ? "image/png" : "image/jpeg");
@@ -114,7 +120,16 @@ export async function processClipJob(ctx: ClipJobContext, job: ClipJob, attempt:
         precheck: precheck ? JSON.stringify(precheck) : null,
       };
     }
-    const previous = [clip.output_key, clip.poster_key, clip.strip_key, clip.thumb_key].filter(Boolean) as string[];
+    if (dicom) {
+      update.dicom_key = await put("object.dcm", dicom.object, "application/dicom");
+      update.dicom = JSON.stringify({ ...dicom.facts, cleanedPixels: dicom.cleanedPixels });
+      if (update.precheck && dicom.facts.depthCm !== null) {
+        const p = JSON.parse(update.precheck as string);
+        p.depth = { ...p.depth, cm: dicom.facts.depthCm };
+        update.precheck = JSON.stringify(p);
+      }
+    }
+    const previous = [clip.output_key, clip.poster_key, clip.strip_key, clip.thumb_key, clip.dicom_key].filter(Boolean) as string[];
     const n = await markClipReady(ctx.db, clip.id, job.version, update);
     // Outputs of earlier versions are superseded; a newer version's job cleans up after itself.
     if (n > 0) await Promise.all(previous.filter((k) => !Object.values(update).includes(k)).map((k) => ctx.storage.delete(k).catch(() => undefined)));

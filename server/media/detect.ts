@@ -6,6 +6,7 @@ import { fileTypeFromFile } from "file-type";
 export type Detected =
   | { kind: "video"; mime: string; container: "mp4" | "mov" | "m4v" | "avi" | "webm" | "mkv" }
   | { kind: "still"; mime: string; container: "jpeg" | "png" }
+  | { kind: "dicom"; mime: "application/dicom"; container: "dicom" }
   | { kind: null; found: string };
 
 const VIDEO: Record<string, "mp4" | "mov" | "m4v" | "avi" | "webm" | "mkv"> = {
@@ -63,6 +64,8 @@ export function looksLikeText(buf: Buffer): boolean {
   return control / sample.length < 0.01;
 }
 
+const DICOM = { kind: "dicom", mime: "application/dicom", container: "dicom" } as const;
+
 /** What a file is, from its first bytes. */
 export async function detectMedia(filePath: string): Promise<Detected> {
   const fh = await fs.open(filePath, "r");
@@ -77,13 +80,13 @@ export async function detectMedia(filePath: string): Promise<Detected> {
   }
   if (size === 0) return { kind: null, found: "empty file" };
   // DICOM Part 10: a 128-byte preamble, then "DICM".
-  if (head.length >= 132 && head.toString("latin1", 128, 132) === "DICM") return { kind: null, found: "DICOM (not yet supported)" };
+  if (head.length >= 132 && head.toString("latin1", 128, 132) === "DICM") return DICOM;
   const ft = await fileTypeFromFile(filePath);
   if (ft) {
     if (ft.ext in VIDEO) return { kind: "video", mime: ft.mime, container: VIDEO[ft.ext] };
     if (ft.ext === "jpg") return { kind: "still", mime: ft.mime, container: "jpeg" };
     if (ft.ext === "png") return { kind: "still", mime: ft.mime, container: "png" };
-    if (ft.ext === "dcm") return { kind: null, found: "DICOM (not yet supported)" };
+    if (ft.ext === "dcm") return DICOM;
     return { kind: null, found: FOUND[ft.ext] ?? `${ft.ext.toUpperCase()} file (${ft.mime})` };
   }
   if (looksLikeText(head)) return { kind: null, found: "plain text" };

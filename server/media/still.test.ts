@@ -169,11 +169,12 @@ describe("detectMedia", () => {
     expect(await detectMedia(f("clip.webm"))).toMatchObject({ kind: "video", container: "webm" });
     expect(await detectMedia(f("clip.mp4"))).toMatchObject({ kind: "video", mime: "video/mp4", container: "mp4" });
     expect(await detectMedia(f("clip.avi"))).toMatchObject({ kind: "video", container: "avi" });
+    // DICOM by its preamble (PS3.10 7.1: 128 bytes, then "DICM"), whatever the name.
+    expect(await detectMedia(f("scan.dcm"))).toEqual({ kind: "dicom", mime: "application/dicom", container: "dicom" });
   });
   it("names what it found otherwise", async () => {
     expect(await detectMedia(f("doc.pdf"))).toEqual({ kind: null, found: "PDF document" });
     expect(await detectMedia(f("anim.gif"))).toEqual({ kind: null, found: "GIF image" });
-    expect(await detectMedia(f("scan.dcm"))).toEqual({ kind: null, found: "DICOM (not yet supported)" });
     expect(await detectMedia(f("noise.bin"))).toEqual({ kind: null, found: "unknown binary data" });
   });
 });

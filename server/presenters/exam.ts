@@ -1,6 +1,6 @@
 // What an exam looks like to its viewer. Whether the sonographer is named is decided here,
 // once, from the policy (blinded reviewers will get a code and never a name or id).
-import type { Clip, Exam, ExamListItem } from "../../shared/schemas/exams";
+import type { Clip, DicomFactsView, Exam, ExamListItem } from "../../shared/schemas/exams";
 import type { FindingRead, Orientation } from "../../shared/catalogue";
 import type { ApplicationGuide } from "../../shared/schemas/applications";
 
@@ -19,6 +19,7 @@ export interface ClipRow {
   frames: number | null;
   redactions: Clip["redactions"];
   precheck: unknown;
+  dicom?: Record<string, unknown> | null;
   output_key: string | null;
   poster_key: string | null;
   strip_key: string | null;
@@ -29,6 +30,20 @@ export interface ClipRow {
 
 const mediaUrl = (clip: ClipRow, variant: string, present: string | null) =>
   present ? `/api/clips/${clip.id}/media/${variant}?v=${clip.process_version}` : null;
+
+/** The DICOM facts a viewer sees (the stored facts also hold the SOP class and syntax UIDs). */
+function dicomView(d: Record<string, unknown>): DicomFactsView {
+  const n = (v: unknown) => (typeof v === "number" ? v : null);
+  return {
+    sopClass: String(d.sopClass ?? ""),
+    transferSyntax: String(d.transferSyntax ?? ""),
+    frames: n(d.frames) ?? 1,
+    frameRate: n(d.frameRate),
+    depthCm: n(d.depthCm),
+    frequencyMHz: n(d.frequencyMHz),
+    transducerType: typeof d.transducerType === "string" ? d.transducerType : null,
+  };
+}
 
 export function presentClip(c: ClipRow, opts: { forOwner: boolean }): Clip {
   const ready = c.state === "ready";
@@ -47,6 +62,7 @@ export function presentClip(c: ClipRow, opts: { forOwner: boolean }): Clip {
     frames: c.frames,
     redactions: c.redactions ?? [],
     precheck: c.precheck ?? null,
+    dicom: c.dicom ? dicomView(c.dicom) : null,
     media: {
       video: ready && c.kind === "video" ? mediaUrl(c, "video", c.output_key) : null,
       image: ready && c.kind === "still" ? mediaUrl(c, "image", c.output_key) : null,

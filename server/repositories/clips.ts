@@ -3,10 +3,12 @@
 // attempt; a retry, a change of redaction boxes or a lost worker send it back to queued.
 // Transitions of the media job are guarded by the process version the job was sent for, so a
 // job for a superseded version changes nothing.
+import crypto from "node:crypto";
 import type { Knex } from "knex";
 import type { Db } from "../db/knex";
 import type { ClipRow } from "../presenters/exam";
 import type { RedactionBox } from "../../shared/schemas/exams";
+import type { DicomFacts } from "../media/dicom/read";
 
 type Q = Db | Knex.Transaction;
 
@@ -43,6 +45,15 @@ export function findClipWithExam(db: Q, programId: string, clipId: string, opts:
 }
 
 /** One clip by id, for the media worker (a job names only the clip). */
+/** The exam's secret for replacement DICOM UIDs, made on first use (concurrent uploads agree on one). */
+export async function examUidSecret(db: Q, examId: string): Promise<string> {
+  await db("exams")
+    .where("id", examId)
+    .whereNull("dicom_uid_secret")
+    .update({ dicom_uid_secret: crypto.randomBytes(32).toString("hex") });
+  return (await db("exams").where("id", examId).first("dicom_uid_secret")).dicom_uid_secret as string;
+}
+
 export const findClipForJob = (db: Q, clipId: string) => db("clips").where("id", clipId).first();
 
 /** An exam's clips in their order. */
@@ -109,6 +120,8 @@ export interface NewClipRow {
   position: number;
   /** When the clip was made; default now (the demo seeds its history in the past). */
   createdAt?: Date;
+  /** Facts read from a DICOM object before de-identification. */
+  dicom?: DicomFacts | null;
 }
 
 /** Inserts a new clip, queued for its first processing (version 1). */
@@ -126,6 +139,7 @@ export async function insertClip(trx: Q, c: NewClipRow): Promise<StoredClipRow> 
       size_bytes: c.sizeBytes,
       mime: c.mime,
       position: c.position,
+      dicom: c.dicom ? JSON.stringify(c.dicom) : null,
       ...(c.createdAt ? { created_at: c.createdAt } : {}),
     })
     .returning("*");

@@ -3,6 +3,7 @@
 // stored media a viewer may fetch.
 import crypto from "node:crypto";
 import fs from "node:fs";
+import fsp from "node:fs/promises";
 import { pipeline } from "node:stream/promises";
 import type { Knex } from "knex";
 import type { z } from "zod";
@@ -14,6 +15,9 @@ import type { Actor } from "./actor";
 import type { clipUpdateSchema } from "../../shared/schemas/exams";
 import { HttpError, notFound } from "../http/errors";
 import { detectMedia } from "../media/detect";
+import { MediaError } from "../media/exec";
+import { readDicom, type DicomFacts } from "../media/dicom/read";
+import { deidentify } from "../media/dicom/deidentify";
 import { mediaTypeOfKey, originalKey as originalKeyOf } from "../storage/keys";
 import { auditAs } from "../repositories/audit";
 import { findExam, lockExam, touchExam } from "../repositories/exams";
@@ -21,6 +25,7 @@ import {
   clipStorageKeys,
   countExamClips,
   deleteClip,
+  examUidSecret,
   findClipByDigest,
   findClipWithExam,
   insertClip,
@@ -105,21 +110,28 @@ export interface NewClip {
 export async function addClip(deps: ClipDeps, actor: Actor | null, input: NewClip): Promise<StoredClipRow> {
   const { db, storage, jobs, log } = deps;
   const { exam } = input;
-  const media = input.media ?? (await detectMedia(input.path));
-  if (!media.kind) {
+  const detected = input.media ?? (await detectMedia(input.path));
+  if (!detected.kind) {
     throw new HttpError(
       415,
       "unsupported_media_type",
-      `file: found ${"found" in media ? media.found : "an unknown file"}; upload MP4, MOV, M4V, AVI, WebM or MKV video, or a JPEG or PNG still`,
+      `file: found ${"found" in detected ? detected.found : "an unknown file"}; upload MP4, MOV, M4V, AVI, WebM or MKV video, a JPEG or PNG still, or a DICOM ultrasound image`,
     );
   }
   const digest = await sha256(input.path);
+  // A DICOM object is de-identified before anything of it is stored: the stored "original" is
+  // already the de-identified object, and the facts worth keeping are read first.
+  const dicom = detected.kind === "dicom" ? await deidentifiedUpload(db, exam.id, input.path) : null;
+  const media = dicom
+    ? { kind: dicom.facts.frames > 1 ? ("video" as const) : ("still" as const), mime: "application/dicom" }
+    : (detected as { kind: "video" | "still"; mime: string });
+  const storedPath = dicom?.path ?? input.path;
   const clipId = crypto.randomUUID();
   const originalKey = originalKeyOf(exam.programId, clipId);
   const duplicate = await findClipByDigest(db, exam.id, digest);
   if (duplicate) throw new HttpError(409, "duplicate_clip", "file: this exact file is already attached to the exam", { clipId: duplicate.id });
   try {
-    await storage.put(originalKey, input.path, media.mime);
+    await storage.put(originalKey, storedPath, media.mime);
   } catch (err) {
     // A put that failed half-way may have left part of the object behind.
     await storage.delete(originalKey).catch(() => undefined);
@@ -146,6 +158,7 @@ export async function addClip(deps: ClipDeps, actor: Actor | null, input: NewCli
         mime: media.mime,
         position: await nextClipPosition(trx, exam.id),
         createdAt: input.createdAt,
+        dicom: dicom?.facts ?? null,
       });
       await touchExam(trx, exam.id, input.createdAt);
       if (actor) {
@@ -162,10 +175,31 @@ export async function addClip(deps: ClipDeps, actor: Actor | null, input: NewCli
     await storage.delete(originalKey);
     if ((err as { code?: string }).code === "23505") throw new HttpError(409, "duplicate_clip", "file: this exact file is already attached to the exam");
     throw err;
+  } finally {
+    if (dicom) await fsp.rm(dicom.path, { force: true });
   }
   // Sent after commit; if this fails the sweep sends it later, nothing is lost.
   await jobs.enqueueClip({ clipId, version: 1 }).catch(() => undefined);
   return row;
+}
+
+/**
+ * Reads an uploaded DICOM object (415 naming what it is when Soundings cannot take it) and
+ * writes its de-identified copy beside it; UIDs are replaced with the exam's own secret.
+ */
+async function deidentifiedUpload(db: Db | Knex.Transaction, examId: string, file: string): Promise<{ path: string; facts: DicomFacts }> {
+  let read: ReturnType<typeof readDicom>;
+  try {
+    read = readDicom(await fsp.readFile(file));
+  } catch (err) {
+    if (err instanceof MediaError) throw new HttpError(415, "unsupported_media_type", `file: ${err.message}`);
+    throw err;
+  }
+  const secret = await examUidSecret(db, examId);
+  const { bytes } = deidentify(read.file, { uidSecret: secret });
+  const out = `${file}.deidentified.dcm`;
+  await fsp.writeFile(out, bytes);
+  return { path: out, facts: read.facts };
 }
 
 /** The caller's own clip of a draft, locked for the rest of the transaction. */

@@ -1,7 +1,7 @@
 // The one naming scheme of stored media. Keys are generated here from ids, never from what a
 // user sent: a clip's original upload, and the outputs of each processing version (a newer
 // version never overwrites an older one's files, so a player mid-stream keeps its bytes).
-export type ProcessedName = "video.mp4" | "poster.jpg" | "strip.jpg" | "thumb.jpg" | "image.png" | "image.jpg";
+export type ProcessedName = "video.mp4" | "poster.jpg" | "strip.jpg" | "thumb.jpg" | "image.png" | "image.jpg" | "object.dcm";
 
 /** Where an upload is kept as it arrived, until it is processed (and, by default, the exam is submitted). */
 export const originalKey = (programId: string, clipId: string) => `programs/${programId}/clips/${clipId}/original`;

@@ -52,6 +52,18 @@ export const clipUpdateSchema = z.object({
   redactions: z.array(redactionBoxSchema).max(20).optional(),
 });
 
+/** What a clip's DICOM object said about its acquisition: depth from the region calibration, transducer, timing. */
+export const dicomFactsSchema = z.object({
+  sopClass: z.string(),
+  transferSyntax: z.string(),
+  frames: z.number(),
+  frameRate: z.number().nullable(),
+  depthCm: z.number().nullable(),
+  frequencyMHz: z.number().nullable(),
+  transducerType: z.string().nullable(),
+});
+export type DicomFactsView = z.infer<typeof dicomFactsSchema>;
+
 export const clipSchema = z.object({
   id: z.uuid(),
   view: z.string().nullable(),
@@ -67,6 +79,8 @@ export const clipSchema = z.object({
   frames: z.number().nullable(),
   redactions: z.array(redactionBoxSchema),
   precheck: z.unknown().nullable(),
+  /** Facts a DICOM clip carried before de-identification (null for video and image uploads). */
+  dicom: dicomFactsSchema.nullable(),
   media: z.object({
     video: z.string().nullable(),
     image: z.string().nullable(),

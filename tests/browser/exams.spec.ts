@@ -36,6 +36,7 @@ async function draftShowingOneClip(page: Page, fields: { applicationCode: string
       frames: null,
       redactions: [],
       precheck: null,
+      dicom: null,
       media: { video: null, image: null, poster: null, strip: null, thumb: null },
       createdAt: new Date().toISOString(),
       ...clip,

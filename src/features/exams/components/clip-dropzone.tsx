@@ -5,7 +5,7 @@ import { Upload } from "lucide-react";
 import { buttonClasses } from "../../../components/ui/button";
 
 const ACCEPT =
-  "video/mp4,video/quicktime,video/x-m4v,video/x-msvideo,video/webm,video/x-matroska,image/jpeg,image/png,.mp4,.mov,.m4v,.avi,.webm,.mkv,.jpg,.jpeg,.png";
+  "video/mp4,video/quicktime,video/x-m4v,video/x-msvideo,video/webm,video/x-matroska,image/jpeg,image/png,application/dicom,.mp4,.mov,.m4v,.avi,.webm,.mkv,.jpg,.jpeg,.png,.dcm,.dicom";
 
 export function ClipDropzone({ onFiles, disabled, hint }: { onFiles: (files: File[]) => void; disabled?: boolean; hint?: string }) {
   const inputId = useId();
@@ -36,7 +36,9 @@ export function ClipDropzone({ onFiles, disabled, hint }: { onFiles: (files: Fil
     >
       <Upload aria-hidden="true" className="mx-auto size-6 text-slate-500" />
       <p className="mt-2 text-sm font-semibold text-ink-900">Drop clips here</p>
-      <p className="mt-0.5 text-sm text-slate-600">MP4, MOV, M4V, AVI, WebM or MKV video; JPEG or PNG stills. Several at once is fine.</p>
+      <p className="mt-0.5 text-sm text-slate-600">
+        MP4, MOV, M4V, AVI, WebM or MKV video; JPEG or PNG stills; DICOM ultrasound images and cine loops (de-identified on arrival). Several at once is fine.
+      </p>
       <input
         ref={inputRef}
         id={inputId}

@@ -10,6 +10,7 @@ import { ClipPlayer } from "./clip-player";
 import { ClipStateTag } from "./clip-state-tag";
 import { RedactionEditor } from "./redaction-editor";
 import { ViewSelect } from "./view-select";
+import { dicomFacts } from "../../../lib/dicom";
 
 type Props = {
   examId: string;
@@ -37,6 +38,7 @@ export function ClipPanel({ examId, clip, index, views, editable }: Props) {
   if (clip.width && clip.height) facts.push(["Frame", `${clip.width}×${clip.height}`]);
   if (clip.seconds) facts.push(["Length", `${clip.seconds.toFixed(1)} s`]);
   if (clip.fps) facts.push(["Frame rate", `${Math.round(clip.fps)} fps`]);
+  facts.push(...dicomFacts(clip.dicom));
   facts.push(["Redaction", clip.redactions.length ? `${clip.redactions.length} ${clip.redactions.length === 1 ? "box" : "boxes"}` : "None"]);
 
   return (

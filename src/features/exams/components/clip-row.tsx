@@ -8,6 +8,7 @@ import { formatBytes } from "../../../lib/bytes";
 import { useRemoveClip, useRetryClip } from "../api/exams";
 import { ClipStateTag } from "./clip-state-tag";
 import { ViewSelect } from "./view-select";
+import { dicomLine } from "../../../lib/dicom";
 
 type Props = { examId: string; clip: Clip; views: { key: string; label: string }[]; editable: boolean };
 
@@ -33,6 +34,8 @@ export function ClipRow({ examId, clip, views, editable }: Props) {
   const facts = [clip.kind === "still" ? "Still" : "Video", formatBytes(clip.sizeBytes)];
   if (clip.state === "ready" && clip.width && clip.height) facts.push(`${clip.width}×${clip.height}`);
   if (clip.state === "ready" && clip.seconds) facts.push(`${clip.seconds.toFixed(1)} s`);
+  const dicom = dicomLine(clip.dicom);
+  if (dicom) facts.push(dicom);
   const actionError = retry.error?.message ?? remove.error?.message ?? null;
 
   return (

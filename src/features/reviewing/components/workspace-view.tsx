@@ -29,6 +29,7 @@ import { FindingReadRow, findingStopId } from "./finding-read-row";
 import { KeyboardHelp } from "./keyboard-help";
 import { PrecheckHints } from "./precheck-hints";
 import { SaveStatus, TimeSpent } from "./save-status";
+import { dicomLine } from "../../../lib/dicom";
 
 const KIND_LABELS: Record<string, string> = { primary: "First read", second: "Second read", adjudication: "Adjudication" };
 
@@ -246,6 +247,7 @@ export function WorkspaceView({ workspace, application, notice }: { workspace: W
                 <span className="text-xs text-ink-200">
                   {clip.kind === "video" ? "Video" : "Still"}
                   {clip.width && clip.height ? ` · ${clip.width}×${clip.height}` : ""}
+                  {clip.dicom ? ` · ${dicomLine(clip.dicom)}` : ""}
                 </span>
               </div>
               <ClipViewer key={clip.id} clip={clip} label={title} handle={player} />
