@@ -14,6 +14,7 @@ import { seedDemoIfEmpty, DEMO_PASSWORD, DEMO_PROGRAMS } from "../seeds/demo";
 import { seedDemoExams } from "../seeds/demo-exams";
 import { seedLearningHistory } from "../seeds/demo-history";
 import { ROLE_LABELS } from "../shared/roles";
+import { startDicomReceiver } from "../server/dicom/receiver";
 import { chooseClusterPort, clusterDir, freePort, portInUse, startCluster, type Cluster } from "./lib/postgres";
 import { startFakeMail, type FakeMail } from "./lib/mail-server";
 
@@ -130,6 +131,19 @@ try {
   cleanups.push({ name: "the HTTP server", stop: () => closeServer(server) });
   checkpoint();
 
+  // The DICOM receiver (C-ECHO, C-STORE) on DICOM_PORT, bound like the app; another free port when that one is busy.
+  let dicomLine = "";
+  if (env.DICOM_PORT !== "off") {
+    const wanted = Number(env.DICOM_PORT ?? 11112);
+    if (!Number.isInteger(wanted) || wanted < 0 || wanted > 65535) throw new Error(`DICOM_PORT must be a port number or "off", got "${env.DICOM_PORT}"`);
+    const port = (await portInUse(wanted)) ? await freePort() : wanted;
+    const receiver = await startDicomReceiver({ db: runtime.db, storage: runtime.storage, log: (e) => console.log(String(e)) }, { host: config.host, port });
+    cleanups.push({ name: "the DICOM receiver", stop: () => receiver.close() });
+    const titles = DEMO_PROGRAMS.map((p) => `${p.aeTitle} (${p.name})`).join(", ");
+    dicomLine = `DICOM receiver: ${config.host}:${receiver.port}${receiver.port !== wanted ? ` (port ${wanted} was busy)` : ""}; called AE titles ${titles}\n`;
+  }
+  checkpoint();
+
   const demo = DEMO_PROGRAMS.flatMap((p) =>
     p.users.map(
       (u) =>
@@ -141,7 +155,7 @@ try {
   );
   console.log(`
 Soundings is running at ${localUrl(server)}${config.host === "127.0.0.1" ? "" : ` (HOST=${config.host})`}
-${mail ? `Mail sent by the app: ${mail.webUrl} (fake mail server, SMTP on 127.0.0.1:${mail.smtpPort})\n` : ""}
+${dicomLine}${mail ? `Mail sent by the app: ${mail.webUrl} (fake mail server, SMTP on 127.0.0.1:${mail.smtpPort})\n` : ""}
 Demo sign-ins (password "${DEMO_PASSWORD}"):
 ${demo.join("\n")}
 

@@ -17,10 +17,12 @@ interface DemoUser {
   roles: Role[];
 }
 
-export const DEMO_PROGRAMS: { name: string; slug: string; users: DemoUser[] }[] = [
+export const DEMO_PROGRAMS: { name: string; slug: string; aeTitle: string; users: DemoUser[] }[] = [
   {
     name: "Cedar Hollow Emergency Medicine",
     slug: "cedar-hollow-em",
+    // The called AE title ultrasound machines send this program's studies to.
+    aeTitle: "CEDARHOLLOW",
     users: [
       { email: "sonographer@cedarhollow.example", name: "Noa Hartwell", roles: ["sonographer"] },
       { email: "reviewer@cedarhollow.example", name: "Imani Lindqvist", roles: ["reviewer"] },
@@ -35,6 +37,7 @@ export const DEMO_PROGRAMS: { name: string; slug: string; users: DemoUser[] }[] 
   {
     name: "Tamsin Ridge Critical Care",
     slug: "tamsin-ridge-cc",
+    aeTitle: "TAMSINRIDGE",
     users: [
       { email: "admin@tamsinridge.example", name: "Beatrix Oduya", roles: ["admin", "qa_lead"] },
       { email: "sonographer@tamsinridge.example", name: "Caspar Welliver", roles: ["sonographer"] },
@@ -57,7 +60,7 @@ export async function seedDemoIfEmpty(db: Db, bcryptRounds: number): Promise<boo
     const [{ count }] = await trx("programs").count<{ count: string }[]>("* as count");
     if (Number(count) > 0) return false;
     for (const p of DEMO_PROGRAMS) {
-      const [program] = await trx("programs").insert({ name: p.name, slug: p.slug }).returning("id");
+      const [program] = await trx("programs").insert({ name: p.name, slug: p.slug, dicom_ae_title: p.aeTitle }).returning("id");
       await insertCatalogue(trx, program.id, DEFAULT_CATALOGUE);
       await ensureDefaultRubric(trx, program.id);
       for (const u of p.users) {

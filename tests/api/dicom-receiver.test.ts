@@ -1,0 +1,109 @@
+// The DICOM receiver (issue 13) with DCMTK's echoscu and dcmsend as real clients: C-ECHO
+// answers; an unknown called AE title is rejected at association; objects sent with dcmsend
+// land in the program's inbox de-identified (read back with pydicom), grouped by study and
+// matched to the clinician by operator name; a JPEG 2000 object and an RT plan are not
+// accepted, and nothing of them is stored.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { execFile, execFileSync } from "node:child_process";
+import { promisify } from "node:util";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { makeKit, makeMember, makeProgram, type TestKit, type TestMember } from "./helpers";
+import { startDicomReceiver, type DicomReceiver } from "../../server/dicom/receiver";
+import { usMultiframe } from "../fixtures/dicom";
+
+const run = promisify(execFile);
+/** Debian's python3-pydicom test files. */
+const PYDICOM_FILES = "/usr/lib/python3/dist-packages/pydicom/data/test_files";
+const PYTHON = process.env.SOUNDINGS_PYTHON ?? (fs.existsSync("/usr/bin/python3") ? "/usr/bin/python3" : "python3");
+
+let kit: TestKit;
+let receiver: DicomReceiver;
+let programId: string;
+let clinician: TestMember;
+let ae: string;
+let dir: string;
+const logged: string[] = [];
+
+beforeAll(async () => {
+  kit = makeKit();
+  programId = (await makeProgram(kit.db)).id;
+  ae = `RCV${Math.floor(Math.random() * 1e9)}`.slice(0, 16);
+  await kit.db("programs").where("id", programId).update({ dicom_ae_title: ae });
+  clinician = await makeMember(kit.db, programId, ["sonographer"]);
+  await kit
+    .db("memberships")
+    .where({ program_id: programId, user_id: clinician.id })
+    .update({ dicom_operator_names: ["varga tobias"] });
+  receiver = await startDicomReceiver({ db: kit.db, storage: kit.storage, log: (e) => logged.push(String(e)) }, { host: "127.0.0.1", port: 0 });
+  dir = fs.mkdtempSync(path.join(os.tmpdir(), "soundings-dicom-rcv-"));
+});
+afterAll(async () => {
+  await receiver.close();
+  await kit.close();
+  fs.rmSync(dir, { recursive: true, force: true });
+});
+
+const send = (file: string, calledAe = ae) =>
+  run("dcmsend", ["-aet", "BEDSIDE_US", "-aec", calledAe, "127.0.0.1", String(receiver.port), file]).then(
+    (r) => ({ ok: true, out: r.stdout + r.stderr }),
+    (e: { stdout?: string; stderr?: string }) => ({ ok: false, out: `${e.stdout ?? ""}${e.stderr ?? ""}` }),
+  );
+const objects = () => kit.db("dicom_inbox_objects").where("program_id", programId);
+
+describe("DICOM receiver", () => {
+  it("answers C-ECHO for the program's AE title and rejects an unknown one at association", async () => {
+    await expect(run("echoscu", ["-aec", ae, "127.0.0.1", String(receiver.port)])).resolves.toBeDefined();
+    const refused = await run("echoscu", ["-aec", "NOSUCHPROGRAM", "127.0.0.1", String(receiver.port)]).catch((e: { stderr: string }) => e);
+    expect("stderr" in refused ? refused.stderr : "").toMatch(/Called AE Title Not Recognized/i);
+    expect(logged.some((l) => /unknown called AE title NOSUCHPROGRAM/.test(l))).toBe(true);
+  });
+
+  it("stores what dcmsend sends, de-identified, grouped by study and matched by operator name", async () => {
+    const study = "1.2.826.0.1.3680043.10.999.88.1";
+    const files = [1, 2].map((seed) => {
+      const f = path.join(dir, `cine-${seed}.dcm`);
+      fs.writeFileSync(f, usMultiframe({ studyUid: study, seed, frames: 3 }));
+      return f;
+    });
+    for (const f of files) expect((await send(f)).ok).toBe(true);
+    const jpeg = await send(path.join(PYDICOM_FILES, "JPEG-lossy.dcm"));
+    expect(jpeg.ok, jpeg.out).toBe(true);
+
+    const studies = await kit.db("dicom_inbox_studies").where("program_id", programId).orderBy("first_received_at");
+    expect(studies).toHaveLength(2);
+    const [cine] = studies;
+    expect(cine.calling_ae).toBe("BEDSIDE_US");
+    expect(cine.matched_user_id).toBe(clinician.id);
+    const stored = await objects().where("study_id", cine.id);
+    expect(stored).toHaveLength(2);
+    expect(stored[0].facts).toMatchObject({ depthCm: 8, frames: 3, frameRate: 25 });
+    // Nothing identifying is kept (pydicom reads the stored object); one study keeps one new UID.
+    const uids: string[] = [];
+    for (const [i, o] of stored.entries()) {
+      const f = path.join(dir, `stored-${i}.dcm`);
+      await kit.storage.download(o.storage_key, f);
+      const script =
+        "import sys,json,pydicom;d=pydicom.dcmread(sys.argv[1]);print(json.dumps([str(d.PatientName),str(d.PatientID),d.get('OperatorsName') is None,str(d.StudyInstanceUID),d.PatientIdentityRemoved]))";
+      const [name, id, noOperator, uid, removed] = JSON.parse(execFileSync(PYTHON, ["-c", script, f], { encoding: "utf8" })) as [
+        string,
+        string,
+        boolean,
+        string,
+        string,
+      ];
+      expect([name, id, noOperator, removed]).toEqual(["", "", true, "YES"]);
+      uids.push(uid);
+    }
+    expect(uids[0]).toBe(uids[1]);
+    expect(uids[0]).not.toBe(study);
+  });
+
+  it("does not take JPEG 2000 or a non-image object, and stores nothing of them", async () => {
+    const before = (await objects()).length;
+    await send(path.join(PYDICOM_FILES, "JPEG2000.dcm"));
+    await send(path.join(PYDICOM_FILES, "rtplan.dcm"));
+    expect((await objects()).length).toBe(before);
+  });
+});
