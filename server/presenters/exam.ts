@@ -32,7 +32,7 @@ const mediaUrl = (clip: ClipRow, variant: string, present: string | null) =>
   present ? `/api/clips/${clip.id}/media/${variant}?v=${clip.process_version}` : null;
 
 /** The DICOM facts a viewer sees (the stored facts also hold the SOP class and syntax UIDs). */
-function dicomView(d: Record<string, unknown>): DicomFactsView {
+export function dicomFactsView(d: Record<string, unknown>): DicomFactsView {
   const n = (v: unknown) => (typeof v === "number" ? v : null);
   return {
     sopClass: String(d.sopClass ?? ""),
@@ -62,7 +62,7 @@ export function presentClip(c: ClipRow, opts: { forOwner: boolean }): Clip {
     frames: c.frames,
     redactions: c.redactions ?? [],
     precheck: c.precheck ?? null,
-    dicom: c.dicom ? dicomView(c.dicom) : null,
+    dicom: c.dicom ? dicomFactsView(c.dicom) : null,
     media: {
       video: ready && c.kind === "video" ? mediaUrl(c, "video", c.output_key) : null,
       image: ready && c.kind === "still" ? mediaUrl(c, "image", c.output_key) : null,

@@ -23,6 +23,7 @@ import { registerCalibrationRoutes } from "./calibration-sets/router";
 import { registerAssignmentRoutes } from "./assignments/router";
 import { registerAdjudicationRoutes } from "./adjudications/router";
 import { registerReviewRoutes } from "./reviews/router";
+import { registerDicomInboxRoutes } from "./dicom-inbox/router";
 
 export function registerApiRoutes(kit: RouteKit, ctx: RouteContext) {
   registerHealthRoutes(kit, ctx);
@@ -46,4 +47,5 @@ export function registerApiRoutes(kit: RouteKit, ctx: RouteContext) {
   registerReportRoutes(kit, ctx);
   registerCalibrationRoutes(kit, ctx);
   registerReviewRoutes(kit, ctx);
+  registerDicomInboxRoutes(kit, ctx);
 }

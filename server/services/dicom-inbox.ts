@@ -5,7 +5,21 @@
 // with the names each member gave for themselves, and only the match is kept.
 import crypto from "node:crypto";
 import fsp from "node:fs/promises";
+import os from "node:os";
+import path from "node:path";
+import type { Knex } from "knex";
+import type { z } from "zod";
 import type { Db } from "../db/knex";
+import type { AuthUser } from "../auth/types";
+import type { Actor } from "./actor";
+import { HttpError, notFound } from "../http/errors";
+import { auditAs } from "../repositories/audit";
+import { dicomFactsView } from "../presenters/exam";
+import type { examCreateSchema } from "../../shared/schemas/exams";
+import type { InboxStudy } from "../../shared/schemas/dicom-inbox";
+import { createExam, examForViewer, type ExamDeps } from "./exams";
+import type { ExamView } from "../presenters/exam";
+import { addClip, type ClipDeps } from "./clips";
 import type { Storage } from "../storage/types";
 import { readDicom } from "../media/dicom/read";
 import { deidentify } from "../media/dicom/deidentify";
@@ -81,4 +95,111 @@ export async function receiveIntoInbox(
   // The same object sent twice is kept once.
   if (!inserted.length) await storage.delete(key).catch(() => undefined);
   return study.id as string;
+}
+
+// ---- the inbox as people use it ----
+
+const isLead = (user: AuthUser) => user.roles.includes("qa_lead") || user.roles.includes("admin");
+
+/** The inbox studies a user may see: every open one for a QA lead or admin; for a clinician, their own matches and claims and the unassigned ones. */
+function visibleStudies(db: Db | Knex.Transaction, user: AuthUser) {
+  const q = db("dicom_inbox_studies as s").where("s.program_id", user.programId).whereNull("s.exam_id");
+  if (isLead(user)) return q;
+  return q.where((w) =>
+    w
+      .where("s.matched_user_id", user.id)
+      .orWhere("s.claimed_by", user.id)
+      .orWhere((u) => u.whereNull("s.matched_user_id").whereNull("s.claimed_by")),
+  );
+}
+
+async function presentStudies(db: Db | Knex.Transaction, rows: Record<string, unknown>[]): Promise<InboxStudy[]> {
+  if (!rows.length) return [];
+  const objects = await db("dicom_inbox_objects")
+    .whereIn(
+      "study_id",
+      rows.map((r) => r.id as string),
+    )
+    .orderBy("received_at")
+    .select("id", "study_id", "facts", "size_bytes");
+  const ids = [...new Set(rows.flatMap((r) => [r.matched_user_id, r.claimed_by]).filter(Boolean) as string[])];
+  const names = new Map((await db("users").whereIn("id", ids).select("id", "name")).map((u) => [u.id as string, u.name as string]));
+  const person = (id: unknown) => (typeof id === "string" && names.has(id) ? { id, name: names.get(id)! } : null);
+  return rows.map((r) => ({
+    id: r.id as string,
+    receivedAt: (r.first_received_at as Date).toISOString(),
+    lastReceivedAt: (r.last_received_at as Date).toISOString(),
+    callingAe: r.calling_ae as string,
+    objects: objects
+      .filter((o) => o.study_id === r.id)
+      .map((o) => ({ id: o.id as string, facts: dicomFactsView(o.facts as Record<string, unknown>), sizeBytes: Number(o.size_bytes) })),
+    matchedTo: person(r.matched_user_id),
+    claimedBy: person(r.claimed_by),
+  }));
+}
+
+export async function listInbox(db: Db, user: AuthUser): Promise<InboxStudy[]> {
+  return presentStudies(db, await visibleStudies(db, user).orderBy("s.last_received_at", "desc").select("s.*"));
+}
+
+/** A clinician takes a study that matched nobody (or them); 409 when someone else has it. */
+export async function claimStudy(db: Db, user: AuthUser, actor: Actor, id: string): Promise<InboxStudy> {
+  return db.transaction(async (trx) => {
+    const study = await visibleStudies(trx, user).where("s.id", id).forUpdate().first("s.*");
+    if (!study) throw notFound("Inbox study");
+    if (study.claimed_by && study.claimed_by !== user.id) throw new HttpError(409, "already_claimed", "This study has been claimed by someone else");
+    await trx("dicom_inbox_studies").where("id", id).update({ claimed_by: user.id });
+    await auditAs(trx, actor, { action: "dicom_inbox.claimed", entityType: "dicom_inbox_study", entityId: id });
+    return (await presentStudies(trx, [{ ...study, claimed_by: user.id }]))[0];
+  });
+}
+
+/**
+ * Makes a draft exam of an inbox study in one step: the exam's details as in POST /exams, and
+ * every received object as a clip (through addClip, so each is checked, de-identified with the
+ * study's UID secret and processed like an upload). The study leaves the inbox.
+ */
+export async function examFromStudy(
+  deps: ClipDeps & ExamDeps,
+  user: AuthUser,
+  actor: Actor,
+  id: string,
+  body: z.output<typeof examCreateSchema>,
+): Promise<ExamView> {
+  const { db, storage } = deps;
+  const study = await visibleStudies(db, user).where("s.id", id).first("s.*");
+  if (!study) throw notFound("Inbox study");
+  if (study.claimed_by && study.claimed_by !== user.id) throw new HttpError(409, "already_claimed", "This study has been claimed by someone else");
+  const taken = await db("dicom_inbox_studies")
+    .where({ id, exam_id: null })
+    .whereRaw("coalesce(claimed_by, ?) = ?", [user.id, user.id])
+    .update({ claimed_by: user.id });
+  if (!taken) throw new HttpError(409, "already_claimed", "This study has been claimed or made into an exam already");
+  const exam = (await createExam(deps, user, actor, body)).exam;
+  await db("exams").where("id", exam.id).update({ dicom_uid_secret: study.uid_secret });
+  const objects = await db("dicom_inbox_objects").where("study_id", id).orderBy("received_at");
+  const dir = await fsp.mkdtemp(path.join(os.tmpdir(), "soundings-inbox-"));
+  try {
+    for (const [i, o] of objects.entries()) {
+      const file = path.join(dir, `${o.id}.dcm`);
+      await storage.download(o.storage_key, file);
+      await addClip(deps, actor, {
+        exam: { id: exam.id, programId: user.programId },
+        path: file,
+        originalName: `received-${i + 1}.dcm`,
+        sizeBytes: Number(o.size_bytes),
+        view: null,
+      });
+    }
+  } finally {
+    await fsp.rm(dir, { recursive: true, force: true });
+  }
+  await db("dicom_inbox_studies").where("id", id).update({ exam_id: exam.id });
+  await auditAs(db, actor, {
+    action: "dicom_inbox.exam_made",
+    entityType: "dicom_inbox_study",
+    entityId: id,
+    details: { examId: exam.id, objects: objects.length },
+  });
+  return examForViewer(db, user, exam.id);
 }

@@ -271,6 +271,13 @@ const MATRIX: Row[] = [
   { route: "GET /reports/credentialing", call: fixed("/api/reports/credentialing?format=csv"), expect: only(["sonographer", "qa_lead"], 200) },
   { route: "GET /me/progress", call: fixed("/api/me/progress"), expect: only(["sonographer"], 200) },
   { route: "GET /roster", call: fixed("/api/roster"), expect: only(["qa_lead"], 200) },
+  { route: "GET /dicom-inbox", call: fixed("/api/dicom-inbox"), expect: only(["sonographer", "qa_lead", "admin"], 200) },
+  { route: "POST /dicom-inbox/:id/claim", call: fixed("/api/dicom-inbox/00000000-0000-4000-8000-000000000000/claim"), expect: only(["sonographer"], 404) },
+  {
+    route: "POST /dicom-inbox/:id/exam",
+    call: async () => ({ path: "/api/dicom-inbox/00000000-0000-4000-8000-000000000000/exam", body: examBody() }),
+    expect: only(["sonographer"], 404),
+  },
   { route: "GET /roster/:id/progress", call: async () => ({ path: `/api/roster/${members.sonographer.id}/progress` }), expect: only(["qa_lead"], 200) },
   { route: "GET /roster/:id/feedback", call: async () => ({ path: `/api/roster/${members.sonographer.id}/feedback` }), expect: only(["qa_lead"], 200) },
   // The exam's sonographer and a QA lead; a reviewer without an assignment meets the role gate.

@@ -9,7 +9,8 @@ import { promisify } from "node:util";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { makeKit, makeMember, makeProgram, type TestKit, type TestMember } from "./helpers";
+import request from "supertest";
+import { makeKit, makeMember, makeProgram, tokenFor, type TestKit, type TestMember } from "./helpers";
 import { startDicomReceiver, type DicomReceiver } from "../../server/dicom/receiver";
 import { usMultiframe } from "../fixtures/dicom";
 
@@ -105,5 +106,55 @@ describe("DICOM receiver", () => {
     await send(path.join(PYDICOM_FILES, "JPEG2000.dcm"));
     await send(path.join(PYDICOM_FILES, "rtplan.dcm"));
     expect((await objects()).length).toBe(before);
+  });
+
+  it("lists a study for the clinician it matched, lets another claim an unmatched one, and makes an exam of it in one step", async () => {
+    const other = await makeMember(kit.db, programId, ["sonographer"]);
+    const lead = await makeMember(kit.db, programId, ["qa_lead"]);
+    const as = async (m: TestMember) => `Bearer ${await tokenFor(kit, m)}`;
+    const inbox = async (m: TestMember) =>
+      (
+        await request(kit.app)
+          .get("/api/dicom-inbox")
+          .set("Authorization", await as(m))
+      ).body.items as { id: string; objects: unknown[]; matchedTo: { id: string } | null }[];
+
+    const mine = await inbox(clinician);
+    const matched = mine.find((s) => s.matchedTo?.id === clinician.id)!;
+    const unmatched = mine.find((s) => s.matchedTo === null)!;
+    expect(matched.objects).toHaveLength(2);
+    expect(JSON.stringify(mine)).not.toMatch(/Varga|Quillfeather|CH-000417/);
+    // Someone else's match is not shown to another clinician; the unassigned study is; a QA lead sees both.
+    expect((await inbox(other)).map((s) => s.id)).toEqual([unmatched.id]);
+    expect((await inbox(lead)).map((s) => s.id).sort()).toEqual([matched.id, unmatched.id].sort());
+
+    const claim = await request(kit.app)
+      .post(`/api/dicom-inbox/${unmatched.id}/claim`)
+      .set("Authorization", await as(other));
+    expect(claim.status).toBe(200);
+    expect(claim.body.study.claimedBy.id).toBe(other.id);
+    expect((await inbox(clinician)).map((s) => s.id)).toEqual([matched.id]);
+    const taken = await request(kit.app)
+      .post(`/api/dicom-inbox/${unmatched.id}/claim`)
+      .set("Authorization", await as(clinician));
+    expect(taken.status).toBe(404);
+
+    const made = await request(kit.app)
+      .post(`/api/dicom-inbox/${matched.id}/exam`)
+      .set("Authorization", await as(clinician))
+      .send({
+        applicationCode: "efast",
+        performedAt: new Date(Date.now() - 3600_000).toISOString(),
+        setting: "clinical",
+        transducer: "curvilinear",
+        preset: "Abdomen",
+        indication: "Blunt trauma",
+        findings: [{ key: "free_fluid_ruq", read: "negative" }],
+      });
+    expect(made.status, JSON.stringify(made.body)).toBe(201);
+    expect(made.body.exam.clips).toHaveLength(2);
+    expect(made.body.exam.clips[0].dicom).toMatchObject({ depthCm: 8, frames: 3 });
+    expect((await inbox(clinician)).map((s) => s.id)).toEqual([]);
+    expect((await kit.db("dicom_inbox_studies").where("id", matched.id).first()).exam_id).toBe(made.body.exam.id);
   });
 });
