@@ -6,9 +6,7 @@ import type { RouteContext } from "../../http/context";
 import { actorOf } from "../../services/actor";
 import { claimStudy, examFromStudy, listInbox } from "../../services/dicom-inbox";
 import { presentExamView } from "../../presenters/exam";
-import { idParamsSchema } from "../../../shared/schemas/common";
-import { examCreateSchema, examResponseSchema } from "../../../shared/schemas/exams";
-import { inboxListSchema, inboxStudyResponseSchema } from "../../../shared/schemas/dicom-inbox";
+import { examCreateSchema, examResponseSchema, idParamsSchema, inboxListSchema, inboxStudyResponseSchema } from "./schema";
 
 export function registerDicomInboxRoutes(kit: RouteKit, ctx: RouteContext) {
   const { db, config } = ctx;
