@@ -10,7 +10,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import request from "supertest";
-import { makeKit, makeMember, makeProgram, tokenFor, type TestKit, type TestMember } from "./helpers";
+import { makeKit, makeMember, efastExamBody, makeProgram, tokenFor, type TestKit, type TestMember } from "./helpers";
 import { startDicomReceiver, type DicomReceiver } from "../../server/dicom/receiver";
 import { usMultiframe } from "../fixtures/dicom";
 
@@ -142,15 +142,7 @@ describe("DICOM receiver", () => {
     const made = await request(kit.app)
       .post(`/api/dicom-inbox/${matched.id}/exam`)
       .set("Authorization", await as(clinician))
-      .send({
-        applicationCode: "efast",
-        performedAt: new Date(Date.now() - 3600_000).toISOString(),
-        setting: "clinical",
-        transducer: "curvilinear",
-        preset: "Abdomen",
-        indication: "Blunt trauma",
-        findings: [{ key: "free_fluid_ruq", read: "negative" }],
-      });
+      .send(efastExamBody());
     expect(made.status, JSON.stringify(made.body)).toBe(201);
     expect(made.body.exam.clips).toHaveLength(2);
     expect(made.body.exam.clips[0].dicom).toMatchObject({ depthCm: 8, frames: 3 });

@@ -11,7 +11,7 @@ import { execFileSync } from "node:child_process";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { makeKit, makeMember, makeProgram, tokenFor, type TestKit, type TestMember } from "./helpers";
+import { efastExamBody, makeKit, makeMember, makeProgram, tokenFor, type TestKit, type TestMember } from "./helpers";
 import { startMediaWorker, type MediaWorker } from "../../server/jobs/worker";
 import { INVENTED, usMultiframe } from "../fixtures/dicom";
 
@@ -40,18 +40,7 @@ afterAll(async () => {
 });
 
 const newExam = async () => {
-  const res = await request(kit.app)
-    .post("/api/exams")
-    .set("Authorization", auth)
-    .send({
-      applicationCode: "efast",
-      performedAt: new Date(Date.now() - 3600_000).toISOString(),
-      setting: "clinical",
-      transducer: "curvilinear",
-      preset: "Abdomen",
-      indication: "Blunt trauma",
-      findings: [{ key: "free_fluid_ruq", read: "negative" }],
-    });
+  const res = await request(kit.app).post("/api/exams").set("Authorization", auth).send(efastExamBody());
   expect(res.status).toBe(201);
   return res.body.exam as { id: string };
 };

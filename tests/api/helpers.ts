@@ -25,6 +25,17 @@ import type { Role } from "../../shared/roles";
 /** The built-in eFAST application's finding keys, in catalogue order (shared/catalogue.ts): a review reads each. */
 export const EFAST_FINDING_KEYS = DEFAULT_CATALOGUE.find((a) => a.code === "efast")!.findings.map((f) => f.key);
 
+/** The body of POST /api/exams for a clinical eFAST draft performed an hour ago. */
+export const efastExamBody = () => ({
+  applicationCode: "efast",
+  performedAt: new Date(Date.now() - 3600_000).toISOString(),
+  setting: "clinical",
+  transducer: "curvilinear",
+  preset: "Abdomen",
+  indication: "Blunt trauma",
+  findings: [{ key: "free_fluid_ruq", read: "negative" }],
+});
+
 export const TEST_PASSWORD = "correct-horse-battery-7";
 
 export interface TestKit {
