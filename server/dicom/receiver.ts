@@ -94,8 +94,8 @@ export async function startDicomReceiver(
           const file = path.join(dir, "object.dcm");
           await new Promise<void>((resolve, reject) => dataset.toFile(file, (err?: Error) => (err ? reject(err) : resolve())));
           const bytes = await fsp.readFile(file);
-          readDicom(bytes); // refuses what Soundings cannot take, before anything is kept
-          await receiveIntoInbox(deps, { programId: this.programId, callingAe: this.callingAe, file, bytes });
+          const read = readDicom(bytes); // refuses what Soundings cannot take, before anything is kept
+          await receiveIntoInbox(deps, { programId: this.programId, callingAe: this.callingAe, file, bytes, read });
           response.setStatus(Status.Success);
         } catch (err) {
           log(err instanceof MediaError ? `DICOM object from ${this.callingAe} refused: ${err.message}` : err);

@@ -10,4 +10,5 @@ export const presentMember = (r: MemberRow): Member => ({
   active: r.deactivated_at === null,
   joinedAt: r.created_at.toISOString(),
   lastSignInAt: r.last_sign_in_at?.toISOString() ?? null,
+  dicomOperatorNames: r.dicom_operator_names ?? [],
 });

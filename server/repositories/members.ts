@@ -6,7 +6,7 @@ import type { Role } from "../../shared/roles";
 
 type Q = Db | Knex.Transaction;
 
-const memberColumns = ["u.id", "u.name", "u.email", "m.roles", "m.deactivated_at", "m.created_at", "u.last_sign_in_at"];
+const memberColumns = ["u.id", "u.name", "u.email", "m.roles", "m.deactivated_at", "m.created_at", "u.last_sign_in_at", "m.dicom_operator_names"];
 
 export interface MemberRow {
   id: string;
@@ -16,6 +16,7 @@ export interface MemberRow {
   deactivated_at: Date | null;
   created_at: Date;
   last_sign_in_at: Date | null;
+  dicom_operator_names: string[];
 }
 
 const members = (db: Q, programId: string) => db("memberships as m").join("users as u", "u.id", "m.user_id").where("m.program_id", programId);
@@ -58,6 +59,15 @@ export async function setMemberRoles(db: Q, programId: string, userId: string, r
 }
 
 /** Deactivates the membership as of `at` (a deactivated member keeps their first date). */
+export async function setOperatorNames(db: Q, programId: string, userId: string, names: string[]): Promise<void> {
+  await db("memberships").where({ program_id: programId, user_id: userId }).update({ dicom_operator_names: names });
+}
+
+/** Members other than `userId` who already gave one of these operator names (compared as normalised). */
+export async function operatorNameHolders(db: Q, programId: string, userId: string): Promise<{ name: string; dicom_operator_names: string[] }[]> {
+  return members(db, programId).whereNot("u.id", userId).whereRaw("cardinality(m.dicom_operator_names) > 0").select("u.name", "m.dicom_operator_names");
+}
+
 export async function deactivateMember(db: Q, programId: string, userId: string, at: Date): Promise<void> {
   await db("memberships").where({ user_id: userId, program_id: programId }).update({ deactivated_at: at });
 }

@@ -21,17 +21,11 @@ import { createExam, examForViewer, type ExamDeps } from "./exams";
 import type { ExamView } from "../presenters/exam";
 import { addClip, type ClipDeps } from "./clips";
 import type { Storage } from "../storage/types";
-import { readDicom } from "../media/dicom/read";
+import { readDicom, type ReadDicom } from "../media/dicom/read";
+import { previewFrame } from "../media/dicom/frames";
 import { deidentify } from "../media/dicom/deidentify";
 import { storageFailed } from "./clips";
-
-/** An operator name as compared: "Varga^Tobias" and "varga tobias" are the same person. */
-export const normaliseOperatorName = (name: string) =>
-  name
-    .toUpperCase()
-    .replace(/[\^,=]+/g, " ")
-    .replace(/\s+/g, " ")
-    .trim();
+import { normaliseOperatorName } from "../../shared/schemas/users";
 
 async function programSecret(db: Db, programId: string): Promise<string> {
   await db("programs")
@@ -44,10 +38,10 @@ async function programSecret(db: Db, programId: string): Promise<string> {
 /** Stores one received object (already checked) in the program's inbox; returns the study's id. */
 export async function receiveIntoInbox(
   deps: { db: Db; storage: Storage },
-  input: { programId: string; callingAe: string; file: string; bytes: Buffer },
+  input: { programId: string; callingAe: string; file: string; bytes: Buffer; read?: ReadDicom },
 ): Promise<string> {
   const { db, storage } = deps;
-  const read = readDicom(input.bytes);
+  const read = input.read ?? readDicom(input.bytes);
   const secret = await programSecret(db, input.programId);
   const hash = crypto
     .createHmac("sha256", secret)
@@ -77,23 +71,45 @@ export async function receiveIntoInbox(
   const sha256 = crypto.createHash("sha256").update(bytes).digest("hex");
   const id = crypto.randomUUID();
   const key = `programs/${input.programId}/inbox/${study.id}/${id}.dcm`;
-  const tmp = `${input.file}.deidentified`;
-  await fsp.writeFile(tmp, bytes);
+  const previewKey = `programs/${input.programId}/inbox/${study.id}/${id}.jpg`;
+  const work = await fsp.mkdtemp(path.join(os.tmpdir(), "soundings-inbox-in-"));
   try {
-    await storage.put(key, tmp, "application/dicom");
-  } catch (err) {
-    await storage.delete(key).catch(() => undefined);
-    throw storageFailed(err);
+    const tmp = path.join(work, "object.dcm");
+    await fsp.writeFile(tmp, bytes);
+    // The preview is made from the de-identified object; an object whose frames cannot be
+    // decoded is refused here rather than failing later as a clip.
+    const preview = path.join(work, "preview.jpg");
+    await previewFrame(tmp, path.join(work, "frames"), read.facts.frames, preview);
+    try {
+      await storage.put(key, tmp, "application/dicom");
+      await storage.put(previewKey, preview, "image/jpeg");
+    } catch (err) {
+      await storage.delete(key).catch(() => undefined);
+      await storage.delete(previewKey).catch(() => undefined);
+      throw storageFailed(err);
+    }
   } finally {
-    await fsp.rm(tmp, { force: true });
+    await fsp.rm(work, { recursive: true, force: true });
   }
   const inserted = await db("dicom_inbox_objects")
-    .insert({ id, study_id: study.id, program_id: input.programId, storage_key: key, sha256, size_bytes: bytes.length, facts: JSON.stringify(read.facts) })
+    .insert({
+      id,
+      study_id: study.id,
+      program_id: input.programId,
+      storage_key: key,
+      preview_key: previewKey,
+      sha256,
+      size_bytes: bytes.length,
+      facts: JSON.stringify(read.facts),
+    })
     .onConflict(["study_id", "sha256"])
     .ignore()
     .returning("id");
   // The same object sent twice is kept once.
-  if (!inserted.length) await storage.delete(key).catch(() => undefined);
+  if (!inserted.length) {
+    await storage.delete(key).catch(() => undefined);
+    await storage.delete(previewKey).catch(() => undefined);
+  }
   return study.id as string;
 }
 
@@ -121,7 +137,7 @@ async function presentStudies(db: Db | Knex.Transaction, rows: Record<string, un
       rows.map((r) => r.id as string),
     )
     .orderBy("received_at")
-    .select("id", "study_id", "facts", "size_bytes");
+    .select("id", "study_id", "facts", "size_bytes", "preview_key");
   const ids = [...new Set(rows.flatMap((r) => [r.matched_user_id, r.claimed_by]).filter(Boolean) as string[])];
   const names = new Map((await db("users").whereIn("id", ids).select("id", "name")).map((u) => [u.id as string, u.name as string]));
   const person = (id: unknown) => (typeof id === "string" && names.has(id) ? { id, name: names.get(id)! } : null);
@@ -132,7 +148,12 @@ async function presentStudies(db: Db | Knex.Transaction, rows: Record<string, un
     callingAe: r.calling_ae as string,
     objects: objects
       .filter((o) => o.study_id === r.id)
-      .map((o) => ({ id: o.id as string, facts: dicomFactsView(o.facts as Record<string, unknown>), sizeBytes: Number(o.size_bytes) })),
+      .map((o) => ({
+        id: o.id as string,
+        facts: dicomFactsView(o.facts as Record<string, unknown>),
+        sizeBytes: Number(o.size_bytes),
+        hasPreview: o.preview_key !== null,
+      })),
     matchedTo: person(r.matched_user_id),
     claimedBy: person(r.claimed_by),
   }));
@@ -140,6 +161,17 @@ async function presentStudies(db: Db | Knex.Transaction, rows: Record<string, un
 
 export async function listInbox(db: Db, user: AuthUser): Promise<InboxStudy[]> {
   return presentStudies(db, await visibleStudies(db, user).orderBy("s.last_received_at", "desc").select("s.*"));
+}
+
+/** The stored preview of one object of a study the user may see; 404 otherwise. */
+export async function inboxPreview(db: Db, user: AuthUser, studyId: string, objectId: string): Promise<string> {
+  const row = await visibleStudies(db, user)
+    .join("dicom_inbox_objects as o", "o.study_id", "s.id")
+    .where({ "s.id": studyId, "o.id": objectId })
+    .whereNotNull("o.preview_key")
+    .first("o.preview_key");
+  if (!row) throw notFound("Preview");
+  return row.preview_key as string;
 }
 
 /** A clinician takes a study that matched nobody (or them); 409 when someone else has it. */

@@ -11,10 +11,11 @@ export const inboxStudySchema = z.object({
   receivedAt: z.string(),
   lastReceivedAt: z.string(),
   callingAe: z.string(),
-  objects: z.array(z.object({ id: z.uuid(), facts: dicomFactsSchema, sizeBytes: z.number() })),
+  objects: z.array(z.object({ id: z.uuid(), facts: dicomFactsSchema, sizeBytes: z.number(), hasPreview: z.boolean() })),
   matchedTo: inboxPersonSchema.nullable(),
   claimedBy: inboxPersonSchema.nullable(),
 });
 export type InboxStudy = z.infer<typeof inboxStudySchema>;
 export const inboxListSchema = z.object({ items: z.array(inboxStudySchema) });
 export const inboxStudyResponseSchema = z.object({ study: inboxStudySchema });
+export const inboxPreviewParamsSchema = z.object({ id: z.uuid(), objectId: z.uuid() });

@@ -15,6 +15,28 @@ export const inviteSchema = z.object({
 
 export const updateRolesSchema = z.object({ roles: rolesSchema });
 
+/** An operator name as compared: "Varga^Tobias" and "varga tobias" are the same person ("Tobias Varga" is not). */
+export const normaliseOperatorName = (name: string) =>
+  name
+    .toUpperCase()
+    .replace(/[\^,=]+/g, " ")
+    .replace(/\s+/g, " ")
+    .trim();
+
+/**
+ * The operator names a member's ultrasound machine writes into DICOM (Operators' Name), as
+ * "Family^Given" or "Given Family"; received studies are matched to the one member who gave the
+ * name. Up to 8 names (machines differ), each 1–64 characters.
+ */
+export const operatorNamesSchema = z.object({
+  names: z
+    .array(z.string().trim().min(1, "An operator name cannot be empty").max(64, "An operator name has at most 64 characters"), {
+      error: "names must be a list of operator names",
+    })
+    .max(8, "Give at most 8 operator names")
+    .transform((names) => [...new Set(names)]),
+});
+
 export const memberSchema = z.object({
   id: z.uuid(),
   name: z.string(),
@@ -23,6 +45,8 @@ export const memberSchema = z.object({
   active: z.boolean(),
   joinedAt: z.string(),
   lastSignInAt: z.string().nullable(),
+  /** The operator names this member's scans carry in DICOM (Operators' Name), matched on receipt. */
+  dicomOperatorNames: z.array(z.string()),
 });
 export type Member = z.infer<typeof memberSchema>;
 export const memberListSchema = z.object({ members: z.array(memberSchema) });

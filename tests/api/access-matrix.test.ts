@@ -159,6 +159,14 @@ const MATRIX: Row[] = [
     call: async () => ({ path: `/api/users/${(await target()).id}/roles`, body: { roles: ["reviewer"] } }),
     expect: only(["admin"], 200),
   },
+  {
+    route: "PUT /users/:id/dicom-operator-names",
+    call: async () => ({
+      path: `/api/users/${(await target()).id}/dicom-operator-names`,
+      body: { names: [`Matrix^${Math.random().toString(36).slice(2, 8)}`] },
+    }),
+    expect: only(["admin", "qa_lead"], 200),
+  },
   { route: "POST /users/:id/deactivate", call: async () => ({ path: `/api/users/${(await target()).id}/deactivate` }), expect: only(["admin"], 200) },
   { route: "POST /users/:id/reactivate", call: async () => ({ path: `/api/users/${(await target()).id}/reactivate` }), expect: only(["admin"], 200) },
   { route: "GET /audit", call: fixed("/api/audit"), expect: only(["admin"], 200) },
@@ -272,6 +280,11 @@ const MATRIX: Row[] = [
   { route: "GET /me/progress", call: fixed("/api/me/progress"), expect: only(["sonographer"], 200) },
   { route: "GET /roster", call: fixed("/api/roster"), expect: only(["qa_lead"], 200) },
   { route: "GET /dicom-inbox", call: fixed("/api/dicom-inbox"), expect: only(["sonographer", "qa_lead", "admin"], 200) },
+  {
+    route: "GET /dicom-inbox/:id/objects/:objectId/preview",
+    call: fixed("/api/dicom-inbox/00000000-0000-4000-8000-000000000000/objects/00000000-0000-4000-8000-000000000000/preview"),
+    expect: only(["sonographer", "qa_lead", "admin"], 404),
+  },
   { route: "POST /dicom-inbox/:id/claim", call: fixed("/api/dicom-inbox/00000000-0000-4000-8000-000000000000/claim"), expect: only(["sonographer"], 404) },
   {
     route: "POST /dicom-inbox/:id/exam",

@@ -10,6 +10,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import request from "supertest";
+import sharp from "sharp";
 import { makeKit, makeMember, efastExamBody, makeProgram, tokenFor, type TestKit, type TestMember } from "./helpers";
 import { startDicomReceiver, type DicomReceiver } from "../../server/dicom/receiver";
 import { usMultiframe } from "../fixtures/dicom";
@@ -23,6 +24,7 @@ let kit: TestKit;
 let receiver: DicomReceiver;
 let programId: string;
 let clinician: TestMember;
+let lead: TestMember;
 let ae: string;
 let dir: string;
 const logged: string[] = [];
@@ -33,10 +35,14 @@ beforeAll(async () => {
   ae = `RCV${Math.floor(Math.random() * 1e9)}`.slice(0, 16);
   await kit.db("programs").where("id", programId).update({ dicom_ae_title: ae });
   clinician = await makeMember(kit.db, programId, ["sonographer"]);
-  await kit
-    .db("memberships")
-    .where({ program_id: programId, user_id: clinician.id })
-    .update({ dicom_operator_names: ["varga tobias"] });
+  lead = await makeMember(kit.db, programId, ["qa_lead"]);
+  // The QA lead records the name the clinician's machine writes (compared without case or "^").
+  const set = await request(kit.app)
+    .put(`/api/users/${clinician.id}/dicom-operator-names`)
+    .set("Authorization", `Bearer ${await tokenFor(kit, lead)}`)
+    .send({ names: ["varga tobias"] });
+  expect(set.status, JSON.stringify(set.body)).toBe(200);
+  expect(set.body.member.dicomOperatorNames).toEqual(["varga tobias"]);
   receiver = await startDicomReceiver({ db: kit.db, storage: kit.storage, log: (e) => logged.push(String(e)) }, { host: "127.0.0.1", port: 0 });
   dir = fs.mkdtempSync(path.join(os.tmpdir(), "soundings-dicom-rcv-"));
 });
@@ -110,8 +116,15 @@ describe("DICOM receiver", () => {
 
   it("lists a study for the clinician it matched, lets another claim an unmatched one, and makes an exam of it in one step", async () => {
     const other = await makeMember(kit.db, programId, ["sonographer"]);
-    const lead = await makeMember(kit.db, programId, ["qa_lead"]);
     const as = async (m: TestMember) => `Bearer ${await tokenFor(kit, m)}`;
+    // One operator name belongs to one member: giving it to another is refused, naming the field.
+    const twice = await request(kit.app)
+      .put(`/api/users/${other.id}/dicom-operator-names`)
+      .set("Authorization", await as(lead))
+      .send({ names: ["Someone^Else", "VARGA^TOBIAS"] });
+    expect(twice.status).toBe(409);
+    expect(twice.body.error).toMatchObject({ code: "operator_name_taken" });
+    expect(twice.body.error.message).toMatch(/^names\.1: /);
     const inbox = async (m: TestMember) =>
       (
         await request(kit.app)
@@ -124,6 +137,31 @@ describe("DICOM receiver", () => {
     const unmatched = mine.find((s) => s.matchedTo === null)!;
     expect(matched.objects).toHaveLength(2);
     expect(JSON.stringify(mine)).not.toMatch(/Varga|Quillfeather|CH-000417/);
+    // Each object has a preview (a JPEG of its middle frame, from the de-identified object);
+    // another clinician cannot open the preview of a study matched to someone else.
+    const objectId = (matched.objects[0] as { id: string; hasPreview: boolean }).id;
+    expect((matched.objects[0] as { hasPreview: boolean }).hasPreview).toBe(true);
+    const previewPath = `/api/dicom-inbox/${matched.id}/objects/${objectId}/preview`;
+    const preview = await request(kit.app)
+      .get(previewPath)
+      .set("Authorization", await as(clinician))
+      .buffer(true)
+      .parse((res, cb) => {
+        const chunks: Buffer[] = [];
+        res.on("data", (c: Buffer) => chunks.push(c));
+        res.on("end", () => cb(null, Buffer.concat(chunks)));
+      });
+    expect(preview.status).toBe(200);
+    expect(preview.headers["content-type"]).toMatch(/image\/jpeg/);
+    const meta = await sharp(preview.body as Buffer).metadata();
+    expect([meta.format, meta.width, meta.height]).toEqual(["jpeg", 320, 400]);
+    expect(
+      (
+        await request(kit.app)
+          .get(previewPath)
+          .set("Authorization", await as(other))
+      ).status,
+    ).toBe(404);
     // Someone else's match is not shown to another clinician; the unassigned study is; a QA lead sees both.
     expect((await inbox(other)).map((s) => s.id)).toEqual([unmatched.id]);
     expect((await inbox(lead)).map((s) => s.id).sort()).toEqual([matched.id, unmatched.id].sort());

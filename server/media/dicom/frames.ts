@@ -39,6 +39,28 @@ export async function decodeFrames(dicomPath: string, dir: string, frames: numbe
   return out;
 }
 
+/**
+ * A preview of a DICOM object: its middle frame (1-based for dcmj2pnm's --frame), decoded alone
+ * and written as a JPEG at most 480 pixels wide. The object given must already be de-identified;
+ * the preview shows what its pixels show.
+ */
+export async function previewFrame(dicomPath: string, dir: string, frames: number, out: string): Promise<void> {
+  await fsp.mkdir(dir, { recursive: true });
+  const png = path.join(dir, "preview.png");
+  const frame = Math.max(1, Math.ceil(frames / 2));
+  try {
+    await runTool(DCMJ2PNM, ["--frame", String(frame), "+on", "--no-overlays", dicomPath, png], { timeoutSeconds: 60 });
+  } catch (err) {
+    const e = err as NodeJS.ErrnoException & { stderrText?: string };
+    if (e.code === "ENOENT") throw new MediaError("dcmj2pnm (DCMTK) is not installed on this server");
+    throw new MediaError(`The DICOM frames could not be decoded: ${trimReason(e.stderrText ?? e.message)}`);
+  }
+  await sharp(await fsp.readFile(png))
+    .resize({ width: 480, withoutEnlargement: true })
+    .jpeg({ quality: 80 })
+    .toFile(out);
+}
+
 /** Blacks out the boxes in every frame (in place); returns the frames' size and whether they are grey. */
 export async function redactFrames(files: string[], boxes: readonly Redaction[]): Promise<{ width: number; height: number; grey: boolean }> {
   const meta = await sharp(await fsp.readFile(files[0])).metadata();

@@ -4,12 +4,13 @@
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
 import { actorOf } from "../../services/actor";
-import { claimStudy, examFromStudy, listInbox } from "../../services/dicom-inbox";
+import { claimStudy, examFromStudy, inboxPreview, listInbox } from "../../services/dicom-inbox";
+import { sendStored } from "../../http/range";
 import { presentExamView } from "../../presenters/exam";
-import { examCreateSchema, examResponseSchema, idParamsSchema, inboxListSchema, inboxStudyResponseSchema } from "./schema";
+import { examCreateSchema, examResponseSchema, idParamsSchema, inboxListSchema, inboxPreviewParamsSchema, inboxStudyResponseSchema } from "./schema";
 
 export function registerDicomInboxRoutes(kit: RouteKit, ctx: RouteContext) {
-  const { db, config } = ctx;
+  const { db, config, storage } = ctx;
   defineRoute(kit, {
     method: "get",
     path: "/dicom-inbox",
@@ -18,6 +19,19 @@ export function registerDicomInboxRoutes(kit: RouteKit, ctx: RouteContext) {
     access: ["sonographer", "qa_lead", "admin"],
     responses: { 200: { description: "Inbox", schema: inboxListSchema } },
     handler: async ({ user }) => ({ items: await listInbox(db, user) }),
+  });
+
+  defineRoute(kit, {
+    method: "get",
+    path: "/dicom-inbox/:id/objects/:objectId/preview",
+    summary: "The preview (middle frame, JPEG) of a received object, made from the de-identified object",
+    tag: "exams",
+    access: ["sonographer", "qa_lead", "admin"],
+    params: inboxPreviewParamsSchema,
+    responses: { 200: { description: "The preview", file: "image/jpeg" }, 404: { description: "Not in an inbox study you may see" } },
+    handler: async ({ req, res, user, params }) => {
+      await sendStored(req, res, storage, await inboxPreview(db, user, params.id, params.objectId), "image/jpeg");
+    },
   });
 
   defineRoute(kit, {

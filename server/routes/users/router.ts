@@ -2,10 +2,19 @@
 // caller's program; another program's user answers 404.
 import { defineRoute, type RouteKit } from "../../http/route";
 import type { RouteContext } from "../../http/context";
-import { idParamsSchema, invitationAnswerSchema, invitationListSchema, inviteSchema, memberAnswerSchema, memberListSchema, updateRolesSchema } from "./schema";
+import {
+  idParamsSchema,
+  invitationAnswerSchema,
+  invitationListSchema,
+  inviteSchema,
+  memberAnswerSchema,
+  memberListSchema,
+  operatorNamesSchema,
+  updateRolesSchema,
+} from "./schema";
 import { actorOf } from "../../services/actor";
 import { invite, programInvitations, withdrawInvitation } from "../../services/invitations";
-import { changeRoles, programMembers, setMemberActive } from "../../services/members";
+import { changeOperatorNames, changeRoles, programMembers, setMemberActive } from "../../services/members";
 import { presentInvitation } from "../../presenters/invitation";
 import { presentMember } from "../../presenters/member";
 
@@ -72,6 +81,24 @@ export function registerUserRoutes(kit: RouteKit, { db, config }: RouteContext) 
       409: { description: "Would leave no admin" },
     },
     handler: async ({ req, user, params, body }) => ({ member: presentMember(await changeRoles(db, actorOf(req, user), params.id, body.roles)) }),
+  });
+
+  defineRoute(kit, {
+    method: "put",
+    path: "/users/:id/dicom-operator-names",
+    summary: "Set the operator names a member's scans carry in DICOM, so received studies reach their inbox",
+    tag: "people",
+    access: ["admin", "qa_lead"],
+    params: idParamsSchema,
+    body: operatorNamesSchema,
+    responses: {
+      200: { description: "Updated", schema: memberAnswerSchema },
+      404: { description: "Not a member" },
+      409: { description: "A name is already another member's" },
+    },
+    handler: async ({ req, user, params, body }) => ({
+      member: presentMember(await changeOperatorNames(db, actorOf(req, user), params.id, body.names)),
+    }),
   });
 
   for (const action of ["deactivate", "reactivate"] as const) {

@@ -7,5 +7,6 @@ export {
   inviteSchema,
   memberAnswerSchema,
   memberListSchema,
+  operatorNamesSchema,
   updateRolesSchema,
 } from "../../../shared/schemas/users";
