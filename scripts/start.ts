@@ -12,6 +12,7 @@ import { createRuntime } from "../server/runtime";
 import { closeServer, listen, localUrl } from "../server/listen";
 import { seedDemoIfEmpty, DEMO_PASSWORD, DEMO_PROGRAMS } from "../seeds/demo";
 import { seedDemoExams } from "../seeds/demo-exams";
+import { seedDemoInbox } from "../seeds/demo-inbox";
 import { seedLearningHistory } from "../seeds/demo-history";
 import { ROLE_LABELS } from "../shared/roles";
 import { startDicomReceiver } from "../server/dicom/receiver";
@@ -123,6 +124,7 @@ try {
     if ((await seedDemoExams(deps, { libraryDir, log: (s) => console.log(s) })) > 0) {
       checkpoint();
       await seedLearningHistory(deps, { libraryDir, log: (s) => console.log(s) });
+      await seedDemoInbox(deps, { libraryDir, log: (s) => console.log(s) });
     }
   }
   checkpoint();

@@ -44,7 +44,7 @@ const cleanup = async () => {
 process.on("SIGINT", () => void cleanup().then(() => process.exit(130)));
 
 try {
-  const env = {
+  const env: NodeJS.ProcessEnv & { DATABASE_URL: string } = {
     ...process.env,
     NODE_ENV: "test",
     DATABASE_URL: cluster.url(),
@@ -74,6 +74,8 @@ try {
     if (!failures.includes("build")) {
       console.log("== Playwright (Debian Chromium)");
       const port = await freePort();
+      // The DICOM receiver too: the received-studies spec sends to it with DCMTK's dcmsend.
+      env.DICOM_PORT = String(await freePort());
       server = spawn(process.execPath, ["--import", "tsx", "server/index.ts"], {
         cwd: root,
         // Its own job schema: clip jobs the API tests left queued (they often run no worker)

@@ -51,6 +51,8 @@ export interface DemoCase {
   double?: boolean;
   /** Recorded as AVI (the pipeline transcodes it). */
   avi?: boolean;
+  /** Exported by the machine as DICOM (ultrasound multi-frame objects with depth calibration). */
+  dicom?: boolean;
   /** Part of the program's calibration set. */
   calibrate?: boolean;
 }
@@ -100,7 +102,7 @@ export const CEDAR_HOLLOW_CASES: DemoCase[] = [
   },
   { app: "cardiac", indication: "Syncope while standing", setting: "clinical", quality: 3, slips: { depth: "too_deep" } },
   { app: "cardiac", indication: "Teaching scan on a volunteer", setting: "educational", quality: 2, slips: { plane: "partly", labels: "incomplete" } },
-  { app: "cardiac", indication: "Palpitations and light-headedness", setting: "clinical", stage: "waiting" },
+  { app: "cardiac", indication: "Palpitations and light-headedness", setting: "clinical", stage: "waiting", dicom: true },
   { app: "aorta", indication: "Abdominal pain radiating to the back, age 71", setting: "clinical", calibrate: true },
   { app: "aorta", indication: "Flank pain and hypotension, age 68", setting: "clinical", quality: 3, slips: { depth: "too_deep" }, stage: "draft" },
   { app: "biliary", indication: "Right upper quadrant pain after meals", setting: "clinical", shows: ["pericholecystic_fluid"], double: true },
@@ -306,7 +308,7 @@ async function seedProgram(
     const look = {
       gain: c.slips?.gain === "too_high" ? ("high" as const) : c.slips?.gain === "too_low" ? ("low" as const) : undefined,
       deep: c.slips?.depth === "too_deep",
-      container: c.avi ? ("avi" as const) : undefined,
+      container: c.avi ? ("avi" as const) : c.dicom ? ("dcm" as const) : undefined,
     };
     return keys.map((view) => shotFor(c.app, view, c.shows ?? [], look));
   };

@@ -10,7 +10,8 @@ import crypto from "node:crypto";
 import fs from "node:fs";
 import fsp from "node:fs/promises";
 import path from "node:path";
-import { generateDemoClip, generateDemoStill, type Footprint } from "./clips/generate";
+import { generateDemoClip, generateDemoStill, type DemoImageOptions, type Footprint } from "./clips/generate";
+import { demoFrames, demoUid, usObject } from "./clips/dicom";
 
 export interface Protocol {
   transducer: "linear" | "curvilinear" | "phased";
@@ -112,7 +113,8 @@ export interface Shot {
   /** Unused depth below the target (the depth set too deep). */
   deep: boolean;
   still: boolean;
-  container: "mp4" | "avi";
+  /** "dcm": an ultrasound multi-frame DICOM object, as a machine exports it (invented identity inside). */
+  container: "mp4" | "avi" | "dcm";
 }
 
 export interface LibraryFile {
@@ -165,17 +167,9 @@ export async function ensureLibrary(dir: string, shots: readonly Shot[], log: (s
       unique.slice(i, i + 2).map(async ([name, s]) => {
         const out = path.join(dir, name);
         if (!fs.existsSync(out)) {
-          const image = {
-            footprint: s.footprint,
-            width: 480,
-            height: 360,
-            seed: seedOf(name),
-            fluid: s.fluid,
-            gain: s.gain,
-            unusedDepth: s.deep ? 0.4 : 0.05,
-            label: labelOf(s),
-          };
+          const image = imageOf(s, name);
           if (s.still) await generateDemoStill(out, image);
+          else if (s.container === "dcm") await fsp.writeFile(out, await demoDicom(s, image));
           else await generateDemoClip(out, { ...image, seconds: 2, fps: 15, container: s.container });
           made++;
         }
@@ -183,13 +177,66 @@ export async function ensureLibrary(dir: string, shots: readonly Shot[], log: (s
           path: out,
           name,
           kind: s.still ? "still" : "video",
-          mime: s.still ? "image/png" : s.container === "avi" ? "video/x-msvideo" : "video/mp4",
+          mime: s.still ? "image/png" : { avi: "video/x-msvideo", dcm: "application/dicom", mp4: "video/mp4" }[s.container],
         });
       }),
     );
   }
   if (made) log(`Generated ${made} demo clips in ${dir}`);
   return files;
+}
+
+/** The transducer a footprint stands for in DICOM, with a typical centre frequency (common practice). */
+const PROBE = {
+  linear: { type: "LINEAR", mhz: 10 },
+  curvilinear: { type: "CURVED LINEAR", mhz: 3.5 },
+  phased: { type: "SECTOR_PHASED", mhz: 2.5 },
+} as const;
+
+/** What a machine writes about the scan besides the pixels; all invented. */
+export interface DemoDicomIds {
+  studyUid: string;
+  sopUid: string;
+  operator: string;
+}
+
+/** A stable invented UID for a name (2.25 and 128 bits of its hash), so cached files stay consistent. */
+export const stableUid = (name: string) => `2.25.${BigInt(`0x${crypto.createHash("sha256").update(name).digest("hex").slice(0, 32)}`)}`;
+
+/** The picture options of a shot, as the library generates it. */
+export const imageOf = (s: Shot, name = shotFile(s)): DemoImageOptions => ({
+  footprint: s.footprint,
+  width: 480,
+  height: 360,
+  seed: seedOf(name),
+  fluid: s.fluid,
+  gain: s.gain,
+  unusedDepth: s.deep ? 0.4 : 0.05,
+  label: labelOf(s),
+});
+
+/** A shot as a machine's DICOM export: 30 frames at 15 a second, depth calibrated, invented patient inside. */
+export async function demoDicom(s: Shot, image: DemoImageOptions, ids?: DemoDicomIds): Promise<Buffer> {
+  const frames = 30;
+  return usObject({
+    width: image.width,
+    height: image.height,
+    frames,
+    pixels: await demoFrames({ ...image, frames, fps: 15 }),
+    frameTimeMs: 66.67,
+    depthCm: s.depthCm,
+    frequencyMHz: PROBE[s.footprint].mhz,
+    transducerType: PROBE[s.footprint].type,
+    studyUid: ids?.studyUid ?? demoUid(),
+    sopUid: ids?.sopUid ?? demoUid(),
+    studyDate: "20261201",
+    patient: { name: "Demo^Patient", id: "DEMO-0001", birthDate: "19700101", sex: "O" },
+    operator: ids?.operator ?? "Hartwell^Noa",
+    institution: "Cedar Hollow Emergency Department",
+    accession: "DEMO-ACC-1",
+    referringPhysician: "Demo^Referrer",
+    privateText: "DEMO PRIVATE NOTE",
+  });
 }
 
 /** A file that starts like an MP4 but is cut short: the demo's one clip that fails processing. */

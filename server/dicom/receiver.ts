@@ -20,6 +20,8 @@ import { IMAGE_SOP_CLASSES, SUPPORTED_TRANSFER_SYNTAXES, readDicom } from "../me
 import { receiveIntoInbox } from "../services/dicom-inbox";
 
 const { Scp } = dimse;
+// dcmjs-dimse logs every PDU at info; associations refused and objects not taken are logged here.
+dimse.log.setLevel("warn");
 const { CEchoResponse, CStoreResponse } = dimse.responses;
 const { Status, PresentationContextResult, RejectResult, RejectSource, RejectReason, SopClass } = dimse.constants;
 
@@ -95,7 +97,7 @@ export async function startDicomReceiver(
           await new Promise<void>((resolve, reject) => dataset.toFile(file, (err?: Error) => (err ? reject(err) : resolve())));
           const bytes = await fsp.readFile(file);
           const read = readDicom(bytes); // refuses what Soundings cannot take, before anything is kept
-          await receiveIntoInbox(deps, { programId: this.programId, callingAe: this.callingAe, file, bytes, read });
+          await receiveIntoInbox(deps, { programId: this.programId, callingAe: this.callingAe, bytes, read });
           response.setStatus(Status.Success);
         } catch (err) {
           log(err instanceof MediaError ? `DICOM object from ${this.callingAe} refused: ${err.message}` : err);

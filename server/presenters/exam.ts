@@ -42,6 +42,8 @@ export function dicomFactsView(d: Record<string, unknown>): DicomFactsView {
     depthCm: n(d.depthCm),
     frequencyMHz: n(d.frequencyMHz),
     transducerType: typeof d.transducerType === "string" ? d.transducerType : null,
+    // After the Clean Pixel Data Option the kept object says NO, whatever the machine said.
+    burnedInAnnotation: d.cleanedPixels === true ? false : d.burnedInAnnotation === "YES" ? true : d.burnedInAnnotation === "NO" ? false : null,
   };
 }
 

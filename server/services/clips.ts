@@ -110,7 +110,8 @@ export interface NewClip {
 export async function addClip(deps: ClipDeps, actor: Actor | null, input: NewClip): Promise<StoredClipRow> {
   const { db, storage, jobs, log } = deps;
   const { exam } = input;
-  const detected = input.media ?? (await detectMedia(input.path));
+  // A DICOM object is always read from its content, even from a trusted source: it must be de-identified.
+  const detected = input.media && input.media.mime !== "application/dicom" ? input.media : await detectMedia(input.path);
   if (!detected.kind) {
     throw new HttpError(
       415,

@@ -38,7 +38,7 @@ async function programSecret(db: Db, programId: string): Promise<string> {
 /** Stores one received object (already checked) in the program's inbox; returns the study's id. */
 export async function receiveIntoInbox(
   deps: { db: Db; storage: Storage },
-  input: { programId: string; callingAe: string; file: string; bytes: Buffer; read?: ReadDicom },
+  input: { programId: string; callingAe: string; bytes: Buffer; read?: ReadDicom },
 ): Promise<string> {
   const { db, storage } = deps;
   const read = input.read ?? readDicom(input.bytes);

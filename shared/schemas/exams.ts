@@ -61,6 +61,8 @@ export const dicomFactsSchema = z.object({
   depthCm: z.number().nullable(),
   frequencyMHz: z.number().nullable(),
   transducerType: z.string().nullable(),
+  /** The object's Burned In Annotation: true when the machine says text is burned into the pixels. */
+  burnedInAnnotation: z.boolean().nullable(),
 });
 export type DicomFactsView = z.infer<typeof dicomFactsSchema>;
 

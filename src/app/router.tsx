@@ -91,6 +91,16 @@ export const router = createBrowserRouter([
               },
               { path: "exams/:id", lazy: page(() => import("../features/exams/routes/exam-page")) },
               {
+                path: "received",
+                loader: requireRoles(["sonographer", "qa_lead", "admin"]),
+                lazy: page(() => import("../features/dicom-inbox/routes/received")),
+              },
+              {
+                path: "received/:id/exam",
+                loader: requireRoles(["sonographer"]),
+                lazy: page(() => import("../features/dicom-inbox/routes/exam-from-study")),
+              },
+              {
                 path: "queue",
                 loader: requireRoles(["reviewer"]),
                 lazy: page(() => import("../features/reviewing/routes/queue")),

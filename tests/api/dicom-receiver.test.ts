@@ -68,7 +68,7 @@ describe("DICOM receiver", () => {
   });
 
   it("stores what dcmsend sends, de-identified, grouped by study and matched by operator name", async () => {
-    const study = "1.2.826.0.1.3680043.10.999.88.1";
+    const study = "2.25.200000000000000000000000000000000088";
     const files = [1, 2].map((seed) => {
       const f = path.join(dir, `cine-${seed}.dcm`);
       fs.writeFileSync(f, usMultiframe({ studyUid: study, seed, frames: 3 }));

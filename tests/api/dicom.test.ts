@@ -105,7 +105,7 @@ describe("DICOM upload", () => {
 
   it("de-identifies an ultrasound multi-frame object by the Basic Profile, keeping the calibration and the depth", async () => {
     const exam = await newExam();
-    const study = "1.2.826.0.1.3680043.10.999.77.1";
+    const study = "2.25.200000000000000000000000000000000077";
     const first = usMultiframe({ studyUid: study, seed: 1 });
     const second = usMultiframe({ studyUid: study, seed: 2 });
     const up1 = await upload(exam.id, first, "cine-1.dcm");

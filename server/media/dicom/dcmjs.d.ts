@@ -6,6 +6,8 @@ declare module "dcmjs" {
     write(options?: Record<string, unknown>): ArrayBuffer;
   }
   const dcmjs: {
+    /** loglevel's logger. */
+    log: { setLevel(level: "trace" | "debug" | "info" | "warn" | "error" | "silent"): void };
     data: {
       DicomMessage: { readFile(buffer: ArrayBuffer, options?: Record<string, unknown>): DicomDictLike };
       DicomDict: new (meta: Record<string, unknown>) => DicomDictLike;

@@ -6,6 +6,9 @@
 import dcmjs from "dcmjs";
 import { MediaError } from "../exec";
 
+// dcmjs warns on every private or unknown attribute it naturalises; those are expected here.
+dcmjs.log.setLevel("error");
+
 /** Transfer syntaxes DCMTK's dcmj2pnm decodes (PS3.5 Table A-1 and the DCMTK documentation). */
 export const SUPPORTED_TRANSFER_SYNTAXES: Record<string, string> = {
   "1.2.840.10008.1.2": "Implicit VR Little Endian",

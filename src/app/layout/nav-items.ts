@@ -22,6 +22,7 @@ export const NAV_GROUPS: NavGroup[] = [
     items: [
       { to: "/exams/new", label: "Submit", roles: ["sonographer"] },
       { to: "/exams", label: "My exams", roles: ["sonographer"], end: true },
+      { to: "/received", label: "Received studies", roles: ["sonographer", "qa_lead", "admin"] },
       { to: "/feedback", label: "Feedback", roles: ["sonographer"] },
       { to: "/progress", label: "Progress", roles: ["sonographer"] },
     ],

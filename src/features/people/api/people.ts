@@ -45,3 +45,9 @@ export function useSetActive() {
     api<MemberAnswer>(`/users/${id}/${active ? "reactivate" : "deactivate"}`, { method: "POST" }),
   );
 }
+
+export function useUpdateOperatorNames() {
+  return useUsersMutation(({ id, names }: { id: string; names: string[] }) =>
+    api<MemberAnswer>(`/users/${id}/dicom-operator-names`, { method: "PUT", body: { names } }),
+  );
+}

@@ -9,13 +9,16 @@ type Props = {
   members: Member[];
   currentUserId: string;
   canManage: boolean;
+  /** QA leads and admins record the DICOM operator names of clinicians. */
+  canEditOperatorNames: boolean;
+  onEditOperatorNames: (member: Member) => void;
   onEditRoles: (member: Member) => void;
   onToggleActive: (member: Member) => void;
 };
 
 const th = "px-3 py-2 font-semibold";
 
-export function MembersTable({ members, currentUserId, canManage, onEditRoles, onToggleActive }: Props) {
+export function MembersTable({ members, currentUserId, canManage, canEditOperatorNames, onEditOperatorNames, onEditRoles, onToggleActive }: Props) {
   return (
     <div className="overflow-x-auto rounded-lg border border-slate-200 bg-white">
       <table className="w-full text-left text-sm">
@@ -32,12 +35,15 @@ export function MembersTable({ members, currentUserId, canManage, onEditRoles, o
               Roles
             </th>
             <th scope="col" className={th}>
+              DICOM operator names
+            </th>
+            <th scope="col" className={th}>
               Status
             </th>
             <th scope="col" className={th}>
               Last sign-in
             </th>
-            {canManage ? (
+            {canManage || canEditOperatorNames ? (
               <th scope="col" className={th}>
                 <span className="sr-only">Actions</span>
               </th>
@@ -56,17 +62,27 @@ export function MembersTable({ members, currentUserId, canManage, onEditRoles, o
                 </th>
                 <td className="whitespace-nowrap px-3 py-2 text-ink-900">{m.email}</td>
                 <td className="px-3 py-2 text-ink-900">{m.roles.map((r) => ROLE_LABELS[r]).join(", ") || "—"}</td>
+                <td className="px-3 py-2 font-mono text-xs text-ink-900">
+                  {m.roles.includes("sonographer") ? m.dicomOperatorNames.join(", ") || <span className="font-sans text-slate-600">None</span> : null}
+                </td>
                 <td className="px-3 py-2">{m.active ? <StatusTag tone="good">Active</StatusTag> : <StatusTag tone="off">Deactivated</StatusTag>}</td>
                 <td className="whitespace-nowrap px-3 py-2 tabular-nums text-ink-900">
                   {m.lastSignInAt ? formatDateTime(m.lastSignInAt) : <span className="text-slate-600">Never</span>}
                 </td>
-                {canManage ? (
+                {canManage || canEditOperatorNames ? (
                   <td className="whitespace-nowrap px-3 py-2 text-right">
                     <div className="flex justify-end gap-1">
-                      <Button variant="ghost" size="sm" onClick={() => onEditRoles(m)} aria-label={`Change roles of ${m.name}`}>
-                        Change roles
-                      </Button>
-                      {isSelf ? null : (
+                      {canEditOperatorNames && m.roles.includes("sonographer") ? (
+                        <Button variant="ghost" size="sm" onClick={() => onEditOperatorNames(m)} aria-label={`DICOM operator names of ${m.name}`}>
+                          Operator names
+                        </Button>
+                      ) : null}
+                      {canManage ? (
+                        <Button variant="ghost" size="sm" onClick={() => onEditRoles(m)} aria-label={`Change roles of ${m.name}`}>
+                          Change roles
+                        </Button>
+                      ) : null}
+                      {isSelf || !canManage ? null : (
                         <Button variant="ghost" size="sm" onClick={() => onToggleActive(m)} aria-label={`${m.active ? "Deactivate" : "Reactivate"} ${m.name}`}>
                           {m.active ? "Deactivate" : "Reactivate"}
                         </Button>

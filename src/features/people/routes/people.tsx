@@ -12,13 +12,16 @@ import { InvitationsList } from "../components/invitations-list";
 import { InviteForm } from "../components/invite-form";
 import { MemberActiveDialog } from "../components/member-active-dialog";
 import { MembersTable } from "../components/members-table";
+import { OperatorNamesDialog } from "../components/operator-names-dialog";
 
 export default function PeoplePage() {
   const { data: user } = useQuery(sessionQuery);
   const isAdmin = !!user?.roles.includes("admin");
+  const canEditOperatorNames = isAdmin || !!user?.roles.includes("qa_lead");
   const members = useMembers();
   const [editing, setEditing] = useState<Member | null>(null);
   const [toggling, setToggling] = useState<Member | null>(null);
+  const [naming, setNaming] = useState<Member | null>(null);
 
   const list = [...(members.data?.members ?? [])].sort((a, b) => Number(b.active) - Number(a.active) || a.name.localeCompare(b.name));
   const activeCount = list.filter((m) => m.active).length;
@@ -31,7 +34,7 @@ export default function PeoplePage() {
         description={
           isAdmin
             ? "Members of the program, their roles and pending invitations."
-            : "Members of the program and their roles. Only administrators can make changes."
+            : "Members of the program and their roles. Only administrators can change roles; you can record the DICOM operator names of clinicians."
         }
       />
       <section aria-labelledby="members-heading">
@@ -52,9 +55,18 @@ export default function PeoplePage() {
         ) : list.length === 0 ? (
           <EmptyState title="No members yet">{isAdmin ? "Invite the first people below." : "No one has joined this program yet."}</EmptyState>
         ) : (
-          <MembersTable members={list} currentUserId={user?.id ?? ""} canManage={isAdmin} onEditRoles={setEditing} onToggleActive={setToggling} />
+          <MembersTable
+            members={list}
+            currentUserId={user?.id ?? ""}
+            canManage={isAdmin}
+            canEditOperatorNames={canEditOperatorNames}
+            onEditOperatorNames={setNaming}
+            onEditRoles={setEditing}
+            onToggleActive={setToggling}
+          />
         )}
       </section>
+      <OperatorNamesDialog member={naming} onClose={() => setNaming(null)} />
       {isAdmin ? (
         <>
           <InviteForm />
