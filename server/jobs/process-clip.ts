@@ -24,6 +24,7 @@ import {
   markClipReady,
   originalOfSubmittedClip,
   touchProcessingClip,
+  typicalDepthOfClip,
 } from "../repositories/clips";
 
 export interface ClipJobContext {
@@ -89,9 +90,12 @@ export async function processClipJob(ctx: ClipJobContext, job: ClipJob, attempt:
     const dicom = clip.mime === "application/dicom" ? await prepareDicom(input, work, { redactions }) : null;
     const source = dicom?.media ?? input;
     const boxes = dicom ? [] : redactions;
+    // A calibrated depth is compared with the exam's application's typical depth.
+    const typical = dicom?.facts.depthCm != null ? await typicalDepthOfClip(ctx.db, clip.id) : null;
+    const precheckOpts = { depthCm: dicom?.facts.depthCm ?? null, typicalDepthCm: typical };
     if (clip.kind === "video") {
       const out = await processVideo(source, work, { redactions: boxes });
-      const precheck = await precheckFile(out.videoPath).catch(() => null);
+      const precheck = await precheckFile(out.videoPath, precheckOpts).catch(() => null);
       update = {
         output_key: await put("video.mp4", out.videoPath, "video/mp4"),
         poster_key: await put("poster.jpg", out.posterPath, "image/jpeg"),
@@ -108,7 +112,7 @@ export async function processClipJob(ctx: ClipJobContext, job: ClipJob, attempt:
     } else {
       const out = await processStill(source, work, { redactions: boxes });
       const isPng = out.imagePath.endsWith(".png");
-      const precheck = await precheckFile(out.imagePath).catch(() => null);
+      const precheck = await precheckFile(out.imagePath, precheckOpts).catch(() => null);
       const imageKey = await put(isPng ? "image.png" : "image.jpg", out.imagePath, isPng ? "image/png" : "image/jpeg");
       update = {
         output_key: imageKey,
@@ -123,11 +127,6 @@ export async function processClipJob(ctx: ClipJobContext, job: ClipJob, attempt:
     if (dicom) {
       update.dicom_key = await put("object.dcm", dicom.object, "application/dicom");
       update.dicom = JSON.stringify({ ...dicom.facts, cleanedPixels: dicom.cleanedPixels });
-      if (update.precheck && dicom.facts.depthCm !== null) {
-        const p = JSON.parse(update.precheck as string);
-        p.depth = { ...p.depth, cm: dicom.facts.depthCm };
-        update.precheck = JSON.stringify(p);
-      }
     }
     const previous = [clip.output_key, clip.poster_key, clip.strip_key, clip.thumb_key, clip.dicom_key].filter(Boolean) as string[];
     const n = await markClipReady(ctx.db, clip.id, job.version, update);

@@ -9,7 +9,8 @@ import { promisify } from "node:util";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { generateDemoClip, generateDemoStill, type DemoClipOptions } from "../../seeds/clips/generate";
 import { MediaError } from "./exec";
-import { analyseFrames, footprintMatches, precheckFile, type PrecheckResult } from "./precheck";
+import { analyseFrames, depthAgainstTypical, footprintMatches, precheckFile, type PrecheckResult } from "./precheck";
+import { usMultiframe } from "../../tests/fixtures/dicom";
 
 const run = promisify(execFile);
 let dir: string;
@@ -107,4 +108,24 @@ describe("npm run precheck", () => {
     expect(lines[1].file).toBe(bad);
     expect(lines[1].error).toMatch(/./);
   });
+});
+
+describe("calibrated depth", () => {
+  it("is typical within the application's range, with 10 % either side (our own allowance)", () => {
+    expect(depthAgainstTypical(16, [12, 20])).toBe("within_typical");
+    expect(depthAgainstTypical(22, [12, 20])).toBe("within_typical");
+    expect(depthAgainstTypical(22.5, [12, 20])).toBe("deeper_than_typical");
+    expect(depthAgainstTypical(10.9, [12, 20])).toBe("within_typical");
+    expect(depthAgainstTypical(10.7, [12, 20])).toBe("shallower_than_typical");
+  });
+
+  it("npm run precheck reads a DICOM object: decoded frames, depth in cm from its regions, against an application", async () => {
+    const file = path.join(dir, "us-cine");
+    await fs.writeFile(file, usMultiframe({ frames: 6 }));
+    const { stdout } = await run(process.execPath, ["--import", "tsx", path.resolve("scripts/precheck.ts"), "--application", "lung", file]);
+    const line = JSON.parse(stdout.trim());
+    // 400 rows × 0.02 cm = 8 cm, within the lung's 4–18 cm of the starting catalogue (shared/catalogue.ts).
+    expect(line).toMatchObject({ file, depth: { cm: 8, typicalCm: [4, 18], against: "within_typical" }, clip: { frames: 6, fps: 25 } });
+    expect(line.gain.hint).toMatch(/^(low|balanced|high)$/);
+  }, 60_000);
 });

@@ -9,6 +9,10 @@ import { ffmpeg, fileUrl, MediaError } from "./exec";
 import { ffmpegTimeoutSeconds, MAX_PIXELS } from "./limits";
 import { displaySize, parseRate, probe } from "./probe";
 import { detectMedia } from "./detect";
+import fsp from "node:fs/promises";
+import os from "node:os";
+import path from "node:path";
+import { prepareDicom } from "./dicom/process";
 
 export type GainHint = "low" | "balanced" | "high";
 export type DepthHint = "too_deep" | "fits" | "maybe_shallow";
@@ -22,7 +26,17 @@ export interface Precheck {
   area: { top: number; bottom: number; left: number; right: number } | null;
 }
 
-export interface PrecheckResult extends Precheck {
+/** Where a calibrated depth (from DICOM) falls against the application's typical depth range. */
+export type DepthAgainstTypical = "deeper_than_typical" | "shallower_than_typical" | "within_typical";
+
+export interface PrecheckResult extends Omit<Precheck, "depth"> {
+  depth: Precheck["depth"] & {
+    /** Imaging depth in cm when the source was calibrated (a DICOM object's ultrasound regions). */
+    cm?: number;
+    /** The application's typical depth range in cm, as its catalogue entry states. */
+    typicalCm?: [number, number];
+    against?: DepthAgainstTypical;
+  };
   clip: { seconds: number; fps: number; frames: number };
   /** Whether the footprint fits the transducer recorded on the exam; null when unknown or not given. */
   transducerMatch?: boolean | null;
@@ -298,12 +312,51 @@ export async function stillFrame(file: string): Promise<GreyFrame> {
   }
 }
 
-/** The pre-check of a video or still file. Throws MediaError when it cannot be read. */
-export async function precheckFile(file: string, opts: { transducer?: Transducer | null } = {}): Promise<PrecheckResult> {
+/**
+ * A calibrated depth against the application's typical range (its catalogue entry, which the
+ * program edits). Within the range, or within 10 % of either end, counts as typical: a depth
+ * set one step off on the machine is not worth a hint (our own allowance).
+ */
+export function depthAgainstTypical(cm: number, [min, max]: readonly [number, number]): DepthAgainstTypical {
+  if (cm > max * 1.1) return "deeper_than_typical";
+  if (cm < min * 0.9) return "shallower_than_typical";
+  return "within_typical";
+}
+
+export interface PrecheckOptions {
+  transducer?: Transducer | null;
+  /** Imaging depth in cm the source states (DICOM region calibration); read from the file itself for DICOM. */
+  depthCm?: number | null;
+  /** The application's typical depth range in cm, to compare a calibrated depth with. */
+  typicalDepthCm?: readonly [number, number] | null;
+}
+
+/**
+ * The pre-check of a video, still or DICOM file. A DICOM object is decoded to frames first
+ * (server/media/dicom) and its region calibration gives the depth in cm. Throws MediaError when
+ * the file cannot be read.
+ */
+export async function precheckFile(file: string, opts: PrecheckOptions = {}): Promise<PrecheckResult> {
   const kind = await detectMedia(file);
   if (kind.kind === null) throw new MediaError(`Not a video or image: found ${kind.found}`);
+  if (kind.kind === "dicom") {
+    const work = await fsp.mkdtemp(path.join(os.tmpdir(), "soundings-precheck-"));
+    try {
+      const dicom = await prepareDicom(file, work);
+      return await precheckFile(dicom.media, { ...opts, depthCm: dicom.facts.depthCm ?? opts.depthCm });
+    } finally {
+      await fsp.rm(work, { recursive: true, force: true });
+    }
+  }
   const { frames, clip } = kind.kind === "still" ? { frames: [await stillFrame(file)], clip: { seconds: 0, fps: 0, frames: 1 } } : await videoFrames(file);
   const result: PrecheckResult = { ...analyseFrames(frames), clip };
   if (opts.transducer !== undefined) result.transducerMatch = footprintMatches(result.footprint.shape, opts.transducer);
+  if (typeof opts.depthCm === "number") {
+    result.depth.cm = opts.depthCm;
+    if (opts.typicalDepthCm) {
+      result.depth.typicalCm = [opts.typicalDepthCm[0], opts.typicalDepthCm[1]];
+      result.depth.against = depthAgainstTypical(opts.depthCm, opts.typicalDepthCm);
+    }
+  }
   return result;
 }

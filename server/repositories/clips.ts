@@ -228,3 +228,13 @@ export const requeueStuckClips = (db: Q, stuckAfterSeconds: number) =>
     .andWhere("updated_at", "<", db.raw(`now() - make_interval(secs => ?)`, [stuckAfterSeconds]))
     .update({ state: "queued", updated_at: db.fn.now() })
     .returning(["id", "process_version"]) as Promise<{ id: string; process_version: number }[]>;
+
+/** The typical depth range (cm) of the application a clip's exam was recorded under, or null. */
+export async function typicalDepthOfClip(db: Q, clipId: string): Promise<[number, number] | null> {
+  const row = await db("clips as c")
+    .join("exams as e", "e.id", "c.exam_id")
+    .join("applications as a", "a.id", "e.application_id")
+    .where("c.id", clipId)
+    .first("a.depth_min_cm", "a.depth_max_cm");
+  return row && row.depth_min_cm !== null && row.depth_max_cm !== null ? [Number(row.depth_min_cm), Number(row.depth_max_cm)] : null;
+}

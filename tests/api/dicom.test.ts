@@ -117,7 +117,8 @@ describe("DICOM upload", () => {
     expect(c1.dicom).toMatchObject({ depthCm: 8, depthSource: "regions", frequencyMHz: 5, transducerType: "CURVED LINEAR", frameRate: 25, frames: 10 });
     expect(c1.fps).toBeCloseTo(25, 1);
     expect(c1.frames).toBe(10);
-    expect(c1.precheck.depth.cm).toBe(8);
+    // The calibrated depth feeds the pre-check: 8 cm against the eFAST's typical 12–20 cm (its catalogue entry).
+    expect(c1.precheck.depth).toMatchObject({ cm: 8, typicalCm: [12, 20], against: "shallower_than_typical" });
 
     const files = [await stored(c1.dicom_key, "us-1.dcm"), await stored(c2.dicom_key, "us-2.dcm"), await stored(c1.original_key, "us-1-original.dcm")];
     const keywords = [

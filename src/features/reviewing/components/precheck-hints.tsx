@@ -1,5 +1,6 @@
-// The image pre-check of a clip, shown as quiet hints beside it: gain, unused depth and the
-// footprint's shape against the transducer recorded on the exam. Hints are computed from a
+// The image pre-check of a clip, shown as quiet hints beside it: gain, unused depth, the
+// calibrated depth against the application's usual range (DICOM clips), and the footprint's
+// shape against the transducer recorded on the exam. Hints are computed from a
 // few frames; they help the reviewer look, and never score anything.
 import { Info } from "lucide-react";
 import { TRANSDUCER_LABELS } from "../../../lib/catalogue";
@@ -7,7 +8,7 @@ import type { BlindedExam } from "../api/workspace";
 
 interface Precheck {
   gain?: { hint?: string; meanLuma?: number };
-  depth?: { hint?: string; unusedShare?: number };
+  depth?: { hint?: string; unusedShare?: number; cm?: number; typicalCm?: [number, number]; against?: string };
   footprint?: { shape?: string };
   transducerMatch?: boolean | null;
 }
@@ -19,7 +20,8 @@ function readPrecheck(value: unknown): Precheck | null {
   return value && typeof value === "object" ? (value as Precheck) : null;
 }
 
-function hints(p: Precheck, transducer: BlindedExam["transducer"]): string[] {
+/** The hint sentences for a stored pre-check (exported for its test). */
+export function hints(p: Precheck, transducer: BlindedExam["transducer"]): string[] {
   const out: string[] = [];
   const luma = typeof p.gain?.meanLuma === "number" ? ` (mean brightness ${Math.round(p.gain.meanLuma)} of 255)` : "";
   if (p.gain?.hint === "low") out.push(`Gain may be low${luma}.`);
@@ -30,6 +32,16 @@ function hints(p: Precheck, transducer: BlindedExam["transducer"]): string[] {
   if (p.depth?.hint === "too_deep") out.push(`Depth may be too deep: about ${unused ?? "—"}% of the image at the bottom shows nothing.`);
   else if (p.depth?.hint === "maybe_shallow") out.push("Depth may be shallow: structures reach the bottom edge.");
   else if (p.depth?.hint === "fits") out.push(`Depth looks fitted${unused !== null ? ` (${unused}% unused at the bottom)` : ""}.`);
+
+  const cm = p.depth?.cm;
+  if (typeof cm === "number") {
+    const range = Array.isArray(p.depth?.typicalCm) ? ` (${p.depth.typicalCm[0]}–${p.depth.typicalCm[1]} cm)` : "";
+    const said = `Imaging depth ${cm} cm, from the DICOM calibration`;
+    if (p.depth?.against === "deeper_than_typical") out.push(`${said}: deeper than usual for this application${range}.`);
+    else if (p.depth?.against === "shallower_than_typical") out.push(`${said}: shallower than usual for this application${range}.`);
+    else if (p.depth?.against === "within_typical") out.push(`${said}: within the usual range for this application${range}.`);
+    else out.push(`${said}.`);
+  }
 
   const shape = p.footprint?.shape;
   if (shape && shape !== "unknown") {
