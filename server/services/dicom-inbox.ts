@@ -17,7 +17,7 @@ import { auditAs } from "../repositories/audit";
 import { dicomFactsView } from "../presenters/exam";
 import type { examCreateSchema } from "../../shared/schemas/exams";
 import type { InboxStudy } from "../../shared/schemas/dicom-inbox";
-import { createExam, examForViewer, type ExamDeps } from "./exams";
+import { createExam, discardExam, examForViewer, type ExamDeps } from "./exams";
 import type { ExamView } from "../presenters/exam";
 import { addClip, type ClipDeps } from "./clips";
 import type { Storage } from "../storage/types";
@@ -207,7 +207,15 @@ export async function examFromStudy(
     .whereRaw("coalesce(claimed_by, ?) = ?", [user.id, user.id])
     .update({ claimed_by: user.id });
   if (!taken) throw new HttpError(409, "already_claimed", "This study has been claimed or made into an exam already");
-  const exam = (await createExam(deps, user, actor, body)).exam;
+  let exam: ExamView["exam"];
+  try {
+    exam = (await createExam(deps, user, actor, body)).exam;
+  } catch (err) {
+    await db("dicom_inbox_studies")
+      .where("id", id)
+      .update({ claimed_by: study.claimed_by ?? null });
+    throw err;
+  }
   await db("exams").where("id", exam.id).update({ dicom_uid_secret: study.uid_secret });
   const objects = await db("dicom_inbox_objects").where("study_id", id).orderBy("received_at");
   const dir = await fsp.mkdtemp(path.join(os.tmpdir(), "soundings-inbox-"));
@@ -223,6 +231,14 @@ export async function examFromStudy(
         view: null,
       });
     }
+  } catch (err) {
+    // All or nothing: the half-made draft is discarded (with its stored clips) and the study
+    // goes back to the inbox as it was.
+    await discardExam(deps, user, actor, exam.id).catch(deps.log);
+    await db("dicom_inbox_studies")
+      .where("id", id)
+      .update({ claimed_by: study.claimed_by ?? null });
+    throw err;
   } finally {
     await fsp.rm(dir, { recursive: true, force: true });
   }

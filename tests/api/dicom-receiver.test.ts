@@ -187,4 +187,35 @@ describe("DICOM receiver", () => {
     expect((await inbox(clinician)).map((s) => s.id)).toEqual([]);
     expect((await kit.db("dicom_inbox_studies").where("id", matched.id).first()).exam_id).toBe(made.body.exam.id);
   });
+
+  it("makes the exam all or nothing: an object that cannot become a clip leaves no draft and the study in the inbox", async () => {
+    const study = "2.25.200000000000000000000000000000000099";
+    for (const seed of [4, 5]) {
+      const f = path.join(dir, `pair-${seed}.dcm`);
+      fs.writeFileSync(f, usMultiframe({ studyUid: study, seed, frames: 2, operator: "Nobody^Known" }));
+      expect((await send(f)).ok).toBe(true);
+    }
+    const row = await kit
+      .db("dicom_inbox_studies")
+      .where("program_id", programId)
+      .whereNull("exam_id")
+      .whereNull("matched_user_id")
+      .whereNull("claimed_by")
+      .orderBy("first_received_at", "desc")
+      .first();
+    const [, second] = await objects().where("study_id", row.id).orderBy("received_at");
+    // The second stored object is damaged (as a disk fault would): it is no DICOM any more.
+    const junk = path.join(dir, "junk.txt");
+    fs.writeFileSync(junk, "not a DICOM object");
+    await kit.storage.put(second.storage_key, junk, "application/dicom");
+    const examsBefore = (await kit.db("exams").where("program_id", programId)).length;
+    const made = await request(kit.app)
+      .post(`/api/dicom-inbox/${row.id}/exam`)
+      .set("Authorization", `Bearer ${await tokenFor(kit, clinician)}`)
+      .send(efastExamBody());
+    expect(made.status).toBe(415);
+    expect(made.body.error.message).toMatch(/^file: /);
+    expect((await kit.db("exams").where("program_id", programId)).length).toBe(examsBefore);
+    expect(await kit.db("dicom_inbox_studies").where("id", row.id).first()).toMatchObject({ exam_id: null, claimed_by: null });
+  });
 });
