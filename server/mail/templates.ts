@@ -42,11 +42,26 @@ export function overdueDigestMail(p: {
   name: string;
   programName: string;
   hours: number;
+  /** The shorter target of clinical exams. */
+  clinicalHours?: number;
   rows: { application: string; count: number }[];
   link: string;
 }): MailMessage {
   const total = p.rows.reduce((s, r) => s + r.count, 0);
   const lines = p.rows.map((r) => `  ${r.application}: ${r.count}`).join("\n");
-  const text = `Hello ${p.name},\n\n${total} exam read(s) in ${p.programName} have waited longer than the program's turnaround target of ${p.hours} hours:\n${lines}\n\nOpen the queue:\n${p.link}\n\n${footer}`;
+  const text = `Hello ${p.name},\n\n${total} exam read(s) in ${p.programName} have waited longer than the program's turnaround target (${p.clinicalHours !== undefined && p.clinicalHours !== p.hours ? `${p.clinicalHours} hours for clinical exams, ${p.hours} hours for the rest` : `${p.hours} hours`}):\n${lines}\n\nOpen the queue:\n${p.link}\n\n${footer}`;
   return { to: p.to, subject: `${total} exam read(s) waiting past the turnaround target`, text, html: htmlOf(text) };
+}
+
+export function urgentFollowUpMail(p: {
+  to: string;
+  name: string;
+  code: string;
+  application: string;
+  reason: string;
+  dueHours: number;
+  link: string;
+}): MailMessage {
+  const text = `Hello ${p.name},\n\nA reviewer flagged exam ${p.code} (${p.application}) as needing clinical follow-up now. Their reason:\n\n${p.reason}\n\nThe follow-up is open and due within ${p.dueHours} hours. Record what was done here:\n${p.link}\n\nThis was sent at once, before any second read or adjudication; the final read may differ. Local policy governs how patients are contacted.\n\n${footer}`;
+  return { to: p.to, subject: `Urgent: exam ${p.code} needs clinical follow-up`, text, html: htmlOf(text) };
 }

@@ -23,7 +23,8 @@ export function presentQueueOverview(o: Awaited<ReturnType<typeof queueOverview>
       setting: w.setting as QueueOverview["waiting"][number]["setting"],
       count: w.count,
       oldestWaitingSeconds: w.oldest_seconds,
-      overdue: w.oldest_seconds > o.turnaroundHours * 3600,
+      // Clinical exams have their own, shorter target: a patient may be waiting on the answer.
+      overdue: w.oldest_seconds > (w.setting === "clinical" ? o.clinicalTurnaroundHours : o.turnaroundHours) * 3600,
     })),
     held: o.held.map((h) => ({
       ...(presentAssignment(h as AssignmentRow) as QueueOverview["held"][number]),

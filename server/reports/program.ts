@@ -4,7 +4,11 @@
 import type { ProgramReportRows } from "../repositories/program-report";
 import { BACKLOG_BUCKETS, type ProgramReport } from "../../shared/schemas/reports";
 
-export function programReport(from: string, to: string, { backlog, submitted, reviewed, volume, reviewers }: ProgramReportRows): ProgramReport {
+export function programReport(
+  from: string,
+  to: string,
+  { backlog, submitted, reviewed, volume, reviewers }: ProgramReportRows,
+): Omit<ProgramReport, "followUps"> {
   const weeks = [...new Set([...submitted.map((s) => s.week), ...reviewed.map((r) => r.week)])].sort();
   const round = (x: number | null) => (x === null || x === undefined ? null : Math.round(Number(x) * 10) / 10);
   return {

@@ -229,14 +229,15 @@ export function listUndecidedAdjudications(db: Q, programId: string, opts: { ass
 }
 
 /** Primary and second reads waiting (open, or a claim that ran out) since before `hours` ago, counted per application name. */
-export function overdueReadsByApplication(db: Q, programId: string, hours: number) {
+/** Primary and second reads waiting past their target: `clinicalHours` for clinical exams, `hours` for the rest. */
+export function overdueReadsByApplication(db: Q, programId: string, hours: number, clinicalHours = hours) {
   return db("assignments as a")
     .join("exams as e", "e.id", "a.exam_id")
     .join("applications as ap", "ap.id", "e.application_id")
     .where("a.program_id", programId)
     .whereIn("a.kind", ["primary", "second"])
     .where((q) => q.where("a.state", "open").orWhere((q2) => q2.where("a.state", "claimed").andWhere("a.lease_expires_at", "<=", db.fn.now())))
-    .andWhere("a.due_at", "<", db.raw(`now() - make_interval(hours => ?)`, [hours]))
+    .andWhere("a.due_at", "<", db.raw(`now() - make_interval(hours => CASE WHEN e.setting = 'clinical' THEN ?::int ELSE ?::int END)`, [clinicalHours, hours]))
     .groupBy("ap.name")
     .select("ap.name")
     .count<{ name: string; count: string }[]>("* as count");

@@ -5,7 +5,7 @@ import type { Db } from "../db/knex";
 
 type Q = Db | Knex.Transaction;
 
-export type NotificationKind = "feedback_ready" | "feedback_reply" | "feedback_answer";
+export type NotificationKind = "feedback_ready" | "feedback_reply" | "feedback_answer" | "urgent_follow_up";
 
 export interface NewNotification {
   programId: string;

@@ -67,6 +67,8 @@ export async function insertReview(
     limited: boolean;
     credit: boolean;
     significantDisagreement: boolean;
+    /** The reason given with an urgent flag ("needs clinical follow-up now"), or null. */
+    urgentReason?: string | null;
     at?: Date;
   },
 ): Promise<{ id: string; submitted_at: Date; credit: boolean }> {
@@ -82,6 +84,7 @@ export async function insertReview(
       feedback: r.feedback,
       time_spent_seconds: r.timeSpentSeconds,
       limited: r.limited,
+      urgent_reason: r.urgentReason ?? null,
       credit: r.credit,
       significant_disagreement: r.significantDisagreement,
       ...(r.at ? { submitted_at: r.at } : {}),

@@ -4,10 +4,11 @@
 import type { Knex } from "knex";
 import type { Db } from "../db/knex";
 import { queueMail } from "../mail/outbox";
+import { programSettingsSchema } from "../../shared/schemas/reviews";
 import { threadReviewers } from "../policies/exam";
 import { overdueReadsByApplication } from "../repositories/assignments";
 import { insertNotifications } from "../repositories/notifications";
-import { feedbackReadyMail, overdueDigestMail, replyMail } from "../mail/templates";
+import { feedbackReadyMail, overdueDigestMail, replyMail, urgentFollowUpMail } from "../mail/templates";
 
 /** The sonographer's feedback is final: a notification and an e-mail. */
 export async function feedbackReady(
@@ -30,6 +31,45 @@ export async function feedbackReady(
     trx,
     feedbackReadyMail({ to: user.email, name: user.name, application: app.name, code: exam.code, link: `${appUrl}/feedback/${exam.id}` }),
     exam.program_id,
+  );
+}
+
+/**
+ * A read flagged "needs clinical follow-up now": every active QA lead of the program gets a
+ * notification and an e-mail, and the program's on-call address (if set) an e-mail, in the
+ * flagging transaction (delivered as soon as it commits). The exam is named by its code only.
+ */
+export async function urgentFollowUp(
+  trx: Knex.Transaction,
+  appUrl: string,
+  f: { exam: { id: string; program_id: string; code: string }; reason: string; onCall: string; dueHours: number },
+): Promise<void> {
+  const app = await trx("exams as e").join("applications as a", "a.id", "e.application_id").where("e.id", f.exam.id).first("a.name");
+  const leads = await trx("memberships as m")
+    .join("users as u", "u.id", "m.user_id")
+    .where("m.program_id", f.exam.program_id)
+    .whereNull("m.deactivated_at")
+    .whereRaw(`'qa_lead' = ANY(m.roles)`)
+    .select("u.id", "u.email", "u.name");
+  await insertNotifications(
+    trx,
+    leads.map((l) => ({
+      programId: f.exam.program_id,
+      userId: l.id,
+      kind: "urgent_follow_up" as const,
+      examId: f.exam.id,
+      body: `Urgent: exam ${f.exam.code} (${app.name}) was flagged as needing clinical follow-up now.`,
+    })),
+  );
+  const link = `${appUrl}/oversight/follow-ups`;
+  const to = [...leads.map((l) => ({ email: l.email as string, name: l.name as string })), ...(f.onCall ? [{ email: f.onCall, name: "on-call team" }] : [])];
+  const seen = new Set<string>();
+  await queueMail(
+    trx,
+    to
+      .filter((t) => !seen.has(t.email.toLowerCase()) && seen.add(t.email.toLowerCase()))
+      .map((t) => urgentFollowUpMail({ to: t.email, name: t.name, code: f.exam.code, application: app.name, reason: f.reason, dueHours: f.dueHours, link })),
+    f.exam.program_id,
   );
 }
 
@@ -58,8 +98,10 @@ export async function sendOverdueDigests(db: Db, appUrl: string): Promise<number
   const programs = await db("programs").select("id", "name", "settings");
   let sent = 0;
   for (const p of programs) {
-    const hours = Number(p.settings?.turnaroundHours ?? 72);
-    const overdue = await overdueReadsByApplication(db, p.id, hours);
+    const settings = programSettingsSchema.parse(p.settings ?? {});
+    const hours = settings.turnaroundHours;
+    const clinicalHours = settings.clinicalTurnaroundHours;
+    const overdue = await overdueReadsByApplication(db, p.id, hours, clinicalHours);
     if (overdue.length === 0) continue;
     const reviewers = await db("memberships as m")
       .join("users as u", "u.id", "m.user_id")
@@ -70,7 +112,7 @@ export async function sendOverdueDigests(db: Db, appUrl: string): Promise<number
     const rows = overdue.map((o) => ({ application: o.name, count: Number(o.count) }));
     await queueMail(
       db,
-      reviewers.map((r) => overdueDigestMail({ to: r.email, name: r.name, programName: p.name, hours, rows, link: `${appUrl}/queue` })),
+      reviewers.map((r) => overdueDigestMail({ to: r.email, name: r.name, programName: p.name, hours, clinicalHours, rows, link: `${appUrl}/queue` })),
       p.id,
     );
     sent += reviewers.length;

@@ -57,7 +57,7 @@ export async function queueOverview(db: Db, actor: Actor) {
     heldClaims(db, actor.programId, actor.userId),
     getSettings(db, actor.programId),
   ]);
-  return { waiting, held, turnaroundHours: settings.turnaroundHours };
+  return { waiting, held, turnaroundHours: settings.turnaroundHours, clinicalTurnaroundHours: settings.clinicalTurnaroundHours };
 }
 
 interface ClaimOptions {

@@ -2,6 +2,7 @@
 // "Report"): each gathers its rows from the repositories and hands them to its report in
 // server/reports/, which computes and renders it. Exporting the credentialing report is
 // recorded in the audit log.
+import { followUpReport } from "../repositories/follow-ups";
 import type { Db } from "../db/knex";
 import type { AuthUser } from "../auth/types";
 import type { Actor } from "./actor";
@@ -42,7 +43,10 @@ export async function agreementReport(db: Db, programId: string, query: z.output
 export async function programReport(db: Db, programId: string, query: z.output<typeof programReportQuerySchema>): Promise<ProgramReport> {
   const from = query.from ?? new Date(Date.now() - 84 * 86400_000).toISOString().slice(0, 10);
   const to = query.to ?? new Date().toISOString().slice(0, 10);
-  return computeProgramReport(from, to, await programReportRows(db, programId, from, to));
+  const report = computeProgramReport(from, to, await programReportRows(db, programId, from, to));
+  const followUps = await followUpReport(db, programId, { from: new Date(`${from}T00:00:00Z`), to: new Date(Date.parse(`${to}T00:00:00Z`) + 86400_000) });
+  const round = (x: number | null) => (x === null ? null : Math.round(x * 10) / 10);
+  return { ...report, followUps: { ...followUps, medianHoursToClose: round(followUps.medianHoursToClose), p90HoursToClose: round(followUps.p90HoursToClose) } };
 }
 
 export interface ReportFile {

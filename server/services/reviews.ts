@@ -7,7 +7,7 @@ import type { Db } from "../db/knex";
 import { HttpError, notFound } from "../http/errors";
 import type { Role } from "../../shared/roles";
 import type { Actor } from "./actor";
-import { feedbackReady } from "./notify";
+import { feedbackReady, urgentFollowUp } from "./notify";
 import { assertMayAdjudicate, assertNotOwnExam, assertOwnClaim, type ReadAct } from "../policies/review";
 import { examContext } from "../repositories/exams";
 import { getRubric } from "../repositories/rubrics";
@@ -122,6 +122,7 @@ export async function settleExam(
       programId: exam.program_id,
       examId: exam.id,
       reviewId: final.reviewId ?? null,
+      dueHours: settings.followUpDueHours,
       reason: `Clinically significant disagreement on a clinical exam: ${significant.map((k) => exam.findingLabels.find((f) => f.key === k)?.label ?? k).join(", ")} (the clinician's read differs from the ${final.source === "adjudicated" ? "adjudicated" : "reviewer's"} read). Consider whether the patient needs a callback.`,
     });
   }
@@ -204,7 +205,7 @@ export async function recordReview(
     assignment: { id: string; kind: string };
     exam: ExamContext;
     rubric: Rubric;
-    body: { scores: Scores; reads: Read[]; feedback: string; timeSpentSeconds: number; limited?: boolean };
+    body: { scores: Scores; reads: Read[]; feedback: string; timeSpentSeconds: number; limited?: boolean; urgent?: { reason: string } | null };
     settings: ProgramSettings;
     ip?: string | null;
     at?: Date;
@@ -224,6 +225,7 @@ export async function recordReview(
     limited: r.body.limited ?? false,
     credit,
     significantDisagreement: significant.length > 0,
+    urgentReason: r.body.urgent?.reason ?? null,
     at: r.at,
   });
   await markSubmitted(trx, r.assignment.id, r.reviewerId, r.at);
@@ -289,6 +291,35 @@ async function decide<T>(
   return result;
 }
 
+/**
+ * A reviewer's "needs clinical follow-up now": an urgent follow-up opens at once (or the open
+ * one becomes urgent), due by the program's urgent target, and the QA leads and the on-call
+ * address are told now, in the app and by e-mail, whatever second read or adjudication follows.
+ */
+async function flagUrgent(
+  trx: Knex.Transaction,
+  appUrl: string,
+  actor: Actor,
+  f: { exam: ExamContext & { code: string }; reviewId: string; reason: string; settings: ProgramSettings },
+) {
+  const followUp = await openFollowUp(trx, {
+    programId: f.exam.program_id,
+    examId: f.exam.id,
+    reviewId: f.reviewId,
+    reason: `Flagged while scoring as needing clinical follow-up now: ${f.reason}`,
+    dueHours: f.settings.urgentFollowUpDueHours,
+    urgent: true,
+    flaggedBy: actor.userId,
+  });
+  await auditAs(trx, actor, {
+    action: "follow_up.urgent_flagged",
+    entityType: "follow_up",
+    entityId: followUp.id,
+    details: { examId: f.exam.id, reviewId: f.reviewId },
+  });
+  await urgentFollowUp(trx, appUrl, { exam: f.exam, reason: f.reason, onCall: f.settings.onCallEmail, dueHours: f.settings.urgentFollowUpDueHours });
+}
+
 /** A reviewer submits the read they hold: scores, their own read of each finding and feedback. */
 export async function submitRead(db: Db, appUrl: string, actor: Actor, assignmentId: string, body: z.output<typeof submitReviewSchema>) {
   return db.transaction(async (trx) => {
@@ -302,6 +333,9 @@ export async function submitRead(db: Db, appUrl: string, actor: Actor, assignmen
       body,
       write: async ({ exam, rubric, settings }) => {
         const { review, examState } = await recordReview(trx, { reviewerId: actor.userId, assignment: a, exam, rubric, body, settings, ip: actor.ip });
+        if (body.urgent && a.kind !== "calibration") {
+          await flagUrgent(trx, appUrl, actor, { exam, reviewId: review.id, reason: body.urgent.reason, settings });
+        }
         return { final: examState === "final", result: { review, examState } };
       },
     });

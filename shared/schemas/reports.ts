@@ -116,5 +116,16 @@ export const programReportSchema = z.object({
   ),
   volume: z.array(z.object({ week: z.string(), application: z.string(), count: z.number() })),
   reviewers: z.array(reviewerWorkloadSchema),
+  /** Follow-ups closed in the range by outcome ("unrecorded" for those closed before outcomes existed), time to closure, and those open now. */
+  followUps: z.object({
+    byOutcome: z.array(z.object({ outcome: z.string(), count: z.number() })),
+    medianHoursToClose: z.number().nullable(),
+    p90HoursToClose: z.number().nullable(),
+    closedLate: z.number(),
+    urgentClosed: z.number(),
+    open: z.number(),
+    openOverdue: z.number(),
+    openUrgent: z.number(),
+  }),
 });
 export type ProgramReport = z.infer<typeof programReportSchema>;

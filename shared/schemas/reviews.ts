@@ -1,10 +1,16 @@
 // The review queue, scoring, adjudication, feedback and program settings.
 import { z } from "zod";
 import { FINDING_READS } from "../catalogue";
+import { emailSchema } from "./auth";
 
 export const scoreValueSchema = z.union([z.string().min(1).max(40), z.number()]);
 
 export const readSchema = z.object({ key: z.string().min(1).max(60), read: z.enum(FINDING_READS) });
+
+/** A reviewer's flag that the patient may need clinical follow-up now, with the reason. */
+export const urgentFlagSchema = z.object({
+  reason: z.string().trim().min(1, "Say why this patient needs follow-up now").max(1000, "Keep the reason under 1000 characters"),
+});
 
 export const submitReviewSchema = z.object({
   /** The rubric version the scores were made under; must be the assignment's. */
@@ -20,6 +26,8 @@ export const submitReviewSchema = z.object({
     .default(0),
   /** The study is technically limited by patient factors (habitus, air, a patient who cannot move): no credit, and not a failure of technique. */
   limited: z.boolean().default(false),
+  /** "Needs clinical follow-up now": the QA lead and the on-call address are told at once, before any second read or adjudication. */
+  urgent: urgentFlagSchema.nullable().default(null),
 });
 
 export const reviewDraftSchema = z.object({
@@ -53,11 +61,6 @@ export const snippetInputSchema = z.object({
 
 export const messageInputSchema = z.object({ body: z.string().trim().min(1, "Write your question").max(4000) });
 
-export const followUpUpdateSchema = z.object({
-  status: z.enum(["open", "in_progress", "closed"]),
-  note: z.string().max(2000).optional(),
-});
-
 export const programSettingsSchema = z.object({
   /** Share of exams sampled for an independent second read. */
   doubleReadShare: z.number().min(0).max(1).default(0.2),
@@ -65,7 +68,30 @@ export const programSettingsSchema = z.object({
   blindSonographer: z.boolean().default(true),
   /** Sonographers see the reviewer's name on their feedback. */
   showReviewerName: z.boolean().default(true),
-  /** Work waiting longer than this is overdue (reviewer digest). */
+  /** Clinical exams waiting longer than this are overdue (queue, reviewer digest): a patient may be waiting. */
+  clinicalTurnaroundHours: z
+    .number()
+    .int()
+    .min(1)
+    .max(24 * 60)
+    .default(24),
+  /** An address told at once of an urgent flag, besides the QA leads (for example the department's on-call inbox); empty for none. */
+  onCallEmail: z.union([emailSchema, z.literal("")]).default(""),
+  /** A follow-up is overdue this long after it opened. */
+  followUpDueHours: z
+    .number()
+    .int()
+    .min(1)
+    .max(24 * 60)
+    .default(72),
+  /** An urgent follow-up (flagged while scoring) is overdue this long after it opened. */
+  urgentFollowUpDueHours: z
+    .number()
+    .int()
+    .min(1)
+    .max(24 * 60)
+    .default(24),
+  /** Educational and simulated work waiting longer than this is overdue (reviewer digest). */
   turnaroundHours: z
     .number()
     .int()

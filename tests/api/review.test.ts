@@ -2,20 +2,9 @@
 // versions, double reads and adjudication, derived results, feedback delivery, bad input.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
-import {
-  EFAST_FINDING_KEYS,
-  mailsFor,
-  makeClip,
-  makeExam,
-  makeKit,
-  makeMember,
-  makeProgram,
-  type TestKit,
-  type TestMember,
-  tokenFor,
-  waitForMail,
-} from "./helpers";
+import { mailsFor, makeClip, makeExam, makeKit, makeMember, type TestKit, type TestMember, waitForMail } from "./helpers";
 import { queueSubmittedExam, sampledForSecondRead } from "../../server/services/queue";
+import { GOOD, body, negatives, reviewKit } from "./review-kit";
 import { sendOverdueDigests } from "../../server/services/notify";
 
 let kit: TestKit;
@@ -24,54 +13,7 @@ beforeAll(() => {
 });
 afterAll(() => kit.close());
 
-const EFAST_FINDINGS = EFAST_FINDING_KEYS;
-const GOOD = { transducer: "suitable", marker: "follows", depth: "fits", gain: "balanced", plane: "standard", labels: "complete", quality: "4" };
-const negatives = () => EFAST_FINDINGS.map((key) => ({ key, read: "negative" }));
-const body = (over: { scores?: Record<string, string>; reads?: { key: string; read: string }[]; feedback?: string } = {}) => ({
-  scores: { ...GOOD, ...over.scores },
-  reads: over.reads ?? negatives(),
-  feedback: over.feedback ?? "Well fanned views.",
-  timeSpentSeconds: 95,
-});
-
-interface Setup {
-  programId: string;
-  sonographer: TestMember;
-  lead: TestMember;
-  reviewers: TestMember[];
-}
-async function setup(reviewerCount = 2): Promise<Setup> {
-  const p = await makeProgram(kit.db);
-  const sonographer = await makeMember(kit.db, p.id, ["sonographer"]);
-  const lead = await makeMember(kit.db, p.id, ["qa_lead"]);
-  const reviewers = [];
-  for (let i = 0; i < reviewerCount; i++) reviewers.push(await makeMember(kit.db, p.id, ["reviewer"]));
-  return { programId: p.id, sonographer, lead, reviewers };
-}
-/** A submitted exam in the queue; `double` forces a second read or not. */
-async function queued(s: Setup, opts: { double?: boolean; setting?: string; sonographerReads?: string } = {}) {
-  const exam = await makeExam(kit.db, s.programId, s.sonographer.id, { status: "submitted" });
-  await kit
-    .db("exams")
-    .where("id", exam.id)
-    .update({ setting: opts.setting ?? "clinical" });
-  await kit.db("exam_findings").insert(EFAST_FINDINGS.map((key) => ({ exam_id: exam.id, finding_key: key, read: opts.sonographerReads ?? "negative" })));
-  await kit.db.transaction((trx) =>
-    queueSubmittedExam(trx, { id: exam.id, program_id: s.programId, setting: opts.setting ?? "clinical" }, opts.double ? 1 : 0),
-  );
-  return exam;
-}
-const auth = async (m: TestMember) => `Bearer ${await tokenFor(kit, m)}`;
-const next = async (m: TestMember) =>
-  request(kit.app)
-    .post("/api/queue/next")
-    .set("Authorization", await auth(m))
-    .send({});
-const review = async (m: TestMember, assignmentId: string, b: object) =>
-  request(kit.app)
-    .post(`/api/assignments/${assignmentId}/review`)
-    .set("Authorization", await auth(m))
-    .send(b);
+const { setup, queued, auth, next, review } = reviewKit(() => kit);
 
 describe("claiming", () => {
   it("gives 20 reviewers claiming at once 20 distinct assignments and loses none", async () => {

@@ -41,5 +41,6 @@ export function notificationTarget(n: AppNotification): string | null {
   if (!n.examId) return null;
   if (n.kind === "feedback_ready" || n.kind === "feedback_answer") return `/feedback/${n.examId}`;
   if (n.kind === "feedback_reply") return `/reviews/exams/${n.examId}`;
+  if (n.kind === "urgent_follow_up") return "/oversight/follow-ups";
   return null;
 }

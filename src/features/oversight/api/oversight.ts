@@ -4,7 +4,7 @@ import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/r
 import type { Exam } from "../../../../shared/schemas/exams";
 import type { Adjudicated, Adjudication, Reassigned, adjudicationListSchema } from "../../../../shared/schemas/reviewing";
 import type { adjudicateSchema } from "../../../../shared/schemas/reviews";
-import type { FollowUp, FollowUpStatus, followUpListSchema, followUpUpdatedSchema } from "../../../../shared/schemas/follow-ups";
+import type { FollowUp, FollowUpStatus, followUpListSchema, followUpUpdatedSchema, followUpUpdateSchema } from "../../../../shared/schemas/follow-ups";
 import type { z } from "zod";
 import { api } from "../../../lib/api-client";
 import { queryString } from "../../../lib/query-string";
@@ -70,9 +70,11 @@ export function useReassign() {
   );
 }
 
+export type FollowUpChange = z.input<typeof followUpUpdateSchema>;
+
 export function useUpdateFollowUp() {
-  return useOversightMutation(({ id, status, note }: { id: string; status: FollowUpStatus; note?: string }) =>
-    api<z.infer<typeof followUpUpdatedSchema>>(`/follow-ups/${id}`, { method: "PATCH", body: { status, note } }),
+  return useOversightMutation(({ id, ...body }: FollowUpChange & { id: string }) =>
+    api<z.infer<typeof followUpUpdatedSchema>>(`/follow-ups/${id}`, { method: "PATCH", body }),
   );
 }
 

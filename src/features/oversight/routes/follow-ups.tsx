@@ -11,6 +11,7 @@ import { Button } from "../../../components/ui/button";
 import { formatDateTime } from "../../../lib/format";
 import { FOLLOW_UP_WORDS, followUpsQuery, type FollowUp, type FollowUpStatus } from "../api/oversight";
 import { FollowUpDialog } from "../components/follow-up-dialog";
+import { OUTCOME_LABELS } from "../../../../shared/schemas/follow-ups";
 
 const STATUS_TONE = { open: "problem", in_progress: "waiting", closed: "off" } as const;
 const FILTERS = ["open", "in_progress", "closed", "all"] as const;
@@ -28,7 +29,7 @@ export default function FollowUpsPage() {
       <PageHeader
         eyebrow="Oversight"
         title="Follow-ups"
-        description="Clinical exams where the clinician's interpretation and the final read point opposite ways. Decide whether the patient needs a callback, and record what was done."
+        description="Clinical exams a reviewer flagged as needing follow-up now, and those where the clinician's interpretation and the final read point opposite ways. Decide whether the patient needs a callback, and close each with what was done."
       />
       <form
         role="search"
@@ -55,7 +56,8 @@ export default function FollowUpsPage() {
         <ErrorState error={list.error} onRetry={() => void list.refetch()} retrying={list.isFetching} />
       ) : list.data.items.length === 0 ? (
         <EmptyState title={status === "all" ? "No follow-ups" : `No ${FOLLOW_UP_WORDS[status as FollowUpStatus].toLowerCase()} follow-ups`}>
-          A follow-up appears when a final read on a clinical exam disagrees with the clinician&apos;s interpretation.
+          A follow-up appears when a reviewer flags a clinical exam as needing follow-up now, or when a final read on a clinical exam disagrees with the
+          clinician&apos;s interpretation.
         </EmptyState>
       ) : (
         <div className="overflow-x-auto rounded-lg border border-slate-200 bg-white">
@@ -83,7 +85,19 @@ export default function FollowUpsPage() {
                   <td className="whitespace-nowrap px-3 py-2 tabular-nums text-ink-900">{formatDateTime(f.performedAt)}</td>
                   <td className="max-w-md px-3 py-2 text-ink-900">{f.reason}</td>
                   <td className="px-3 py-2">
-                    <StatusTag tone={STATUS_TONE[f.status]}>{FOLLOW_UP_WORDS[f.status]}</StatusTag>
+                    <div className="flex flex-wrap gap-1">
+                      <StatusTag tone={STATUS_TONE[f.status]}>{FOLLOW_UP_WORDS[f.status]}</StatusTag>
+                      {f.urgent && f.status !== "closed" ? <StatusTag tone="problem">Urgent</StatusTag> : null}
+                      {f.overdue ? <StatusTag tone="problem">Overdue</StatusTag> : null}
+                    </div>
+                    {f.status !== "closed" ? <span className="mt-1 block text-xs text-slate-600">Due {formatDateTime(f.dueAt)}</span> : null}
+                    {f.outcome ? <span className="mt-1 block text-xs font-semibold text-ink-900">{OUTCOME_LABELS[f.outcome]}</span> : null}
+                    {f.actedAt && f.status === "closed" ? (
+                      <span className="block text-xs text-slate-600">
+                        Acted on {formatDateTime(f.actedAt)}
+                        {f.actedBy ? ` by ${f.actedBy}` : ""}
+                      </span>
+                    ) : null}
                     {f.closedAt ? (
                       <span className="mt-1 block text-xs text-slate-600">
                         {formatDateTime(f.closedAt)}

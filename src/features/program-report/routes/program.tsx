@@ -15,6 +15,7 @@ import { daysAgo, isIsoDay, isoDay } from "../../../lib/date-range";
 import { formatDate } from "../../../lib/format";
 import { programQuery, type ProgramReport } from "../api/program";
 import { WorkloadTable } from "../components/workload-table";
+import { FollowUpReport } from "../components/follow-up-report";
 import { useSearchState } from "../../../lib/use-search-state";
 
 const hours = (h: number | null) => (h === null ? "—" : h < 10 ? h.toFixed(1) : String(Math.round(h)));
@@ -217,6 +218,8 @@ function Report({ data, stem }: { data: ProgramReport; stem: string }) {
       </ReportSection>
 
       <WorkloadTable reviewers={data.reviewers} filename={`${stem}_reviewers.csv`} />
+
+      <FollowUpReport report={data.followUps} filename={`${stem}_follow-ups.csv`} />
     </>
   );
 }
@@ -228,7 +231,13 @@ export default function ProgramPage() {
   const report = useQuery(programQuery({ from, to }));
   const set = (k: "from" | "to", v: string) => isIsoDay(v) && update({ from, to, [k]: v });
   const data = report.data;
-  const empty = data && data.weekly.every((w) => w.submitted === 0 && w.reviewed === 0) && data.volume.length === 0 && data.backlog.every((b) => b.count === 0);
+  const empty =
+    data &&
+    data.followUps.open === 0 &&
+    data.followUps.byOutcome.length === 0 &&
+    data.weekly.every((w) => w.submitted === 0 && w.reviewed === 0) &&
+    data.volume.length === 0 &&
+    data.backlog.every((b) => b.count === 0);
 
   return (
     <div>

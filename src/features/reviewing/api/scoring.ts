@@ -22,6 +22,8 @@ export interface DraftBody {
 
 export interface SubmitBody extends DraftBody {
   rubricId: string;
+  /** "Needs clinical follow-up now", with the reason; null when not flagged. */
+  urgent?: { reason: string } | null;
 }
 
 const invalidateQueue = (qc: QueryClient) =>

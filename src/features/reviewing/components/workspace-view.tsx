@@ -37,7 +37,15 @@ const KIND_LABELS: Record<string, string> = { primary: "First read", second: "Se
 function issuesByPlace(issues: FieldIssue[], fallback: string): Record<string, string> {
   const out: Record<string, string> = {};
   for (const { path, message } of issues) {
-    const place = path.startsWith("scores.") ? path : path.startsWith("reads") ? "reads" : path === "feedback" ? "feedback" : "form";
+    const place = path.startsWith("scores.")
+      ? path
+      : path.startsWith("reads")
+        ? "reads"
+        : path === "feedback"
+          ? "feedback"
+          : path.startsWith("urgent")
+            ? "urgent.reason"
+            : "form";
     if (!(place in out)) out[place] = message;
   }
   if (Object.keys(out).length === 0) out.form = fallback;
@@ -62,6 +70,8 @@ export function WorkspaceView({ workspace, application, notice }: { workspace: W
   const [reads, setReads] = useState<Record<string, FindingRead>>(() => Object.fromEntries((draft?.reads ?? []).map((r) => [r.key, r.read])));
   const [feedback, setFeedback] = useState(draft?.feedback ?? "");
   const [limited, setLimited] = useState(draft?.limited ?? false);
+  const [urgent, setUrgent] = useState(false);
+  const [urgentReason, setUrgentReason] = useState("");
   const [version, setVersion] = useState(0);
   const [issues, setIssues] = useState<Record<string, string>>({});
   const [focusedCriterion, setFocusedCriterion] = useState<string | null>(null);
@@ -145,19 +155,22 @@ export function WorkspaceView({ workspace, application, notice }: { workspace: W
     const missing = exam.findings.filter((f) => !reads[f.key]);
     if (missing.length)
       local.push({ path: "reads", message: `Record your own read of ${missing.length === 1 ? `"${missing[0].label}"` : `${missing.length} findings`}` });
+    if (urgent && !urgentReason.trim()) local.push({ path: "urgent.reason", message: "Say why this patient needs follow-up now" });
     if (local.length) {
       setIssues(issuesByPlace(local, ""));
       const first = local[0].path.startsWith("scores.")
         ? criterionStopId(local[0].path.slice(7))
         : missing[0]
           ? findingStopId(missing[0].key)
-          : FEEDBACK_STOP_ID;
+          : local[0].path === "urgent.reason"
+            ? "urgent-reason"
+            : FEEDBACK_STOP_ID;
       focusStop(first);
       return;
     }
     autosave.cancel();
     submit.mutate(
-      { body: { ...body(), rubricId: rubric.id }, application },
+      { body: { ...body(), rubricId: rubric.id, urgent: urgent ? { reason: urgentReason.trim() } : null }, application },
       {
         onSuccess: ({ next }) => {
           finished.current = true;
@@ -338,6 +351,53 @@ export function WorkspaceView({ workspace, application, notice }: { workspace: W
               </span>
             </span>
           </label>
+
+          {exam.setting === "clinical" ? (
+            <div className={`rounded-md border px-2.5 py-2 text-sm ${urgent ? "border-coral-400 bg-coral-50" : "border-slate-200 bg-white"}`}>
+              <label className="flex items-start gap-2 text-ink-900">
+                <input
+                  type="checkbox"
+                  checked={urgent}
+                  onChange={(e) => {
+                    setUrgent(e.target.checked);
+                    clearIssue("urgent.reason");
+                  }}
+                  className="mt-0.5 size-4 accent-coral-600"
+                />
+                <span>
+                  <span className="font-semibold">Needs clinical follow-up now</span>
+                  <span className="block text-xs text-slate-600">
+                    The QA lead and the program&apos;s on-call address are told as soon as you submit, before any second read or adjudication.
+                  </span>
+                </span>
+              </label>
+              {urgent ? (
+                <div className="mt-2">
+                  <label htmlFor="urgent-reason" className="block text-xs font-semibold text-ink-900">
+                    Why, in a sentence
+                  </label>
+                  <textarea
+                    id="urgent-reason"
+                    rows={2}
+                    value={urgentReason}
+                    maxLength={1000}
+                    onChange={(e) => {
+                      setUrgentReason(e.target.value);
+                      clearIssue("urgent.reason");
+                    }}
+                    aria-invalid={issues["urgent.reason"] ? true : undefined}
+                    aria-describedby={issues["urgent.reason"] ? "urgent-reason-error" : undefined}
+                    className="mt-1 block w-full rounded-md border border-slate-400 bg-white px-2 py-1 text-sm text-ink-950 focus-visible:outline-2 focus-visible:outline-sea-600"
+                  />
+                  {issues["urgent.reason"] ? (
+                    <p id="urgent-reason-error" className="mt-1 text-xs text-coral-700">
+                      {issues["urgent.reason"]}
+                    </p>
+                  ) : null}
+                </div>
+              ) : null}
+            </div>
+          ) : null}
 
           <div className="sticky bottom-0 space-y-2 border-t border-slate-200 bg-paper pt-2 pb-2">
             <FormMessage

@@ -1,4 +1,5 @@
-// Setup → Program settings: the double-read share, blinding, turnaround target, claim length,
+// Setup → Program settings: the double-read share, blinding, turnaround targets, claim length,
+// the patient follow-up targets and on-call address,
 // the credentialing rule and the learning-curve (CUSUM) settings, each explained in plain
 // words. Shares and rates are edited as percentages and stored as fractions.
 import type { ComponentProps } from "react";
@@ -67,6 +68,10 @@ const SERVER_FIELDS = {
   ...PERCENT_FIELDS,
   leaseMinutes: "leaseMinutes",
   turnaroundHours: "turnaroundHours",
+  clinicalTurnaroundHours: "clinicalTurnaroundHours",
+  followUpDueHours: "followUpDueHours",
+  urgentFollowUpDueHours: "urgentFollowUpDueHours",
+  onCallEmail: "onCallEmail",
   minQualityForCredit: "minQualityForCredit",
   credentialingThreshold: "credentialingThreshold",
 } as const satisfies Record<string, keyof FormValues>;
@@ -108,7 +113,7 @@ function SettingsForm({ settings }: { settings: ProgramSettings }) {
   const { errors } = form.formState;
   /** A number input bound to a form field, with its error next to it. */
   const numberField = (
-    name: Exclude<keyof FormValues, "blindSonographer" | "showReviewerName">,
+    name: Exclude<keyof FormValues, "blindSonographer" | "showReviewerName" | "onCallEmail">,
     props: { label: string; hint: string; min?: number; max?: number; step?: number },
   ) => <TextField type="number" className="max-w-xs" {...props} error={errors[name]?.message} {...form.register(name, { valueAsNumber: true })} />;
 
@@ -144,10 +149,36 @@ function SettingsForm({ settings }: { settings: ProgramSettings }) {
           min: 1,
           hint: "How long a reviewer holds an exam they started. When it runs out unfinished, the exam goes back to the queue.",
         })}
-        {numberField("turnaroundHours", {
-          label: "Turnaround target (hours)",
+        {numberField("clinicalTurnaroundHours", {
+          label: "Turnaround target for clinical exams (hours)",
           min: 1,
-          hint: "Work waiting longer than this counts as overdue, and reviewers get a reminder e-mail about it.",
+          hint: "A patient may be waiting on these: clinical exams waiting longer count as overdue, and reviewers get a reminder e-mail about them.",
+        })}
+        {numberField("turnaroundHours", {
+          label: "Turnaround target for educational and simulated exams (hours)",
+          min: 1,
+          hint: "Other work waiting longer than this counts as overdue, with the same reminder.",
+        })}
+      </fieldset>
+      <fieldset className="space-y-4 rounded-lg border border-slate-200 bg-white p-5">
+        <legend className="px-1 text-lg font-semibold text-ink-950">Patient follow-up</legend>
+        <TextField
+          type="email"
+          className="max-w-md"
+          label="On-call address for urgent flags"
+          hint="When a reviewer flags a read as needing clinical follow-up now, the QA leads and this address are e-mailed at once. Leave empty for QA leads only."
+          error={errors.onCallEmail?.message}
+          {...form.register("onCallEmail")}
+        />
+        {numberField("urgentFollowUpDueHours", {
+          label: "Urgent follow-ups are due within (hours)",
+          min: 1,
+          hint: "An urgent follow-up not closed by then is flagged overdue.",
+        })}
+        {numberField("followUpDueHours", {
+          label: "Other follow-ups are due within (hours)",
+          min: 1,
+          hint: "A follow-up opened by a disagreement on the final read, not closed by then, is flagged overdue.",
         })}
       </fieldset>
       <fieldset className="space-y-4 rounded-lg border border-slate-200 bg-white p-5">
