@@ -15,7 +15,8 @@ export async function up(knex: Knex): Promise<void> {
     t.timestamp("due_at", { useTz: true });
   });
   await knex.raw(`UPDATE follow_ups SET due_at = created_at + interval '72 hours'`);
-  await knex.raw(`ALTER TABLE follow_ups ALTER COLUMN due_at SET NOT NULL`);
+  // The service sets it from the program's targets; this default only covers a bare insert.
+  await knex.raw(`ALTER TABLE follow_ups ALTER COLUMN due_at SET NOT NULL, ALTER COLUMN due_at SET DEFAULT now() + interval '72 hours'`);
   await knex.raw(
     `ALTER TABLE follow_ups ADD CONSTRAINT follow_ups_outcome_valid CHECK (outcome IS NULL OR outcome IN ('patient_contacted','no_action_needed','further_imaging_arranged','referred_to_peer_review','harm_identified','unable_to_contact'))`,
   );

@@ -109,6 +109,8 @@ test("a disagreeing double read is adjudicated, followed up and its feedback ack
         scores: scoresFor(second, "1"),
         reads: efast.findings.map((f) => ({ key: f.key, read: f.key === POSITIVE_FINDING ? "positive" : "negative" })),
         feedback: "I think there is a thin stripe of fluid in Morison's pouch.",
+        // Flagged at once: the follow-up opens now, before the adjudication.
+        urgent: { reason: "Possible free fluid in Morison's pouch on a clinical exam" },
       },
     });
     expect(r2.status(), await r2.text()).toBe(201);
@@ -148,6 +150,8 @@ test("a disagreeing double read is adjudicated, followed up and its feedback ack
     await expect(page.getByRole("heading", { level: 1, name: "Follow-ups" })).toBeVisible();
     const followUp = page.getByRole("row").filter({ has: page.getByRole("link", { name: exam.code }) });
     await expect(followUp).toContainText("Open");
+    await expect(followUp).toContainText("Urgent");
+    await expect(followUp).toContainText("Flagged while scoring as needing clinical follow-up now");
     // The reason names the finding by its label (shared/catalogue.ts), not its key.
     await expect(followUp).toContainText("Free fluid, right upper quadrant");
     await followUp.getByRole("button", { name: `Update follow-up on ${exam.code}` }).click();
@@ -160,6 +164,25 @@ test("a disagreeing double read is adjudicated, followed up and its feedback ack
     await shot(page, testInfo, "oversight-follow-ups");
     await page.getByLabel("Status").selectOption("closed");
     await expect(page.getByText("No closed follow-ups")).toBeVisible();
+    await page.getByLabel("Status").selectOption("all");
+
+    // Closing asks for the outcome, and this outcome for a note.
+    await followUp.getByRole("button", { name: `Update follow-up on ${exam.code}` }).click();
+    await dialog.getByRole("radio", { name: "Closed" }).check();
+    await dialog.getByLabel("Note").fill("");
+    await dialog.getByRole("button", { name: "Save" }).click();
+    await expect(dialog.getByText("Choose the outcome to close this follow-up")).toBeVisible();
+    await dialog.getByLabel("Outcome").selectOption({ label: "Unable to contact" });
+    await dialog.getByRole("button", { name: "Save" }).click();
+    await expect(dialog.getByText('Write a note: "Unable to contact" needs one')).toBeVisible();
+    await dialog.getByLabel("Who acted").fill("Night registrar");
+    await dialog.getByLabel(/^Note/).fill("Three calls, no answer; letter sent to the address on file.");
+    await dialog.getByRole("button", { name: "Save" }).click();
+    await expect(dialog).toBeHidden();
+    await expect(followUp).toContainText("Closed");
+    await expect(followUp).toContainText("Unable to contact");
+    await expect(followUp).toContainText("by Night registrar");
+    await shot(page, testInfo, "oversight-follow-up-closed");
 
     // The sonographer is told, reads the feedback and acknowledges it.
     const learner = await signIn(browser, SONOGRAPHER);

@@ -83,7 +83,7 @@ export default function FollowUpsPage() {
                   </td>
                   <td className="px-3 py-2 text-ink-900">{f.sonographer}</td>
                   <td className="whitespace-nowrap px-3 py-2 tabular-nums text-ink-900">{formatDateTime(f.performedAt)}</td>
-                  <td className="max-w-md px-3 py-2 text-ink-900">{f.reason}</td>
+                  <td className="max-w-md whitespace-pre-line px-3 py-2 text-ink-900">{f.reason}</td>
                   <td className="px-3 py-2">
                     <div className="flex flex-wrap gap-1">
                       <StatusTag tone={STATUS_TONE[f.status]}>{FOLLOW_UP_WORDS[f.status]}</StatusTag>
@@ -100,7 +100,7 @@ export default function FollowUpsPage() {
                     ) : null}
                     {f.closedAt ? (
                       <span className="mt-1 block text-xs text-slate-600">
-                        {formatDateTime(f.closedAt)}
+                        Closed {formatDateTime(f.closedAt)}
                         {f.closedBy ? ` by ${f.closedBy}` : ""}
                       </span>
                     ) : null}
