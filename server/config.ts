@@ -16,6 +16,12 @@ export interface Config {
   host: string;
   databaseUrl: string;
   jwtSecret: string;
+  /**
+   * The AES-256 key that seals encounter references at rest (ENCOUNTER_KEY: 32 bytes, base64
+   * or hex). Development makes one in the data folder; test uses a fixed one; production has
+   * none unless set, and then refuses references.
+   */
+  encounterKey: Buffer | null;
   /** Lifetime of a session token, in seconds. */
   sessionTtlSeconds: number;
   cookieSecure: boolean;
@@ -105,6 +111,31 @@ function jwtSecretFor(mode: Config["env"], env: NodeJS.ProcessEnv, dataDir?: str
   return mode === "test" ? TEST_JWT_SECRET : developmentJwtSecret(dataDir);
 }
 
+/** A 32-byte key from base64 or hex, or a ConfigError naming the variable. */
+export function parseKey(value: string, name: string): Buffer {
+  const v = value.trim();
+  const key = /^[0-9a-fA-F]{64}$/.test(v) ? Buffer.from(v, "hex") : Buffer.from(v, "base64");
+  if (key.length !== 32) throw new ConfigError(`${name} must be 32 bytes, as base64 or hex (e.g. \`openssl rand -base64 32\`)`);
+  return key;
+}
+
+function encounterKeyFor(mode: Config["env"], env: NodeJS.ProcessEnv, dataDir: string = DATA_DIR): Buffer | null {
+  if (env.ENCOUNTER_KEY) return parseKey(env.ENCOUNTER_KEY, "ENCOUNTER_KEY");
+  if (mode === "production") return null;
+  // Tests share one fixed key across processes; it protects nothing and is used nowhere else.
+  if (mode === "test") return crypto.createHash("sha256").update("soundings test encounter key").digest();
+  const file = path.join(dataDir, "encounter-key");
+  if (!fs.existsSync(file)) {
+    fs.mkdirSync(dataDir, { recursive: true });
+    try {
+      fs.writeFileSync(file, crypto.randomBytes(32).toString("base64") + "\n", { mode: 0o600, flag: "wx" });
+    } catch (err) {
+      if ((err as NodeJS.ErrnoException).code !== "EEXIST") throw err;
+    }
+  }
+  return parseKey(fs.readFileSync(file, "utf8"), file);
+}
+
 function int(value: string | undefined, fallback: number, name: string): number {
   if (value === undefined || value === "") return fallback;
   const n = Number(value);
@@ -158,6 +189,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, opts: { dataDir
     host: env.HOST || "127.0.0.1",
     databaseUrl: env.DATABASE_URL ?? "postgres://postgres@127.0.0.1:54329/soundings",
     jwtSecret,
+    encounterKey: encounterKeyFor(mode, env, opts.dataDir),
     sessionTtlSeconds: int(env.SESSION_TTL_SECONDS, 12 * 3600, "SESSION_TTL_SECONDS"),
     cookieSecure: env.COOKIE_SECURE ? env.COOKIE_SECURE === "true" : mode === "production",
     appUrl: (env.APP_URL ?? `http://127.0.0.1:${port}`).replace(/\/$/, ""),

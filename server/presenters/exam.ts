@@ -86,6 +86,8 @@ export const guideOf = (e: { application_id: string; app_version: number; app_or
 
 export interface ExamDetailRow {
   id: string;
+  /** Sealed (server/auth/sealed.ts); never presented. */
+  encounter_ref_sealed?: string | null;
   program_id: string;
   code: string;
   status: Exam["status"];
@@ -130,6 +132,7 @@ export function presentExam(
     submittedAt: e.submitted_at?.toISOString() ?? null,
     createdAt: e.created_at.toISOString(),
     updatedAt: e.updated_at.toISOString(),
+    hasEncounterRef: opts.forOwner ? Boolean(e.encounter_ref_sealed) : null,
   };
 }
 

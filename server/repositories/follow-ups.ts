@@ -18,7 +18,15 @@ export async function listFollowUps(db: Q, programId: string, status?: FollowUpS
   const rows = await q
     // Urgent and overdue first: what needs someone now.
     .orderByRaw("(f.status <> 'closed' AND f.urgent) DESC, (f.status <> 'closed' AND f.due_at < now()) DESC, f.created_at DESC")
-    .select("f.*", "e.code", "e.performed_at", "ap.name as application", "s.name as sonographer", "c.name as closed_by_name");
+    .select(
+      "f.*",
+      "e.code",
+      "e.performed_at",
+      db.raw("e.encounter_ref_sealed IS NOT NULL as has_encounter_ref"),
+      "ap.name as application",
+      "s.name as sonographer",
+      "c.name as closed_by_name",
+    );
   return rows.map((r) => ({
     id: r.id,
     examId: r.exam_id,
@@ -38,6 +46,7 @@ export async function listFollowUps(db: Q, programId: string, status?: FollowUpS
     actedBy: r.acted_by,
     dueAt: r.due_at.toISOString(),
     overdue: r.status !== "closed" && r.due_at.getTime() < Date.now(),
+    hasEncounterRef: Boolean(r.has_encounter_ref),
   }));
 }
 

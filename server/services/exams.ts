@@ -2,6 +2,7 @@
 // review (which queues its reads and, by default, lets the originals go), discard it.
 import type { z } from "zod";
 import type { Db } from "../db/knex";
+import { seal } from "../auth/sealed";
 import type { Knex } from "knex";
 import type { Config } from "../config";
 import type { Storage } from "../storage/types";
@@ -36,7 +37,7 @@ import type { ExamView } from "../presenters/exam";
 export interface ExamDeps {
   db: Db;
   storage: Storage;
-  config: Pick<Config, "originalRetention">;
+  config: Pick<Config, "originalRetention"> & { encounterKey?: Buffer | null };
   log: (msg: unknown) => void;
 }
 
@@ -77,6 +78,17 @@ export async function examForViewer(db: Db, user: AuthUser, id: string): Promise
 export const listMyExams = (db: Db, user: AuthUser, query: z.output<typeof examListQuerySchema>) => listOwnExams(db, user.programId, user.id, query);
 
 /** Creates a draft with the sonographer's own read of each finding. */
+/** Seals and stores an exam's encounter reference ("" removes it); refused when the server has no key. */
+async function setEncounterRef(trx: Knex.Transaction, key: Buffer | null | undefined, examId: string, ref: string) {
+  if (ref && !key)
+    throw new HttpError(503, "encounter_ref_unavailable", "encounterRef: this server is not set up to keep encounter references (ENCOUNTER_KEY)", [
+      { path: "encounterRef", message: "Not set up on this server" },
+    ]);
+  await trx("exams")
+    .where("id", examId)
+    .update({ encounter_ref_sealed: ref ? seal(key!, examId, ref) : null });
+}
+
 export async function createExam(deps: ExamDeps, user: AuthUser, actor: Actor, body: z.output<typeof examCreateSchema>): Promise<ExamView> {
   const { db } = deps;
   const id = await db.transaction(async (trx) => {
@@ -97,6 +109,7 @@ export async function createExam(deps: ExamDeps, user: AuthUser, actor: Actor, b
       });
     }
     await replaceFindings(trx, row!.id, body.findings);
+    if (body.encounterRef) await setEncounterRef(trx, deps.config.encounterKey, row!.id, body.encounterRef);
     await auditAs(trx, actor, { action: "exam.created", entityType: "exam", entityId: row!.id });
     return row!.id;
   });
@@ -124,6 +137,7 @@ export async function updateExam(deps: ExamDeps, user: AuthUser, actor: Actor, i
       if (body[field] !== undefined) changes[column] = body[field];
     }
     await updateExamColumns(trx, exam.id, changes);
+    if (body.encounterRef !== undefined) await setEncounterRef(trx, deps.config.encounterKey, exam.id, body.encounterRef);
     if (body.findings) await replaceFindings(trx, exam.id, body.findings);
     // Findings of another application do not carry over.
     else if (body.applicationCode) await dropFindingsOutside(trx, exam.id, app.id);

@@ -32,6 +32,16 @@ export const examFieldsSchema = z.object({
     .max(50)
     .default([])
     .refine((f) => new Set(f.map((x) => x.key)).size === f.length, "Each finding may be read once"),
+  /**
+   * An encounter or accession reference for a callback (optional): sealed at rest, shown only
+   * to a QA lead on a follow-up, never returned here. "" removes it; absent leaves it as it is.
+   */
+  encounterRef: z
+    .string()
+    .trim()
+    .max(64, "An encounter reference has at most 64 characters")
+    .regex(/^[A-Za-z0-9 ._:/#-]*$/, "Use letters, digits and . _ : / # - only")
+    .optional(),
 });
 export type ExamFieldsInput = z.input<typeof examFieldsSchema>;
 
@@ -111,6 +121,8 @@ export const examSchema = z.object({
   submittedAt: z.string().nullable(),
   createdAt: z.string(),
   updatedAt: z.string(),
+  /** For the clinician who made the exam: whether an encounter reference is kept (never the reference); null for anyone else. */
+  hasEncounterRef: z.boolean().nullable(),
 });
 export type Exam = z.infer<typeof examSchema>;
 

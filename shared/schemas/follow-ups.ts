@@ -69,8 +69,11 @@ export const followUpSchema = z.object({
   dueAt: z.string(),
   /** Not closed and past its due time. */
   overdue: z.boolean(),
+  /** The clinician gave an encounter reference (opened on request, audited). */
+  hasEncounterRef: z.boolean(),
 });
 export type FollowUp = z.infer<typeof followUpSchema>;
 
 export const followUpListSchema = z.object({ items: z.array(followUpSchema) });
 export const followUpUpdatedSchema = z.object({ id: z.uuid(), status: followUpStatusSchema });
+export const encounterRefSchema = z.object({ reference: z.string() });

@@ -223,6 +223,12 @@ const MATRIX: Row[] = [
     expect: only(["qa_lead", "reviewer"], 409),
   },
   { route: "GET /follow-ups", call: fixed("/api/follow-ups"), expect: only(["qa_lead"], 200) },
+  // The matrix's follow-up has no encounter reference: a QA lead gets as far as 404.
+  {
+    route: "POST /follow-ups/:id/encounter-reference",
+    call: async () => ({ path: `/api/follow-ups/${await followUp()}/encounter-reference` }),
+    expect: only(["qa_lead"], 404),
+  },
   {
     route: "PATCH /follow-ups/:id",
     call: async () => ({ path: `/api/follow-ups/${await followUp()}`, body: { status: "in_progress" } }),

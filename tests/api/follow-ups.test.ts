@@ -7,7 +7,10 @@
 // their own shorter target in the queue and the digest.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
-import { makeKit, waitForMail, type TestKit } from "./helpers";
+import { execFileSync } from "node:child_process";
+import path from "node:path";
+import { efastExamBody, makeKit, waitForMail, type TestKit, type TestMember } from "./helpers";
+import { pgBinDir } from "../../scripts/lib/postgres";
 import { body, negatives, reviewKit } from "./review-kit";
 import { updateSettings } from "../../server/repositories/settings";
 import { sendOverdueDigests } from "../../server/services/notify";
@@ -153,5 +156,75 @@ describe("clinical turnaround", () => {
     const mail = await waitForMail(s.reviewers[0].email, "waiting past the turnaround target");
     expect(mail.text).toMatch(/1 exam read\(s\)/);
     expect(mail.text).toContain("2 hours for clinical exams, 72 hours for the rest");
+  });
+});
+
+describe("encounter reference", () => {
+  it("is sealed at rest (not in pg_dump), shown to no one but a QA lead on a follow-up, and every reveal is audited", async () => {
+    const s = await setup(1);
+    const ref = `ENC-${Math.floor(Math.random() * 1e9)}`;
+    const created = await request(kit.app)
+      .post("/api/exams")
+      .set("Authorization", await auth(s.sonographer))
+      .send({ ...efastExamBody(), encounterRef: ref });
+    expect(created.status).toBe(201);
+    expect(created.body.exam.hasEncounterRef).toBe(true);
+    expect(JSON.stringify(created.body)).not.toContain(ref);
+    const examId = created.body.exam.id as string;
+    // Bad input is named by its field and nothing is kept.
+    const bad = await request(kit.app)
+      .patch(`/api/exams/${examId}`)
+      .set("Authorization", await auth(s.sonographer))
+      .send({ encounterRef: "<script>" });
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.message).toMatch(/^encounterRef: /);
+
+    const row = await kit.db("exams").where("id", examId).first("encounter_ref_sealed");
+    expect(row.encounter_ref_sealed).toMatch(/^v1:/);
+    expect(row.encounter_ref_sealed).not.toContain(ref);
+    // A plain-text dump of the whole database (PostgreSQL's own pg_dump) never holds it.
+    const dump = execFileSync(path.join(pgBinDir(), "pg_dump"), ["--data-only", `--dbname=${kit.config.databaseUrl}`], {
+      encoding: "utf8",
+      maxBuffer: 1 << 30,
+    });
+    expect(dump).toContain(row.encounter_ref_sealed);
+    expect(dump).not.toContain(ref);
+
+    const [f] = await kit.db("follow_ups").insert({ program_id: s.programId, exam_id: examId, reason: "Callback" }).returning("id");
+    const reveal = async (m: TestMember) =>
+      request(kit.app)
+        .post(`/api/follow-ups/${f.id}/encounter-reference`)
+        .set("Authorization", await auth(m));
+    expect((await reveal(s.reviewers[0])).status).toBe(403);
+    expect((await reveal(s.sonographer)).status).toBe(403);
+    const other = await setup(0);
+    expect((await reveal(other.lead)).status).toBe(404);
+    const listed = (
+      await request(kit.app)
+        .get("/api/follow-ups")
+        .set("Authorization", await auth(s.lead))
+    ).body.items.find((x: { id: string }) => x.id === f.id);
+    expect(listed.hasEncounterRef).toBe(true);
+    expect(JSON.stringify(listed)).not.toContain(ref);
+    const opened = await reveal(s.lead);
+    expect(opened.status).toBe(200);
+    expect(opened.body).toEqual({ reference: ref });
+    const audited = await kit.db("audit_log").where({ action: "follow_up.encounter_ref_revealed", entity_id: f.id });
+    expect(audited).toHaveLength(1);
+    expect(audited[0].actor_user_id).toBe(s.lead.id);
+    // Moved to another exam's row, the sealed value does not open (the exam id is bound in).
+    const [f2] = await kit
+      .db("follow_ups")
+      .insert({ program_id: s.programId, exam_id: (await queued(s)).id, reason: "Other" })
+      .returning("id");
+    await kit
+      .db("exams")
+      .where("id", (await kit.db("follow_ups").where("id", f2.id).first()).exam_id)
+      .update({ encounter_ref_sealed: row.encounter_ref_sealed });
+    const moved = await request(kit.app)
+      .post(`/api/follow-ups/${f2.id}/encounter-reference`)
+      .set("Authorization", await auth(s.lead));
+    expect(moved.status).toBe(500);
+    expect(moved.body.error.code).toBe("encounter_ref_unreadable");
   });
 });

@@ -76,6 +76,7 @@ test("a disagreeing double read is adjudicated, followed up and its feedback ack
         preset: "Abdomen",
         indication: "Blunt trauma, haemodynamically stable",
         findings: efast.findings.map((f) => ({ key: f.key, read: "negative" })),
+        encounterRef: "ENC-2026-004471",
       },
     });
     expect(created.status()).toBe(201);
@@ -166,8 +167,11 @@ test("a disagreeing double read is adjudicated, followed up and its feedback ack
     await expect(page.getByText("No closed follow-ups")).toBeVisible();
     await page.getByLabel("Status").selectOption("all");
 
-    // Closing asks for the outcome, and this outcome for a note.
+    // Closing asks for the outcome, and this outcome for a note. The encounter reference opens on request.
     await followUp.getByRole("button", { name: `Update follow-up on ${exam.code}` }).click();
+    await expect(dialog.getByText("ENC-2026-004471")).toHaveCount(0);
+    await dialog.getByRole("button", { name: "Show encounter reference" }).click();
+    await expect(dialog.locator("output")).toHaveText("ENC-2026-004471");
     await dialog.getByRole("radio", { name: "Closed" }).check();
     await dialog.getByLabel("Note").fill("");
     await dialog.getByRole("button", { name: "Save" }).click();

@@ -4,7 +4,7 @@ import { z } from "zod";
 import { followUpStatusSchema } from "../../../shared/schemas/follow-ups";
 
 export { idParamsSchema } from "../../../shared/schemas/common";
-export { followUpListSchema, followUpUpdatedSchema, followUpUpdateSchema } from "../../../shared/schemas/follow-ups";
+export { encounterRefSchema, followUpListSchema, followUpUpdatedSchema, followUpUpdateSchema } from "../../../shared/schemas/follow-ups";
 
 /** GET /follow-ups?status=: one status, or every follow-up. */
 export const followUpListQuerySchema = z.object({ status: followUpStatusSchema.optional() });

@@ -64,7 +64,16 @@ function FindingReads({ form, application }: { form: ExamForm; application: Appl
   );
 }
 
-export function ExamDetailsFields({ form, applications }: { form: ExamForm; applications: Application[] }) {
+export function ExamDetailsFields({
+  form,
+  applications,
+  hasEncounterRef = false,
+}: {
+  form: ExamForm;
+  applications: Application[];
+  /** The draft already keeps an encounter reference (sealed; never shown back). */
+  hasEncounterRef?: boolean;
+}) {
   const {
     register,
     control,
@@ -74,6 +83,7 @@ export function ExamDetailsFields({ form, applications }: { form: ExamForm; appl
   } = form;
   const indicationId = useId();
   const appCode = useWatch({ control, name: "applicationCode" });
+  const setting = useWatch({ control, name: "setting" });
   const application = applications.find((a) => a.code === appCode);
   const usual = application?.usualTransducers.map((t) => TRANSDUCER_LABELS[t]).join(", ");
   const appField = register("applicationCode");
@@ -190,6 +200,21 @@ export function ExamDetailsFields({ form, applications }: { form: ExamForm; appl
         />
         <FieldError id={`${indicationId}-error`} message={errors.indication?.message} />
       </div>
+
+      {setting === "clinical" ? (
+        <TextField
+          label="Encounter or accession reference (optional)"
+          className="max-w-md"
+          autoComplete="off"
+          hint={
+            hasEncounterRef
+              ? "A reference is kept, sealed. Leave this empty to keep it, or type a new one to replace it."
+              : "So the QA lead can find the patient if a callback is needed. Sealed when saved; only a QA lead can open it, on a follow-up."
+          }
+          error={errors.encounterRef?.message}
+          {...register("encounterRef")}
+        />
+      ) : null}
 
       <section aria-labelledby="reads-heading">
         <h3 id="reads-heading" className={legend}>

@@ -22,7 +22,7 @@ import { UploadRow } from "./upload-row";
 
 type Output = z.output<typeof examCreateSchema>;
 
-const FIELDS = ["applicationCode", "performedAt", "setting", "transducer", "preset", "indication", "findings"] as const;
+const FIELDS = ["applicationCode", "performedAt", "setting", "transducer", "preset", "indication", "findings", "encounterRef"] as const;
 
 function valuesOf(exam: Exam | undefined): Partial<ExamFieldsInput> {
   if (!exam) return { applicationCode: "", performedAt: nowToTheMinute(), preset: "", indication: "", findings: [] };
@@ -62,7 +62,8 @@ export function ExamEditor({ exam, applications }: { exam?: Exam; applications: 
   const persist = async (values: Output): Promise<Exam | null> => {
     setFormError(null);
     setSaved(null);
-    const body: ExamFieldsBody = values;
+    // An empty reference field keeps the one kept (it is never sent back to fill it in).
+    const body: ExamFieldsBody = { ...values, encounterRef: values.encounterRef ? values.encounterRef : undefined };
     try {
       const result = exam ? await update.mutateAsync({ id: exam.id, body }) : await create.mutateAsync(body);
       reset(valuesOf(result));
@@ -139,7 +140,7 @@ export function ExamEditor({ exam, applications }: { exam?: Exam; applications: 
         </h2>
         <form onSubmit={onSave} noValidate className="space-y-6">
           <FormMessage message={formError} />
-          <ExamDetailsFields form={form} applications={applications} />
+          <ExamDetailsFields form={form} applications={applications} hasEncounterRef={!!exam?.hasEncounterRef} />
           <div className="flex flex-wrap items-center gap-3 border-t border-slate-100 pt-4">
             <Button type="submit" variant={exam ? "secondary" : "primary"} busy={saving}>
               Save draft

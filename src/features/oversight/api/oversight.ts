@@ -83,3 +83,10 @@ export const FOLLOW_UP_WORDS: Record<FollowUpStatus, string> = {
   in_progress: "In progress",
   closed: "Closed",
 };
+
+/** Opens a follow-up's encounter reference (audited on the server; never cached here). */
+export function useRevealEncounterRef() {
+  return useMutation({
+    mutationFn: (id: string) => api<{ reference: string }>(`/follow-ups/${id}/encounter-reference`, { method: "POST" }).then((r) => r.reference),
+  });
+}

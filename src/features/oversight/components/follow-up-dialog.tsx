@@ -11,7 +11,7 @@ import { TextField } from "../../../components/ui/text-field";
 import { errorMessage, isApiError, validationIssues } from "../../../lib/api-errors";
 import { isoToLocalInput, localInputToIso, nowToTheMinute } from "../../../lib/datetime-local";
 import { formatDateTime } from "../../../lib/format";
-import { FOLLOW_UP_WORDS, useUpdateFollowUp, type FollowUp, type FollowUpStatus } from "../api/oversight";
+import { FOLLOW_UP_WORDS, useRevealEncounterRef, useUpdateFollowUp, type FollowUp, type FollowUpStatus } from "../api/oversight";
 
 export function FollowUpDialog({ followUp, onClose }: { followUp: FollowUp | null; onClose: () => void }) {
   return (
@@ -64,6 +64,7 @@ function FollowUpForm({ followUp, onClose }: { followUp: FollowUp; onClose: () =
         Due {formatDateTime(followUp.dueAt)}
         {followUp.overdue ? <span className="font-semibold text-coral-700"> — overdue</span> : null}
       </p>
+      {followUp.hasEncounterRef ? <EncounterRef followUpId={followUp.id} /> : null}
       <fieldset>
         <legend className="text-sm font-semibold text-ink-900">Status</legend>
         <div className="mt-1 flex flex-wrap gap-4">
@@ -137,5 +138,27 @@ function FollowUpForm({ followUp, onClose }: { followUp: FollowUp; onClose: () =
         </Button>
       </div>
     </form>
+  );
+}
+
+/** The clinician's encounter reference, opened only on request; each opening is audited. */
+function EncounterRef({ followUpId }: { followUpId: string }) {
+  const reveal = useRevealEncounterRef();
+  return (
+    <div className="rounded-md border border-slate-200 bg-paper-200 px-3 py-2 text-sm">
+      {reveal.data ? (
+        <p>
+          Encounter reference: <output className="font-mono font-semibold text-ink-950">{reveal.data}</output>
+        </p>
+      ) : (
+        <div className="flex flex-wrap items-center gap-2">
+          <Button size="sm" variant="secondary" busy={reveal.isPending} onClick={() => reveal.mutate(followUpId)}>
+            Show encounter reference
+          </Button>
+          <span className="text-slate-600">For the callback. Opening it is recorded in the audit log.</span>
+        </div>
+      )}
+      <FormMessage message={reveal.isError ? errorMessage(reveal.error, "The reference could not be opened.") : null} />
+    </div>
   );
 }
