@@ -5,9 +5,9 @@
 // final result keeping the positive finding, finds the follow-up for a possible callback and
 // updates it; the sonographer then reads the feedback and acknowledges it.
 import fs from "node:fs";
-import { expect, test, type APIRequestContext, type Browser, type Page } from "@playwright/test";
+import { expect, test, type Browser, type Page } from "@playwright/test";
 import { fixtureDir, h264Mp4 } from "../api/media-fixtures";
-import { apiAs, PASSWORD, shot } from "./support";
+import { apiAs, claimExam, PASSWORD, shot } from "./support";
 
 const LEAD = "lead@cedarhollow.example";
 const SONOGRAPHER = "sonographer@cedarhollow.example";
@@ -26,22 +26,6 @@ async function signIn(browser: Browser, email: string): Promise<Page> {
   await page.getByRole("button", { name: "Sign in" }).click();
   await expect(page.getByRole("heading", { level: 1, name: "Home" })).toBeVisible();
   return page;
-}
-
-/** Claims until the queue hands over a read of this exam, releasing anything else it hands out. */
-async function claimExam(reviewer: APIRequestContext, examId: string): Promise<Workspace> {
-  const released: string[] = [];
-  for (let i = 0; i < 40; i++) {
-    const res = await reviewer.post("/api/queue/next", { data: {} });
-    expect(res.status(), "a read should be waiting").toBe(200);
-    const ws = (await res.json()) as Workspace;
-    if (ws.exam.id === examId) {
-      for (const id of released) await reviewer.post(`/api/assignments/${id}/release`);
-      return ws;
-    }
-    released.push(ws.assignment.id);
-  }
-  throw new Error("The exam never came out of the queue");
 }
 
 function scoresFor(ws: Workspace, quality: string): Record<string, string> {
@@ -98,13 +82,13 @@ test("a disagreeing double read is adjudicated, followed up and its feedback ack
     expect((await sonographer.post(`/api/exams/${exam.id}/submit`, { data: { attestNoIdentifiers: true } })).ok()).toBeTruthy();
 
     // Two independent reads that disagree on quality and on free fluid.
-    const first = await claimExam(reviewer, exam.id);
+    const first = await claimExam<Workspace>(reviewer, exam.id);
     const negativeReads = efast.findings.map((f) => ({ key: f.key, read: "negative" }));
     const r1 = await reviewer.post(`/api/assignments/${first.assignment.id}/review`, {
       data: { scores: scoresFor(first, "4"), reads: negativeReads, feedback: "Clean views of every window; well done." },
     });
     expect(r1.status(), await r1.text()).toBe(201);
-    const second = await claimExam(secondReviewer, exam.id);
+    const second = await claimExam<Workspace>(secondReviewer, exam.id);
     const r2 = await secondReviewer.post(`/api/assignments/${second.assignment.id}/review`, {
       data: {
         scores: scoresFor(second, "1"),
