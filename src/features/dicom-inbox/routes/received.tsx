@@ -7,7 +7,7 @@ import { useQuery } from "@tanstack/react-query";
 import { PageHeader } from "../../../components/ui/page-header";
 import { EmptyState, ErrorState, LoadingState } from "../../../components/ui/states";
 import { StatusTag } from "../../../components/ui/status-tag";
-import { Button } from "../../../components/ui/button";
+import { Button, buttonClasses } from "../../../components/ui/button";
 import { FormMessage } from "../../../components/ui/form-message";
 import { formatDateTime } from "../../../lib/format";
 import { dicomLine } from "../../../lib/dicom";
@@ -116,10 +116,7 @@ export default function ReceivedStudiesPage() {
                           </Button>
                         ) : null}
                         {isClinician && (mine || open) ? (
-                          <Link
-                            to={`/received/${s.id}/exam`}
-                            className="inline-flex items-center rounded-md bg-sea-700 px-2.5 py-1 text-sm font-semibold text-white hover:bg-sea-800 focus-visible:outline focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-sea-700"
-                          >
+                          <Link to={`/received/${s.id}/exam`} className={buttonClasses("primary", "sm")}>
                             Make exam
                           </Link>
                         ) : null}
